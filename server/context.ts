@@ -1,0 +1,12 @@
+import type BetterSqlite3 from 'better-sqlite3';
+import type { Logger } from 'pino';
+import type { Config } from './config';
+import type { Db } from './db/connection';
+
+/** What every router and service is given: the database, the configuration and the logger. */
+export interface AppContext {
+  db: Db;
+  sqlite: BetterSqlite3.Database;
+  config: Config;
+  logger: Logger;
+}

@@ -1,0 +1,163 @@
+import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
+
+/**
+ * The database's tables, in one place. Classes are integers of half points (see shared/scale.ts);
+ * dates are ISO 8601 text; JSON columns are text.
+ */
+
+type CreatedAt = ColumnType<string, string | undefined, never>;
+
+export interface FederationTable {
+  id: Generated<number>;
+  slug: string;
+  name: string;
+  scale_min: ColumnType<number, number | undefined, number>;
+  scale_max: ColumnType<number, number | undefined, number>;
+  settings: ColumnType<string, string | undefined, string>;
+  created_at: CreatedAt;
+}
+
+export interface UserTable {
+  id: Generated<number>;
+  email: string;
+  display_name: string;
+  password_hash: string | null;
+  is_owner: ColumnType<number, number | undefined, number>;
+  session_version: ColumnType<number, number | undefined, number>;
+  created_at: CreatedAt;
+}
+
+export type Role = 'lead' | 'classifier' | 'researcher';
+
+export interface MembershipTable {
+  id: Generated<number>;
+  user_id: number;
+  federation_id: number;
+  role: Role;
+  active: ColumnType<number, number | undefined, number>;
+  created_at: CreatedAt;
+}
+
+export interface SessionTable {
+  id: string;
+  user_id: number;
+  created_at: string;
+  last_seen_at: string;
+  revoked_at: string | null;
+}
+
+export type ImportSource = 'csv' | 'api' | 'seed';
+
+export interface ImportTable {
+  id: Generated<number>;
+  federation_id: number;
+  user_id: number | null;
+  source: ImportSource;
+  file_name: string | null;
+  file_hash: string | null;
+  status: string;
+  counts: ColumnType<string, string | undefined, string>;
+  created_at: CreatedAt;
+  committed_at: string | null;
+  reverted_at: string | null;
+}
+
+export type CertificationLevel = 'trainee' | 'national' | 'international';
+
+export interface ClassifierTable {
+  id: Generated<number>;
+  federation_id: number;
+  code: string;
+  display_name: string;
+  certification_level: ColumnType<CertificationLevel, CertificationLevel | undefined, CertificationLevel>;
+  active: ColumnType<number, number | undefined, number>;
+  user_id: number | null;
+  import_id: number | null;
+  created_at: CreatedAt;
+}
+
+export interface AthleteTable {
+  id: Generated<number>;
+  federation_id: number;
+  code: string;
+  display_name: string | null;
+  category: ColumnType<string, string | undefined, string>;
+  import_id: number | null;
+  created_at: CreatedAt;
+}
+
+export interface EventTable {
+  id: Generated<number>;
+  federation_id: number;
+  code: string;
+  name: string;
+  starts_on: string | null;
+  ends_on: string | null;
+  level: ColumnType<string, string | undefined, string>;
+  import_id: number | null;
+  created_at: CreatedAt;
+}
+
+export type AssessmentKind = 'first' | 'review' | 'protest';
+
+export interface AssessmentTable {
+  id: Generated<number>;
+  federation_id: number;
+  external_id: string;
+  athlete_id: number;
+  event_id: number | null;
+  assessed_on: string;
+  kind: ColumnType<AssessmentKind, AssessmentKind | undefined, AssessmentKind>;
+  panel_class: number | null;
+  note: string | null;
+  import_id: number | null;
+  created_at: CreatedAt;
+}
+
+export interface RatingTable {
+  id: Generated<number>;
+  assessment_id: number;
+  classifier_id: number;
+  sport_class: number;
+  import_id: number | null;
+}
+
+export interface AuditLogTable {
+  id: Generated<number>;
+  federation_id: number | null;
+  user_id: number | null;
+  action: string;
+  entity: string;
+  entity_id: string | null;
+  detail: ColumnType<string, string | undefined, string>;
+  at: CreatedAt;
+}
+
+export interface Database {
+  federations: FederationTable;
+  users: UserTable;
+  memberships: MembershipTable;
+  sessions: SessionTable;
+  imports: ImportTable;
+  classifiers: ClassifierTable;
+  athletes: AthleteTable;
+  events: EventTable;
+  assessments: AssessmentTable;
+  ratings: RatingTable;
+  audit_log: AuditLogTable;
+}
+
+export type Federation = Selectable<FederationTable>;
+export type User = Selectable<UserTable>;
+export type Membership = Selectable<MembershipTable>;
+export type Classifier = Selectable<ClassifierTable>;
+export type NewClassifier = Insertable<ClassifierTable>;
+export type Athlete = Selectable<AthleteTable>;
+export type Event = Selectable<EventTable>;
+export type Assessment = Selectable<AssessmentTable>;
+export type NewAssessment = Insertable<AssessmentTable>;
+export type AssessmentUpdate = Updateable<AssessmentTable>;
+export type Rating = Selectable<RatingTable>;
+export type NewRating = Insertable<RatingTable>;
+export type ImportRecord = Selectable<ImportTable>;
+export type AuditEntry = Selectable<AuditLogTable>;

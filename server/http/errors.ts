@@ -1,0 +1,66 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { ZodError } from 'zod';
+
+export type ErrorCode =
+  | 'bad_request'
+  | 'validation_failed'
+  | 'unauthenticated'
+  | 'forbidden'
+  | 'not_found'
+  | 'conflict'
+  | 'payload_too_large'
+  | 'rate_limited'
+  | 'gone'
+  | 'internal';
+
+/** An error with an HTTP status that the error middleware turns into {error: {code, message, details?}}. */
+export class HttpError extends Error {
+  readonly status: number;
+  readonly code: ErrorCode;
+  readonly details: unknown;
+
+  constructor(status: number, code: ErrorCode, message: string, details?: unknown) {
+    super(message);
+    this.status = status;
+    this.code = code;
+    this.details = details;
+  }
+}
+
+export const notFound = (what: string) => new HttpError(404, 'not_found', `${what} was not found`);
+export const forbidden = (message = 'You do not have access to this') => new HttpError(403, 'forbidden', message);
+export const unauthenticated = (message = 'Sign in to continue') => new HttpError(401, 'unauthenticated', message);
+
+/** Turns a ZodError into a list of {path, message} that name the field. */
+export function zodDetails(error: ZodError): { path: string; message: string }[] {
+  return error.issues.map((issue) => ({ path: issue.path.join('.'), message: issue.message }));
+}
+
+export const apiNotFound: RequestHandler = (req, _res, next) => {
+  next(new HttpError(404, 'not_found', `No API route for ${req.method} ${req.path}`));
+};
+
+interface LoggerLike {
+  error(obj: unknown, msg?: string): void;
+}
+
+/** The one error middleware: a single JSON shape, and no stack traces outside development. */
+export function errorHandler(options: { exposeStacks: boolean; logger?: LoggerLike }): ErrorRequestHandler {
+  return (err, _req, res, _next) => {
+    let error: HttpError;
+    if (err instanceof HttpError) error = err;
+    else if (err instanceof ZodError) error = new HttpError(400, 'validation_failed', 'The request is not valid', zodDetails(err));
+    else if (err?.type === 'entity.too.large' || err?.code === 'LIMIT_FILE_SIZE') error = new HttpError(413, 'payload_too_large', 'The request body is too large');
+    else if (err?.type === 'entity.parse.failed') error = new HttpError(400, 'bad_request', 'The request body is not valid JSON');
+    else {
+      options.logger?.error({ err }, 'unhandled error');
+      error = new HttpError(500, 'internal', 'Something went wrong on the server');
+    }
+    const body: { error: { code: ErrorCode; message: string; details?: unknown; stack?: string } } = {
+      error: { code: error.code, message: error.message },
+    };
+    if (error.details !== undefined) body.error.details = error.details;
+    if (options.exposeStacks && error.status >= 500 && err instanceof Error) body.error.stack = err.stack;
+    res.status(error.status).json(body);
+  };
+}

@@ -1,0 +1,17 @@
+import { Router } from 'express';
+import type { AppContext } from '../context';
+import { federationsRouter } from './federations';
+import { healthRouter } from './health';
+import { sessionRouter } from './session';
+
+/**
+ * Every API router, mounted under /api. Add a feature's router here; the route × role matrix
+ * test walks this router, so a new route without an access entry fails the tests.
+ */
+export function apiRouter(ctx: AppContext): Router {
+  const router = Router();
+  router.use(healthRouter(ctx));
+  router.use(sessionRouter(ctx));
+  router.use(federationsRouter(ctx));
+  return router;
+}

@@ -1,0 +1,26 @@
+import { z } from 'zod';
+
+export const roleSchema = z.enum(['lead', 'classifier', 'researcher']);
+export type Role = z.infer<typeof roleSchema>;
+
+export const assessmentKindSchema = z.enum(['first', 'review', 'protest']);
+export type AssessmentKind = z.infer<typeof assessmentKindSchema>;
+
+/** Words people read for each assessment kind. */
+export const ASSESSMENT_KIND_LABELS: Record<AssessmentKind, string> = {
+  first: 'First classification',
+  review: 'Review',
+  protest: 'Protest',
+};
+
+export const isoDateSchema = z.iso.date();
+
+/** The one error shape every API route answers with. */
+export const apiErrorSchema = z.object({
+  error: z.object({
+    code: z.string(),
+    message: z.string(),
+    details: z.unknown().optional(),
+  }),
+});
+export type ApiError = z.infer<typeof apiErrorSchema>;

@@ -1,0 +1,20 @@
+import type { Role } from '../../shared/schemas/common';
+
+export interface NavItem {
+  /** Path below /f/:federation ('' is the overview). */
+  path: string;
+  label: string;
+  roles: readonly Role[];
+}
+
+/**
+ * The navigation of a federation, in order. Each page says which roles may use it; the server
+ * checks the same on every API route, so this only keeps people from dead ends.
+ */
+export const NAV_ITEMS: NavItem[] = [
+  { path: '', label: 'Overview', roles: ['lead', 'classifier', 'researcher'] },
+];
+
+export function navFor(role: Role): NavItem[] {
+  return NAV_ITEMS.filter((item) => item.roles.includes(role));
+}

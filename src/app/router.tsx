@@ -1,0 +1,39 @@
+import { createBrowserRouter, type RouteObject } from 'react-router';
+import { OverviewPage } from '../features/overview/components/overview-page';
+import { SignInPage } from '../features/session/components/sign-in-page';
+import { ExpiredLinkPage, ForbiddenPage, NotFoundPage, RouteErrorPage } from './error-pages';
+import { FederationLayout, HomeRedirect, RequireSession } from './layout';
+
+/**
+ * Pages inside a federation, below /f/:federation. Chart-heavy pages are lazy-loaded so the
+ * first chunk stays small.
+ */
+export const federationRoutes: RouteObject[] = [{ index: true, element: <OverviewPage /> }];
+
+/** Pages that need no session (sign-in, links from e-mails). */
+export const publicRoutes: RouteObject[] = [
+  { path: '/sign-in', element: <SignInPage /> },
+  { path: '/expired', element: <ExpiredLinkPage /> },
+];
+
+export const routes: RouteObject[] = [
+  {
+    errorElement: <RouteErrorPage />,
+    children: [
+      ...publicRoutes,
+      {
+        element: <RequireSession />,
+        children: [
+          { path: '/', element: <HomeRedirect /> },
+          { path: '/forbidden', element: <ForbiddenPage /> },
+          { path: '/f/:federation', element: <FederationLayout />, children: federationRoutes },
+        ],
+      },
+      { path: '*', element: <NotFoundPage /> },
+    ],
+  },
+];
+
+export function createAppRouter() {
+  return createBrowserRouter(routes);
+}

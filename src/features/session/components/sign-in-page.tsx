@@ -1,0 +1,64 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useForm } from 'react-hook-form';
+import { Navigate, useNavigate, useSearchParams } from 'react-router';
+import { signInSchema, type SignIn } from '../../../../shared/schemas/session';
+import { BrandMark } from '../../../components/brand';
+import { useSession, useSignIn } from '../api/session';
+
+export function SignInPage() {
+  const session = useSession();
+  const signIn = useSignIn();
+  const navigate = useNavigate();
+  const [params] = useSearchParams();
+  const next = params.get('next');
+  const form = useForm<SignIn>({ resolver: zodResolver(signInSchema), defaultValues: { email: '', password: '' } });
+
+  if (session.data) return <Navigate to={next && next.startsWith('/') ? next : '/'} replace />;
+
+  const onSubmit = form.handleSubmit(async (values) => {
+    await signIn.mutateAsync(values).then(
+      () => navigate(next && next.startsWith('/') ? next : '/', { replace: true }),
+      () => undefined,
+    );
+  });
+  const { errors } = form.formState;
+
+  return (
+    <main className="min-h-screen grid place-items-center px-4 py-10">
+      <div className="w-full max-w-md">
+        <div className="mb-8 flex items-center gap-3">
+          <BrandMark />
+          <div>
+            <p className="text-2xl font-bold tracking-tight">Panelwise</p>
+            <p className="text-sm text-muted">Agreement between classifiers, made visible</p>
+          </div>
+        </div>
+        <form onSubmit={onSubmit} className="card space-y-5" noValidate aria-labelledby="sign-in-title">
+          <h1 id="sign-in-title">Sign in</h1>
+          {signIn.error ? (
+            <p role="alert" className="rounded-lg bg-alert-soft px-3 py-2 text-sm text-alert">
+              {signIn.error.message}
+            </p>
+          ) : null}
+          <div className="field">
+            <label htmlFor="email">E-mail</label>
+            <input id="email" type="email" autoComplete="username" className="input" aria-invalid={errors.email ? true : undefined} {...form.register('email')} />
+            {errors.email ? <p className="field-error">{errors.email.message}</p> : null}
+          </div>
+          <div className="field">
+            <label htmlFor="password">Password</label>
+            <input id="password" type="password" autoComplete="current-password" className="input" aria-invalid={errors.password ? true : undefined} {...form.register('password')} />
+            {errors.password ? <p className="field-error">{errors.password.message}</p> : null}
+          </div>
+          <button type="submit" className="btn btn-primary w-full justify-center" disabled={signIn.isPending}>
+            {signIn.isPending ? 'Signing in…' : 'Sign in'}
+          </button>
+        </form>
+        <p className="mt-6 text-xs text-muted">
+          For a federation's classification programme. Agreement statistics describe consistency between classifiers, not the correctness of
+          any athlete's sport class.
+        </p>
+      </div>
+    </main>
+  );
+}
