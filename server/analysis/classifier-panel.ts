@@ -158,7 +158,7 @@ export function classifiersVsPanel(set: RatingSet, medians: Float64Array = other
       },
     });
   }
-  return out;
+  return out.sort((x, y) => (x.code < y.code ? -1 : x.code > y.code ? 1 : 0));
 }
 
 export interface DeviationSeries {
