@@ -69,5 +69,7 @@ export function proportionStat(k: number, n: number): StatResult {
   const denom = 1 + z2 / n;
   const centre = (p + z2 / (2 * n)) / denom;
   const half = (z * Math.sqrt((p * (1 - p)) / n + z2 / (4 * n * n))) / denom;
-  return { value: p, se: Math.sqrt((p * (1 - p)) / n), ci95: [Math.max(0, centre - half), Math.min(1, centre + half)], n };
+  const lo = k === 0 ? 0 : Math.max(0, centre - half);
+  const hi = k === n ? 1 : Math.min(1, centre + half);
+  return { value: p, se: Math.sqrt((p * (1 - p)) / n), ci95: [lo, hi], n };
 }
