@@ -101,10 +101,14 @@ export function kappaFromTable(table: ArrayLike<number>, q: number, weights: Arr
   };
 }
 
-/** Square root of a variance that may be a rounding error below zero. */
+/**
+ * Square root of a variance computed as a difference of sums: a true variance of 0 comes out
+ * as ±1e-17 or so, whose root (3e-9) would be noise, so values within rounding of 0 count as 0.
+ */
 function sqrtNonNegative(v: number): number | null {
   if (!Number.isFinite(v)) return null;
-  if (v < 0) return v > -1e-12 ? 0 : null;
+  if (Math.abs(v) < 1e-14) return 0;
+  if (v < 0) return null;
   return Math.sqrt(v);
 }
 
