@@ -2,7 +2,7 @@
  * Confusion matrices (counts of class by class): a classifier against the panel's final class,
  * and one classifier against another on their shared assessments.
  */
-import { pairTable, pairTables, type PairTables } from './classifier-pairs';
+import { pairTable, type PairTables } from './classifier-pairs';
 import { classLabel, type RatingSet } from './rating-set';
 
 export interface ConfusionMatrix {
@@ -51,6 +51,17 @@ export function confusionBetween(set: RatingSet, a: string, b: string, pt?: Pair
   const ib = set.classifierCodes.indexOf(b);
   const classes = Array.from({ length: q }, (_, i) => classLabel(set, i));
   if (ia < 0 || ib < 0 || ia === ib) return { classes, rowsAre: a, columnsAre: b, ...toMatrix(new Int32Array(q * q), q) };
-  const flat = pairTable(pt ?? pairTables(set), ia, ib);
+  if (pt) return { classes, rowsAre: a, columnsAre: b, ...toMatrix(pairTable(pt, ia, ib), q) };
+  // One pair only: a direct pass over the assessments.
+  const flat = new Int32Array(q * q);
+  for (let s = 0; s < set.assessmentCount; s++) {
+    let ca = -1;
+    let cb = -1;
+    for (let p = set.ratingStart[s]!; p < set.ratingStart[s + 1]!; p++) {
+      if (set.ratingClassifier[p] === ia) ca = set.ratingClass[p]!;
+      else if (set.ratingClassifier[p] === ib) cb = set.ratingClass[p]!;
+    }
+    if (ca >= 0 && cb >= 0) flat[ca * q + cb]!++;
+  }
   return { classes, rowsAre: a, columnsAre: b, ...toMatrix(flat, q) };
 }
