@@ -51,8 +51,9 @@ export function bootstrapPatterns(
   let defined = 0;
   let undefinedReplicates = 0;
   const weights = new Int32Array(K);
-  // mulberry32, inlined for speed (same sequence as prng.ts).
+  // mulberry32, inlined for speed (same sequence as prng.ts); uint32 → index in [0, N).
   let state = seed >>> 0;
+  const toIndex = N / 4294967296;
   for (let b = 0; b < B; b++) {
     weights.fill(0);
     for (let t = 0; t < N; t++) {
@@ -61,7 +62,7 @@ export function bootstrapPatterns(
       x = Math.imul(x ^ (x >>> 15), x | 1);
       x ^= x + Math.imul(x ^ (x >>> 7), x | 61);
       const u = (x ^ (x >>> 14)) >>> 0;
-      weights[unitPattern[Math.floor((u / 4294967296) * N)]!]!++;
+      weights[unitPattern[(u * toIndex) | 0]!]!++;
     }
     const v = N === 0 ? null : stat(weights);
     if (v === null || !Number.isFinite(v)) undefinedReplicates++;
