@@ -133,6 +133,68 @@ export interface AuditLogTable {
   at: CreatedAt;
 }
 
+export interface CalibrationThresholdsTable {
+  federation_id: number;
+  thresholds: string;
+  updated_by: number | null;
+  updated_at: ColumnType<string, string | undefined, string>;
+}
+
+export interface CalibrationFlagTable {
+  id: Generated<number>;
+  federation_id: number;
+  classifier_id: number;
+  rule: 'kappa' | 'bias' | 'drift';
+  status: ColumnType<'open' | 'acknowledged' | 'closed', 'open' | 'acknowledged' | 'closed' | undefined, 'open' | 'acknowledged' | 'closed'>;
+  note: string | null;
+  evidence: string;
+  evidence_through: string | null;
+  still_met: ColumnType<number, number | undefined, number>;
+  status_by: number | null;
+  opened_at: ColumnType<string, string | undefined, string>;
+  updated_at: ColumnType<string, string | undefined, string>;
+  evaluated_at: ColumnType<string, string | undefined, string>;
+}
+
+export interface ResearchExportSettingsTable {
+  federation_id: number;
+  /** Hex of the federation's HMAC-SHA-256 pseudonym key: server-side only. */
+  pseudonym_key: string;
+  min_athletes: ColumnType<number, number | undefined, number>;
+  created_at: CreatedAt;
+  updated_at: string | null;
+  updated_by: number | null;
+}
+
+export interface ResearchStudyTable {
+  id: Generated<number>;
+  federation_id: number;
+  name: string;
+  purpose: string | null;
+  /** Hex of the study's stable pseudonym salt: server-side only. */
+  salt: string;
+  created_by: number | null;
+  created_at: CreatedAt;
+  closed_at: string | null;
+}
+
+export interface ResearchExportTable {
+  id: Generated<number>;
+  federation_id: number;
+  user_id: number | null;
+  study_id: number | null;
+  /** The export request (scope, fields, date mode) as JSON. */
+  request: string;
+  min_athletes: number;
+  counts: ColumnType<string, string | undefined, string>;
+  /** The generated files; cleared when the export expires. */
+  csv: string | null;
+  json: string | null;
+  dictionary: string | null;
+  created_at: CreatedAt;
+  expires_at: string;
+}
+
 export interface Database {
   federations: FederationTable;
   users: UserTable;
@@ -145,6 +207,8 @@ export interface Database {
   assessments: AssessmentTable;
   ratings: RatingTable;
   audit_log: AuditLogTable;
+  calibration_thresholds: CalibrationThresholdsTable;
+  calibration_flags: CalibrationFlagTable;
 }
 
 export type Federation = Selectable<FederationTable>;

@@ -1,5 +1,6 @@
 import { Router } from 'express';
 import type { AppContext } from '../context';
+import { analyticsRouter } from './analytics';
 import { federationsRouter } from './federations';
 import { healthRouter } from './health';
 import { sessionRouter } from './session';
@@ -13,5 +14,6 @@ export function apiRouter(ctx: AppContext): Router {
   router.use(healthRouter(ctx));
   router.use(sessionRouter(ctx));
   router.use(federationsRouter(ctx));
+  router.use(analyticsRouter(ctx));
   return router;
 }

@@ -1,0 +1,156 @@
+import { Router, type Request } from 'express';
+import { z } from 'zod';
+import { analyticsFiltersSchema, flagThresholdsSchema, flagUpdateSchema, type AnalyticsFilters } from '../../shared/schemas/analytics';
+import { accessOf, requireAccess, type FederationAccess } from '../auth/access';
+import type { AppContext } from '../context';
+import { forbidden, HttpError } from '../http/errors';
+import { parseWith } from '../http/validate';
+import { federationData, filterOptions } from '../services/analytics-data';
+import {
+  boundaries,
+  classDrift,
+  classifierDetail,
+  classifierRows,
+  myAgreement,
+  overviewFigures,
+  pairDetail,
+  pairs,
+  raterDrift,
+} from '../services/analytics';
+import { evaluateFlags, evaluateFlagsOnDataChange, flagsOf, lastEvaluation, saveThresholds, thresholdsOf, updateFlag } from '../services/calibration-flags';
+
+/**
+ * The agreement dashboards' API: /api/federations/:federation/analytics/…
+ *
+ * Who sees what (enforced here, whatever the client shows):
+ * - lead: every view, the flags and their thresholds;
+ * - classifier: federation-wide aggregates (overview, class boundaries, class drift without
+ *   athletes) and their own figures (`/me`, `/classifiers/<own code>`); another classifier's
+ *   figures → 403;
+ * - researcher and read tokens: aggregates only; no view that names a classifier or an athlete
+ *   (docs/decisions/0006-researchers-and-per-classifier-views.md).
+ */
+const base = '/federations/:federation/analytics';
+const code = z.string().regex(/^[A-Za-z0-9._-]{1,64}$/, { message: 'is not a classifier code' });
+
+function filtersOf(req: Request): AnalyticsFilters {
+  return parseWith(analyticsFiltersSchema, req.query, 'filter query');
+}
+
+function federationOf(access: FederationAccess) {
+  return { id: access.federation.id, scaleMin: access.federation.scaleMin, scaleMax: access.federation.scaleMax };
+}
+
+async function ownCode(ctx: AppContext, access: FederationAccess): Promise<string> {
+  if (access.role !== 'classifier' || access.classifierId === null) throw forbidden('Your account is not linked to a classifier of this federation');
+  const row = await ctx.db.selectFrom('classifiers').select('code').where('id', '=', access.classifierId).executeTakeFirst();
+  if (!row) throw forbidden('Your account is not linked to a classifier of this federation');
+  return row.code;
+}
+
+export function analyticsRouter(ctx: AppContext): Router {
+  const router = Router();
+  evaluateFlagsOnDataChange(ctx);
+
+  const everyone = requireAccess(ctx, { roles: ['lead', 'classifier', 'researcher'], tokenScopes: ['read'] });
+  const leadOnly = requireAccess(ctx, { roles: ['lead'] });
+  const leadOrClassifier = requireAccess(ctx, { roles: ['lead', 'classifier'] });
+  const classifierOnly = requireAccess(ctx, { roles: ['classifier'] });
+
+  router.get(`${base}/filters`, everyone, (req, res) => {
+    const access = accessOf(req);
+    res.json(filterOptions(federationData(ctx, federationOf(access))));
+  });
+
+  router.get(`${base}/overview`, everyone, async (req, res) => {
+    const access = accessOf(req);
+    const filters = filtersOf(req);
+    const figures = overviewFigures(ctx, federationOf(access), filters);
+    const openFlags = access.role === 'lead' ? await flagsOf(ctx, access.federation.id, { activeOnly: true }) : null;
+    res.json({ ...figures, openFlags });
+  });
+
+  router.get(`${base}/classifiers`, leadOnly, async (req, res) => {
+    const access = accessOf(req);
+    res.json({ classifiers: await classifierRows(ctx, federationOf(access), filtersOf(req)) });
+  });
+
+  router.get(`${base}/classifiers/:code`, leadOrClassifier, async (req, res) => {
+    const access = accessOf(req);
+    const wanted = parseWith(code, req.params.code, 'classifier code');
+    const filters = filtersOf(req);
+    if (access.role === 'classifier') {
+      if ((await ownCode(ctx, access)) !== wanted) throw forbidden('Classifiers see their own figures only');
+      res.json(await myAgreement(ctx, federationOf(access), filters, wanted, await thresholdsOf(ctx, access.federation.id)));
+      return;
+    }
+    res.json(await classifierDetail(ctx, federationOf(access), filters, wanted, await thresholdsOf(ctx, access.federation.id)));
+  });
+
+  router.get(`${base}/me`, classifierOnly, async (req, res) => {
+    const access = accessOf(req);
+    const mine = await ownCode(ctx, access);
+    res.json(await myAgreement(ctx, federationOf(access), filtersOf(req), mine, await thresholdsOf(ctx, access.federation.id)));
+  });
+
+  router.get(`${base}/pairs`, leadOnly, (req, res) => {
+    const access = accessOf(req);
+    res.json(pairs(ctx, federationOf(access), filtersOf(req)));
+  });
+
+  router.get(`${base}/pairs/:a/:b`, leadOnly, (req, res) => {
+    const access = accessOf(req);
+    const a = parseWith(code, req.params.a, 'classifier code');
+    const b = parseWith(code, req.params.b, 'classifier code');
+    res.json(pairDetail(ctx, federationOf(access), filtersOf(req), a, b));
+  });
+
+  router.get(`${base}/boundaries`, everyone, (req, res) => {
+    const access = accessOf(req);
+    res.json(boundaries(ctx, federationOf(access), filtersOf(req)));
+  });
+
+  router.get(`${base}/drift/raters`, leadOnly, async (req, res) => {
+    const access = accessOf(req);
+    res.json(raterDrift(ctx, federationOf(access), filtersOf(req), await thresholdsOf(ctx, access.federation.id)));
+  });
+
+  router.get(`${base}/drift/classes`, everyone, (req, res) => {
+    const access = accessOf(req);
+    res.json(classDrift(ctx, federationOf(access), filtersOf(req), access.role === 'lead'));
+  });
+
+  router.get(`${base}/flags`, leadOnly, async (req, res) => {
+    const access = accessOf(req);
+    res.json({ flags: await flagsOf(ctx, access.federation.id, { activeOnly: false }), evaluatedAt: await lastEvaluation(ctx, access.federation.id) });
+  });
+
+  router.post(`${base}/flags/evaluate`, leadOnly, async (req, res) => {
+    const access = accessOf(req);
+    res.json(await evaluateFlags(ctx, access.federation.id));
+  });
+
+  router.patch(`${base}/flags/:id`, leadOnly, async (req, res) => {
+    const access = accessOf(req);
+    const id = Number(req.params.id);
+    if (!Number.isInteger(id) || id <= 0) throw new HttpError(400, 'validation_failed', `The flag id "${String(req.params.id)}" is not a number`);
+    const update = parseWith(flagUpdateSchema, req.body);
+    res.json(await updateFlag(ctx, access.federation.id, id, access.userId, update));
+  });
+
+  router.get(`${base}/flag-settings`, leadOnly, async (req, res) => {
+    const access = accessOf(req);
+    res.json(await thresholdsOf(ctx, access.federation.id));
+  });
+
+  router.put(`${base}/flag-settings`, leadOnly, async (req, res) => {
+    const access = accessOf(req);
+    const thresholds = parseWith(flagThresholdsSchema, req.body);
+    await saveThresholds(ctx, access.federation.id, access.userId, thresholds);
+    // New thresholds apply at once.
+    await evaluateFlags(ctx, access.federation.id);
+    res.json(thresholds);
+  });
+
+  return router;
+}

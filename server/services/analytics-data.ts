@@ -1,0 +1,210 @@
+/**
+ * The data behind the agreement dashboards: a federation's ratings as the engine's RatingSet,
+ * filtered by the dashboards' filters, and a small cache of computed results.
+ *
+ * Everything cached is keyed on the federation's data version (server/services/data-version.ts),
+ * so an import invalidates it without anyone having to know which results exist. Caches live
+ * per AppContext (a process may hold several apps, e.g. in tests).
+ */
+import {
+  buildRatingSet,
+  filterRatingSet,
+  seasonLabel,
+  seasonRange,
+  subsetRatingSet,
+  isoDateToSeasonYear,
+  type AssessmentFilter,
+  type RatingRow,
+  type RatingSet,
+} from '../analysis';
+import type { AppContext } from '../context';
+import { HttpError } from '../http/errors';
+import { dataVersion } from './data-version';
+import { DEFAULT_MIN_SHARED, type AnalyticsFilters, type FilterOptions } from '../../shared/schemas/analytics';
+import { ASSESSMENT_KIND_LABELS, type AssessmentKind } from '../../shared/schemas/common';
+
+/** Event code used for assessments recorded without an event. */
+export const NO_EVENT = '(no event)';
+
+export interface FederationData {
+  version: number;
+  set: RatingSet;
+  /** Per athlete index of the set: the athlete's competition category. */
+  athleteCategory: string[];
+  /** Classifier code → roster id and display name. */
+  classifiers: Map<string, { id: number; name: string }>;
+  events: { code: string; name: string; startsOn: string | null }[];
+  categories: string[];
+}
+
+interface CacheEntry {
+  version: number;
+  value: unknown;
+}
+
+const MAX_ENTRIES = 400;
+const caches = new WeakMap<AppContext, Map<string, CacheEntry>>();
+
+function cacheOf(ctx: AppContext): Map<string, CacheEntry> {
+  let cache = caches.get(ctx);
+  if (!cache) caches.set(ctx, (cache = new Map()));
+  return cache;
+}
+
+/**
+ * The cached result for (federation, key) at the federation's current data version, computing
+ * it when missing. Entries of older versions are dropped as new ones arrive.
+ */
+export function cached<T>(ctx: AppContext, federationId: number, key: string, compute: () => T): T {
+  const version = dataVersion(federationId);
+  const cache = cacheOf(ctx);
+  const fullKey = `${federationId}|${key}`;
+  const hit = cache.get(fullKey);
+  if (hit && hit.version === version) {
+    // Refresh recency (Map keeps insertion order).
+    cache.delete(fullKey);
+    cache.set(fullKey, hit);
+    return hit.value as T;
+  }
+  const value = compute();
+  cache.set(fullKey, { version, value });
+  // Least recently used first (Map keeps insertion order; hits are moved to the end).
+  for (const k of cache.keys()) {
+    if (cache.size <= MAX_ENTRIES) break;
+    cache.delete(k);
+  }
+  return value;
+}
+
+/** Forgets every cached result of a context (tests that change data without an import). */
+export function clearAnalyticsCache(ctx: AppContext): void {
+  caches.delete(ctx);
+}
+
+interface JoinedRow {
+  external_id: string;
+  athlete_code: string;
+  category: string;
+  event_code: string | null;
+  assessed_on: string;
+  classifier_code: string;
+  sport_class: number;
+  panel_class: number | null;
+  kind: AssessmentKind;
+}
+
+/** Reads the federation's ratings, rosters and events into a RatingSet (cached per data version). */
+export function federationData(ctx: AppContext, federation: { id: number; scaleMin: number; scaleMax: number }): FederationData {
+  return cached(ctx, federation.id, 'data', () => {
+    const version = dataVersion(federation.id);
+    const rows = ctx.sqlite
+      .prepare(
+        `select a.external_id, ath.code as athlete_code, ath.category, e.code as event_code, a.assessed_on,
+                c.code as classifier_code, r.sport_class, a.panel_class, a.kind
+           from ratings r
+           join assessments a on a.id = r.assessment_id
+           join athletes ath on ath.id = a.athlete_id
+           join classifiers c on c.id = r.classifier_id
+           left join events e on e.id = a.event_id
+          where a.federation_id = ?
+          order by a.assessed_on, a.id, r.id`,
+      )
+      .all(federation.id) as JoinedRow[];
+    const ratingRows: RatingRow[] = rows.map((r) => ({
+      assessmentId: r.external_id,
+      athleteCode: r.athlete_code,
+      eventCode: r.event_code ?? NO_EVENT,
+      assessedOn: r.assessed_on,
+      classifierCode: r.classifier_code,
+      sportClass: r.sport_class,
+      panelClass: r.panel_class,
+      kind: r.kind,
+    }));
+    const set = buildRatingSet(ratingRows, { min: federation.scaleMin, max: federation.scaleMax });
+    const categoryOf = new Map(rows.map((r) => [r.athlete_code, r.category]));
+    const athleteCategory = set.athleteCodes.map((code) => categoryOf.get(code) ?? 'open');
+    const roster = ctx.sqlite.prepare('select id, code, display_name from classifiers where federation_id = ? order by code').all(federation.id) as {
+      id: number;
+      code: string;
+      display_name: string;
+    }[];
+    const events = (
+      ctx.sqlite.prepare('select code, name, starts_on from events where federation_id = ? order by starts_on, code').all(federation.id) as {
+        code: string;
+        name: string;
+        starts_on: string | null;
+      }[]
+    ).map((e) => ({ code: e.code, name: e.name, startsOn: e.starts_on }));
+    const categories = (ctx.sqlite.prepare('select distinct category from athletes where federation_id = ? order by category').all(federation.id) as { category: string }[]).map(
+      (r) => r.category,
+    );
+    return {
+      version,
+      set,
+      athleteCategory,
+      classifiers: new Map(roster.map((c) => [c.code, { id: c.id, name: c.display_name }])),
+      events,
+      categories,
+    };
+  });
+}
+
+/** The filters in a canonical text form (for cache keys). */
+export function filterKey(filters: AnalyticsFilters): string {
+  return JSON.stringify([filters.season ?? '', filters.from ?? '', filters.to ?? '', filters.event ?? '', filters.category ?? '', filters.kind ?? '']);
+}
+
+/** The minimum shared assessments of a pair to be shown with a value. */
+export function minSharedOf(filters: AnalyticsFilters): number {
+  return filters.minShared ?? DEFAULT_MIN_SHARED;
+}
+
+/** The federation's ratings narrowed by the filters (cached per data version and filter set). */
+export function filteredSet(ctx: AppContext, data: FederationData, federationId: number, filters: AnalyticsFilters): RatingSet {
+  return cached(ctx, federationId, `set|${filterKey(filters)}`, () => {
+    const f: AssessmentFilter = {};
+    let from = filters.from;
+    let to = filters.to;
+    if (filters.season) {
+      const range = seasonRange(Number(filters.season));
+      from = from && from > range.from ? from : range.from;
+      to = to && to < range.to ? to : range.to;
+    }
+    if (from) f.from = from;
+    if (to) f.to = to;
+    if (filters.event) f.eventCodes = [filters.event];
+    if (filters.kind) f.kinds = [filters.kind];
+    let set = filterRatingSet(data.set, f);
+    if (filters.category) {
+      const wanted = filters.category;
+      set = subsetRatingSet(set, (a, s) => data.athleteCategory[s.athlete[a]!] === wanted);
+    }
+    return set;
+  });
+}
+
+/** What the filter bar offers: seasons with data, events, categories and kinds. */
+export function filterOptions(data: FederationData): FilterOptions {
+  const years = new Set<number>();
+  for (let a = 0; a < data.set.assessmentCount; a++) {
+    const y = isoDateToSeasonYear(new Date(data.set.day[a]! * 86_400_000).toISOString().slice(0, 10));
+    if (y !== null) years.add(y);
+  }
+  return {
+    seasons: [...years].sort((a, b) => a - b).map((year) => ({ year, label: seasonLabel(year), ...seasonRange(year) })),
+    events: data.events.map((e) => {
+      const y = e.startsOn ? isoDateToSeasonYear(e.startsOn) : null;
+      return { code: e.code, name: e.name, season: y === null ? null : seasonLabel(y) };
+    }),
+    categories: data.categories,
+    kinds: Object.keys(ASSESSMENT_KIND_LABELS) as AssessmentKind[],
+    defaultMinShared: DEFAULT_MIN_SHARED,
+  };
+}
+
+/** Checks a classifier code exists in the federation's roster (404 otherwise). */
+export function requireClassifier(data: FederationData, code: string): { id: number; name: string } {
+  const c = data.classifiers.get(code);
+  if (!c) throw new HttpError(404, 'not_found', `The classifier ${code} was not found`);
+  return c;
+}
