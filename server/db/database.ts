@@ -209,6 +209,9 @@ export interface Database {
   audit_log: AuditLogTable;
   calibration_thresholds: CalibrationThresholdsTable;
   calibration_flags: CalibrationFlagTable;
+  research_export_settings: ResearchExportSettingsTable;
+  research_studies: ResearchStudyTable;
+  research_exports: ResearchExportTable;
 }
 
 export type Federation = Selectable<FederationTable>;

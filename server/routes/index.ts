@@ -1,6 +1,7 @@
 import { Router } from 'express';
 import type { AppContext } from '../context';
 import { analyticsRouter } from './analytics';
+import { exportsRouter } from './exports';
 import { federationsRouter } from './federations';
 import { healthRouter } from './health';
 import { sessionRouter } from './session';
@@ -14,6 +15,7 @@ export function apiRouter(ctx: AppContext): Router {
   router.use(healthRouter(ctx));
   router.use(sessionRouter(ctx));
   router.use(federationsRouter(ctx));
+  router.use(exportsRouter(ctx));
   router.use(analyticsRouter(ctx));
   return router;
 }
