@@ -13,6 +13,12 @@ export interface NavItem {
  */
 export const NAV_ITEMS: NavItem[] = [
   { path: '', label: 'Overview', roles: ['lead', 'classifier', 'researcher'] },
+  { path: 'me', label: 'My agreement', roles: ['classifier'] },
+  { path: 'classifiers', label: 'Classifiers', roles: ['lead'] },
+  { path: 'pairs', label: 'Pairs', roles: ['lead'] },
+  { path: 'boundaries', label: 'Class boundaries', roles: ['lead', 'classifier', 'researcher'] },
+  { path: 'drift', label: 'Drift', roles: ['lead', 'classifier', 'researcher'] },
+  { path: 'flags', label: 'Calibration flags', roles: ['lead'] },
 ];
 
 export function navFor(role: Role): NavItem[] {

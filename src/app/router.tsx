@@ -1,5 +1,5 @@
 import { createBrowserRouter, type RouteObject } from 'react-router';
-import { OverviewPage } from '../features/overview/components/overview-page';
+import { dashboardRoutes, overviewRoute } from '../features/dashboards/routes';
 import { SignInPage } from '../features/session/components/sign-in-page';
 import { ExpiredLinkPage, ForbiddenPage, NotFoundPage, RouteErrorPage } from './error-pages';
 import { FederationLayout, HomeRedirect, RequireSession } from './layout';
@@ -8,7 +8,7 @@ import { FederationLayout, HomeRedirect, RequireSession } from './layout';
  * Pages inside a federation, below /f/:federation. Chart-heavy pages are lazy-loaded so the
  * first chunk stays small.
  */
-export const federationRoutes: RouteObject[] = [{ index: true, element: <OverviewPage /> }];
+export const federationRoutes: RouteObject[] = [overviewRoute, ...dashboardRoutes];
 
 /** Pages that need no session (sign-in, links from e-mails). */
 export const publicRoutes: RouteObject[] = [

@@ -1,0 +1,110 @@
+import { useId } from 'react';
+import { ASSESSMENT_KIND_LABELS } from '../../../../shared/schemas/common';
+import { DEFAULT_MIN_SHARED } from '../../../../shared/schemas/analytics';
+import { useFilterOptions } from '../api/get-filter-options';
+import type { AnalyticsFiltersState } from './use-analytics-filters';
+
+/**
+ * The filters of every dashboard view: season or date range, event, competition category,
+ * assessment kind and, where pairs are shown, the minimum shared assessments. Changes go to the
+ * URL at once.
+ */
+export function FilterBar({ federation, state, showMinShared = false }: { federation: string; state: AnalyticsFiltersState; showMinShared?: boolean }) {
+  const options = useFilterOptions(federation);
+  const id = useId();
+  const { filters, set, clear, problems } = state;
+  const events = (options.data?.events ?? []).filter((e) => {
+    if (!filters.season) return true;
+    const season = options.data?.seasons.find((s) => String(s.year) === filters.season);
+    return !season || e.season === season.label;
+  });
+  const active = Object.values(filters).some((v) => v !== undefined);
+
+  return (
+    <section aria-label="Filters" className="card py-4">
+      <form className="grid grid-cols-2 gap-3 sm:grid-cols-3 lg:grid-cols-7" onSubmit={(e) => e.preventDefault()}>
+        <div className="field">
+          <label htmlFor={`${id}-season`}>Season</label>
+          <select id={`${id}-season`} className="input" value={filters.season ?? ''} onChange={(e) => set({ season: e.target.value, event: undefined })}>
+            <option value="">All seasons</option>
+            {options.data?.seasons.map((s) => (
+              <option key={s.year} value={String(s.year)}>
+                {s.label}
+              </option>
+            ))}
+          </select>
+        </div>
+        <div className="field">
+          <label htmlFor={`${id}-from`}>From</label>
+          <input id={`${id}-from`} className="input" type="date" value={filters.from ?? ''} onChange={(e) => set({ from: e.target.value })} />
+        </div>
+        <div className="field">
+          <label htmlFor={`${id}-to`}>To</label>
+          <input id={`${id}-to`} className="input" type="date" value={filters.to ?? ''} onChange={(e) => set({ to: e.target.value })} />
+        </div>
+        <div className="field">
+          <label htmlFor={`${id}-event`}>Event</label>
+          <select id={`${id}-event`} className="input" value={filters.event ?? ''} onChange={(e) => set({ event: e.target.value })}>
+            <option value="">All events</option>
+            {events.map((e) => (
+              <option key={e.code} value={e.code}>
+                {e.name}
+              </option>
+            ))}
+          </select>
+        </div>
+        <div className="field">
+          <label htmlFor={`${id}-category`}>Category</label>
+          <select id={`${id}-category`} className="input" value={filters.category ?? ''} onChange={(e) => set({ category: e.target.value })}>
+            <option value="">All categories</option>
+            {options.data?.categories.map((c) => (
+              <option key={c} value={c}>
+                {c}
+              </option>
+            ))}
+          </select>
+        </div>
+        <div className="field">
+          <label htmlFor={`${id}-kind`}>Assessment kind</label>
+          <select id={`${id}-kind`} className="input" value={filters.kind ?? ''} onChange={(e) => set({ kind: e.target.value })}>
+            <option value="">All kinds</option>
+            {Object.entries(ASSESSMENT_KIND_LABELS).map(([k, label]) => (
+              <option key={k} value={k}>
+                {label}
+              </option>
+            ))}
+          </select>
+        </div>
+        {showMinShared ? (
+          <div className="field">
+            <label htmlFor={`${id}-min`}>Min. shared assessments</label>
+            <input
+              id={`${id}-min`}
+              className="input"
+              type="number"
+              min={1}
+              max={1000}
+              inputMode="numeric"
+              value={filters.minShared ?? DEFAULT_MIN_SHARED}
+              onChange={(e) => set({ minShared: e.target.value === String(DEFAULT_MIN_SHARED) ? undefined : e.target.value })}
+            />
+          </div>
+        ) : null}
+      </form>
+      <div className="mt-3 flex flex-wrap items-center gap-3 text-sm">
+        {problems.map((p) => (
+          <p key={p.field + p.message} role="alert" className="field-error">
+            Filter “{p.field}” ignored: {p.message}
+          </p>
+        ))}
+        {active ? (
+          <button type="button" className="btn btn-quiet min-h-9 py-1 text-sm" onClick={clear}>
+            Clear filters
+          </button>
+        ) : (
+          <span className="text-muted">Showing all of the federation’s assessments.</span>
+        )}
+      </div>
+    </section>
+  );
+}
