@@ -8,7 +8,11 @@ import { FederationLayout, HomeRedirect, RequireSession } from './layout';
  * Pages inside a federation, below /f/:federation. Chart-heavy pages are lazy-loaded so the
  * first chunk stays small.
  */
-export const federationRoutes: RouteObject[] = [overviewRoute, ...dashboardRoutes];
+export const federationRoutes: RouteObject[] = [
+  overviewRoute,
+  ...dashboardRoutes,
+  { path: 'exports', lazy: () => import('../features/exports/components/exports-page').then((m) => ({ Component: m.ExportsPage })) },
+];
 
 /** Pages that need no session (sign-in, links from e-mails). */
 export const publicRoutes: RouteObject[] = [

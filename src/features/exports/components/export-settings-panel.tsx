@@ -1,0 +1,121 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useId } from 'react';
+import { useForm } from 'react-hook-form';
+import { createStudySchema, exportSettingsSchema, type CreateStudy, type ExportSettings, type ExportSettingsView } from '../../../../shared/schemas/exports';
+import { ErrorNotice, Loading } from '../../../components/status';
+import { ApiError } from '../../../lib/api-client';
+import { useCloseStudy } from '../api/close-study';
+import { useCreateStudy } from '../api/create-study';
+import { useExportSettings } from '../api/get-export-settings';
+import { useSaveExportSettings } from '../api/save-export-settings';
+
+function ServerError({ error }: { error: unknown }) {
+  if (!error) return null;
+  const message = error instanceof ApiError ? error.message : 'Something went wrong. Try again.';
+  return (
+    <p role="alert" className="field-error">
+      {message}
+    </p>
+  );
+}
+
+function KForm({ federation, initial }: { federation: string; initial: ExportSettingsView }) {
+  const id = useId();
+  const save = useSaveExportSettings(federation);
+  const form = useForm<ExportSettings>({ resolver: zodResolver(exportSettingsSchema), defaultValues: { minAthletes: initial.minAthletes } });
+  const error = form.formState.errors.minAthletes;
+  return (
+    <form noValidate className="space-y-3" aria-labelledby={`${id}-title`} onSubmit={form.handleSubmit((values) => save.mutate(values, { onSuccess: (saved) => form.reset({ minAthletes: saved.minAthletes }) }))}>
+      <h3 id={`${id}-title`}>Smallest cell (k)</h3>
+      <div className="field">
+        <label htmlFor={`${id}-k`}>Fewest athletes an exported category or combination may describe</label>
+        <input
+          id={`${id}-k`}
+          type="number"
+          min={2}
+          max={100}
+          className="input w-32"
+          aria-invalid={error ? 'true' : undefined}
+          aria-describedby={error ? `${id}-k-error` : undefined}
+          {...form.register('minAthletes', { valueAsNumber: true })}
+        />
+        {error ? (
+          <span id={`${id}-k-error`} className="field-error" role="alert">
+            k: {error.message}
+          </span>
+        ) : null}
+      </div>
+      <ServerError error={save.error} />
+      <button type="submit" className="btn btn-primary" disabled={save.isPending}>
+        {save.isPending ? 'Saving…' : 'Save k'}
+      </button>
+      {save.isSuccess && !form.formState.isDirty ? <span className="ml-3 text-sm text-ok" role="status">Saved.</span> : null}
+    </form>
+  );
+}
+
+function StudyForm({ federation }: { federation: string }) {
+  const id = useId();
+  const create = useCreateStudy(federation);
+  const form = useForm<CreateStudy>({ resolver: zodResolver(createStudySchema), defaultValues: { name: '', purpose: '' } });
+  const { errors } = form.formState;
+  return (
+    <form noValidate className="space-y-3" aria-labelledby={`${id}-title`} onSubmit={form.handleSubmit((values) => create.mutate(values, { onSuccess: () => form.reset() }))}>
+      <h3 id={`${id}-title`}>New study</h3>
+      <p className="text-sm text-muted">A study has one stable key: every export made under it uses the same pseudonyms, so its exports can be joined.</p>
+      <div className="field">
+        <label htmlFor={`${id}-name`}>Study name</label>
+        <input id={`${id}-name`} className="input" aria-invalid={errors.name ? 'true' : undefined} aria-describedby={errors.name ? `${id}-name-error` : undefined} {...form.register('name')} />
+        {errors.name ? (
+          <span id={`${id}-name-error`} className="field-error" role="alert">
+            Study name: {errors.name.message}
+          </span>
+        ) : null}
+      </div>
+      <div className="field">
+        <label htmlFor={`${id}-purpose`}>Purpose (optional)</label>
+        <textarea id={`${id}-purpose`} rows={2} className="input" {...form.register('purpose')} />
+      </div>
+      <ServerError error={create.error} />
+      <button type="submit" className="btn btn-primary" disabled={create.isPending}>
+        {create.isPending ? 'Creating…' : 'Create study'}
+      </button>
+    </form>
+  );
+}
+
+/** Lead-only: k and the studies that allow a stable key. */
+export function ExportSettingsPanel({ federation }: { federation: string }) {
+  const settings = useExportSettings(federation);
+  const close = useCloseStudy(federation);
+  return (
+    <section className="card space-y-6" aria-labelledby="export-settings-title">
+      <h2 id="export-settings-title">Export settings (leads only)</h2>
+      {settings.isPending ? <Loading /> : settings.error ? <ErrorNotice error={settings.error} /> : <KForm key={settings.data.minAthletes} federation={federation} initial={settings.data} />}
+      <StudyForm federation={federation} />
+      {settings.data && settings.data.studies.length > 0 ? (
+        <div className="space-y-2">
+          <h3>Studies</h3>
+          <ul className="divide-y divide-line">
+            {settings.data.studies.map((s) => (
+              <li key={s.id} className="flex flex-wrap items-center justify-between gap-3 py-2">
+                <span>
+                  <span className="font-semibold">{s.name}</span>
+                  {s.purpose ? <span className="block text-sm text-muted">{s.purpose}</span> : null}
+                </span>
+                {s.closedAt ? (
+                  <span className="text-sm text-muted">Closed</span>
+                ) : (
+                  <button type="button" className="btn btn-quiet min-h-10 py-1.5" disabled={close.isPending} onClick={() => close.mutate(s.id)}>
+                    Close {s.name}
+                  </button>
+                )}
+              </li>
+            ))}
+          </ul>
+          <ServerError error={close.error} />
+        </div>
+      ) : null}
+    </section>
+  );
+}

@@ -1,0 +1,28 @@
+import { useCurrentFederation } from '../../../app/use-federation';
+import { Caution } from '../../../components/caution';
+import { ErrorNotice, Loading } from '../../../components/status';
+import { useExportOptions } from '../api/get-export-options';
+import { ExportForm } from './export-form';
+import { ExportSettingsPanel } from './export-settings-panel';
+import { MyExports } from './my-exports';
+
+/** Anonymised research export: build, download, and (leads) set k and studies. */
+export function ExportsPage() {
+  const { federation, role } = useCurrentFederation();
+  const options = useExportOptions(federation.slug);
+  const isLead = role === 'lead';
+  return (
+    <div className="space-y-6">
+      <div>
+        <h1>Research export</h1>
+        <p className="text-muted">Panel decisions for studying whether classification is consistent: the decisions, not the people.</p>
+      </div>
+      <Caution />
+      <div className="grid gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
+        {options.isPending ? <Loading /> : options.error ? <ErrorNotice error={options.error} /> : <ExportForm federation={federation.slug} options={options.data} isLead={isLead} />}
+        {isLead ? <ExportSettingsPanel federation={federation.slug} /> : null}
+      </div>
+      <MyExports federation={federation.slug} />
+    </div>
+  );
+}

@@ -1,0 +1,39 @@
+import { ErrorNotice, Loading } from '../../../components/status';
+import { DataTable, type DataTableColumn } from '../../../components/data-table';
+import type { ExportView } from '../../../../shared/schemas/exports';
+import { useMyExports } from '../api/list-exports';
+import { ExportFiles } from './export-files';
+
+type Row = ExportView & { scopeText: string; rows: number; studyName: string };
+
+const when = (iso: string) => new Date(iso).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' });
+
+const COLUMNS: DataTableColumn<Row>[] = [
+  { key: 'id', header: 'Export', align: 'right' },
+  { key: 'createdAt', header: 'Built', cell: (r) => when(r.createdAt) },
+  { key: 'scopeText', header: 'Scope' },
+  { key: 'studyName', header: 'Study' },
+  { key: 'rows', header: 'Rows', align: 'right', cell: (r) => r.rows.toLocaleString('en') },
+  { key: 'expiresAt', header: 'Available until', cell: (r) => (r.expired ? 'Expired' : when(r.expiresAt)) },
+  { key: 'files', header: 'Download', sortable: false, cell: (r) => <ExportFiles view={r} /> },
+];
+
+/** The caller's own exports, with re-download links for seven days. */
+export function MyExports({ federation }: { federation: string }) {
+  const exports = useMyExports(federation);
+  if (exports.isPending) return <Loading label="Loading your exports…" />;
+  if (exports.error) return <ErrorNotice error={exports.error} />;
+  const rows: Row[] = exports.data.map((e) => ({
+    ...e,
+    rows: e.counts.rows,
+    studyName: e.study?.name ?? '—',
+    scopeText: `${e.request.scope.seasons.join(', ')} · ${e.request.scope.kinds.join(', ')} · ${e.request.scope.categories.join(', ')} · dates by ${e.request.dateMode}`,
+  }));
+  return (
+    <section className="space-y-3" aria-labelledby="my-exports-title">
+      <h2 id="my-exports-title">My exports</h2>
+      <p className="text-sm text-muted">Each export can be downloaded again, by you only, for seven days after it was built.</p>
+      <DataTable caption="My exports" rows={rows} columns={COLUMNS} rowKey={(r) => String(r.id)} emptyText="You have not built an export yet." initialSort={[{ id: 'id', desc: true }]} pageSize={10} />
+    </section>
+  );
+}
