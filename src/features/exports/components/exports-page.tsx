@@ -18,7 +18,7 @@ export function ExportsPage() {
         <p className="text-muted">Panel decisions for studying whether classification is consistent: the decisions, not the people.</p>
       </div>
       <Caution />
-      <div className="grid gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
+      <div className={isLead ? 'grid items-start gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]' : 'max-w-3xl'}>
         {options.isPending ? <Loading /> : options.error ? <ErrorNotice error={options.error} /> : <ExportForm federation={federation.slug} options={options.data} isLead={isLead} />}
         {isLead ? <ExportSettingsPanel federation={federation.slug} /> : null}
       </div>
