@@ -8,6 +8,7 @@ import { openDatabase } from './db/connection';
 import { migrateToLatest } from './db/migrate';
 import { isEmpty, seedDemo } from './demo/seed';
 import { createLogger } from './logger';
+import { startMailer } from './mail/mailer';
 
 /**
  * Starts Panelwise: builds the client when it is missing (with --build-if-missing), applies
@@ -30,7 +31,8 @@ async function main() {
     await seedDemo(db, sqlite);
   }
 
-  const ctx: AppContext = { db, sqlite, config, logger };
+  const mailer = await startMailer({ config, db, logger });
+  const ctx: AppContext = { db, sqlite, config, logger, mailer };
   const app = createApp(ctx);
   const server = app.listen(config.port, () => {
     logger.info(`Panelwise ${config.version} on http://localhost:${config.port} (database ${config.databasePath})`);
@@ -38,7 +40,7 @@ async function main() {
 
   const stop = () => {
     server.close(() => {
-      void db.destroy().then(() => process.exit(0));
+      void mailer.close().finally(() => db.destroy().then(() => process.exit(0)));
     });
     setTimeout(() => process.exit(0), 3000).unref();
   };

@@ -133,6 +133,28 @@ export interface AuditLogTable {
   at: CreatedAt;
 }
 
+/** Before-image of a row an import changed (JSON of the changed columns), for reverting it. */
+export interface ImportChangeTable {
+  id: Generated<number>;
+  import_id: number;
+  table_name: 'assessments' | 'ratings';
+  row_id: number;
+  before: string;
+}
+
+/** A column mapping saved by name for a federation's next upload. */
+export interface ImportMappingTable {
+  id: Generated<number>;
+  federation_id: number;
+  name: string;
+  layout: 'long' | 'wide';
+  mapping: string;
+  date_format: ColumnType<string, string | undefined, string>;
+  user_id: number | null;
+  created_at: CreatedAt;
+  updated_at: ColumnType<string, string | undefined, string>;
+}
+
 export interface CalibrationThresholdsTable {
   federation_id: number;
   thresholds: string;
@@ -195,6 +217,57 @@ export interface ResearchExportTable {
   expires_at: string;
 }
 
+export interface InvitationTable {
+  id: Generated<number>;
+  federation_id: number;
+  email: string;
+  role: Role;
+  classifier_id: number | null;
+  token_hash: string;
+  invited_by: number | null;
+  created_at: CreatedAt;
+  expires_at: string;
+  accepted_at: string | null;
+  accepted_by: number | null;
+  revoked_at: string | null;
+}
+
+export interface PasswordResetTable {
+  id: Generated<number>;
+  user_id: number;
+  token_hash: string;
+  created_at: CreatedAt;
+  expires_at: string;
+  used_at: string | null;
+}
+
+export type ApiTokenScope = 'import' | 'read';
+
+export interface ApiTokenTable {
+  id: Generated<number>;
+  federation_id: number;
+  name: string;
+  scope: ApiTokenScope;
+  token_hash: string;
+  token_prefix: string;
+  created_by: number | null;
+  created_at: CreatedAt;
+  last_used_at: string | null;
+  revoked_at: string | null;
+}
+
+export interface OutboxMessageTable {
+  id: Generated<number>;
+  federation_slug: string | null;
+  mail_from: string;
+  mail_to: string;
+  subject: string;
+  text_body: string;
+  html_body: string | null;
+  raw: string;
+  received_at: CreatedAt;
+}
+
 export interface Database {
   federations: FederationTable;
   users: UserTable;
@@ -207,11 +280,17 @@ export interface Database {
   assessments: AssessmentTable;
   ratings: RatingTable;
   audit_log: AuditLogTable;
+  invitations: InvitationTable;
+  password_resets: PasswordResetTable;
+  api_tokens: ApiTokenTable;
+  outbox_messages: OutboxMessageTable;
   calibration_thresholds: CalibrationThresholdsTable;
   calibration_flags: CalibrationFlagTable;
   research_export_settings: ResearchExportSettingsTable;
   research_studies: ResearchStudyTable;
   research_exports: ResearchExportTable;
+  import_changes: ImportChangeTable;
+  import_mappings: ImportMappingTable;
 }
 
 export type Federation = Selectable<FederationTable>;

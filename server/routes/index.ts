@@ -1,9 +1,12 @@
 import { Router } from 'express';
 import type { AppContext } from '../context';
+import { accessLinksRouter } from './access-links';
 import { analyticsRouter } from './analytics';
 import { exportsRouter } from './exports';
 import { federationsRouter } from './federations';
 import { healthRouter } from './health';
+import { membersRouter } from './members';
+import { ownerRouter } from './owner';
 import { sessionRouter } from './session';
 
 /**
@@ -14,6 +17,9 @@ export function apiRouter(ctx: AppContext): Router {
   const router = Router();
   router.use(healthRouter(ctx));
   router.use(sessionRouter(ctx));
+  router.use(accessLinksRouter(ctx));
+  router.use(membersRouter(ctx));
+  router.use(ownerRouter(ctx));
   router.use(federationsRouter(ctx));
   router.use(exportsRouter(ctx));
   router.use(analyticsRouter(ctx));

@@ -2,6 +2,7 @@ import crypto from 'node:crypto';
 import { Router } from 'express';
 import { signInSchema, type SessionView } from '../../shared/schemas/session';
 import { SESSION_COOKIE, requireSession, sessionCookieOptions } from '../auth/access';
+import { signInLimits } from '../auth/rate-limits';
 import { needsRehash, hashPassword, verifyAgainstDummy, verifyPassword } from '../auth/password';
 import { signSessionToken } from '../auth/session-token';
 import type { AppContext } from '../context';
@@ -27,6 +28,7 @@ export async function sessionView(ctx: AppContext, userId: number): Promise<Sess
   rows.sort((a, b) => weight[a.role] - weight[b.role]);
   return {
     user: { id: user.id, email: user.email, displayName: user.display_name, isOwner: user.is_owner === 1 },
+    localMail: ctx.config.env !== 'production' && ctx.mailer?.local === true,
     memberships: rows.map((r) => ({
       federation: { id: r.id, slug: r.slug, name: r.name },
       role: r.role,
@@ -47,7 +49,7 @@ export async function startSession(ctx: AppContext, res: import('express').Respo
 export function sessionRouter(ctx: AppContext): Router {
   const router = Router();
 
-  router.post('/session', async (req, res) => {
+  router.post('/session', ...signInLimits(), async (req, res) => {
     const { email, password } = parseWith(signInSchema, req.body);
     const user = await ctx.db.selectFrom('users').selectAll().where('email', '=', email).executeTakeFirst();
     // The same answer, after the same work, for an unknown e-mail and a wrong password.

@@ -17,5 +17,7 @@ export type MembershipView = z.infer<typeof membershipSchema>;
 export const sessionSchema = z.object({
   user: z.object({ id: z.number(), email: z.string(), displayName: z.string(), isOwner: z.boolean() }),
   memberships: z.array(membershipSchema),
+  /** E-mail stays in the local Outbox (development, tests, demo): the Outbox pages are available. */
+  localMail: z.boolean().optional(),
 });
 export type SessionView = z.infer<typeof sessionSchema>;

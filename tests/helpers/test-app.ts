@@ -7,6 +7,7 @@ import { openDatabase } from '../../server/db/connection';
 import { migrateToLatest } from '../../server/db/migrate';
 import { DEMO_PASSWORD, seedDemo } from '../../server/demo/seed';
 import { createLogger } from '../../server/logger';
+import { startMailer } from '../../server/mail/mailer';
 
 export interface TestApp {
   ctx: AppContext;
@@ -24,9 +25,19 @@ export async function createTestApp(options: { seed?: 'demo' | 'none'; databaseP
   await migrateToLatest(db);
   if (options.seed === 'demo') await seedDemo(db, sqlite);
   const config = loadConfig({ databasePath, env: 'test' });
-  const ctx: AppContext = { db, sqlite, config, logger: createLogger('test') };
+  const logger = createLogger('test');
+  // E-mail goes to a local fake SMTP server that keeps every message in outbox_messages.
+  const mailer = await startMailer({ config, db, logger });
+  const ctx: AppContext = { db, sqlite, config, logger, mailer };
   const app = createApp(ctx, { serveClient: false });
-  return { ctx, app, close: () => db.destroy() };
+  return {
+    ctx,
+    app,
+    close: async () => {
+      await mailer.close();
+      await db.destroy();
+    },
+  };
 }
 
 /** A supertest agent signed in as the given user (the demo password by default). */

@@ -1,0 +1,97 @@
+import { Router } from 'express';
+import { z } from 'zod';
+import { inviteSchema, memberUpdateSchema, tokenCreateSchema, type OutboxMessage } from '../../shared/schemas/access';
+import { accessOf, requireAccess, setBearerResolver } from '../auth/access';
+import type { AppContext } from '../context';
+import { HttpError } from '../http/errors';
+import { parseWith } from '../http/validate';
+import { createApiToken, listApiTokens, resolveApiToken, revokeApiToken } from '../services/api-tokens';
+import { createInvitation, revokeInvitation } from '../services/invitations';
+import { listMembers, updateMember } from '../services/members';
+
+const idParam = z.coerce.number().int().positive();
+
+/** Links in a message's text, for the Outbox. */
+export function linksIn(text: string): string[] {
+  return [...new Set(text.match(/https?:\/\/[^\s<>"')]+/g) ?? [])];
+}
+
+/** Whether the local Outbox may be read: never in production. */
+export function outboxEnabled(ctx: AppContext): boolean {
+  return ctx.config.env !== 'production';
+}
+
+export function outboxView(row: { id: number; mail_to: string; subject: string; text_body: string; received_at: string }): OutboxMessage {
+  return { id: row.id, to: row.mail_to, subject: row.subject, text: row.text_body, links: linksIn(row.text_body), receivedAt: row.received_at };
+}
+
+/**
+ * A federation's people and systems, for its leads: members (role, roster link, deactivation),
+ * invitations, API tokens, and (outside production) the Outbox of the e-mails about the
+ * federation. API tokens never reach these routes.
+ */
+export function membersRouter(ctx: AppContext): Router {
+  setBearerResolver(resolveApiToken);
+  const router = Router();
+  const leads = requireAccess(ctx, { roles: ['lead'] });
+  const base = '/federations/:federation';
+  const actor = (req: Parameters<typeof accessOf>[0]) => {
+    const access = accessOf(req);
+    return { federation: access.federation, userId: access.userId as number };
+  };
+
+  router.get(`${base}/members`, leads, async (req, res) => {
+    res.json(await listMembers(ctx, accessOf(req).federation.id));
+  });
+
+  router.patch(`${base}/members/:userId`, leads, async (req, res) => {
+    const { federation, userId } = actor(req);
+    const target = parseWith(idParam, req.params.userId, 'member id');
+    const update = parseWith(memberUpdateSchema, req.body);
+    res.json(await updateMember(ctx, federation.id, userId, target, update));
+  });
+
+  router.post(`${base}/invitations`, leads, async (req, res) => {
+    const { federation, userId } = actor(req);
+    const input = parseWith(inviteSchema, req.body);
+    const inviter = req.auth?.kind === 'session' ? { id: userId, displayName: req.auth.user.displayName } : null;
+    res.status(201).json(await createInvitation(ctx, federation, input, inviter));
+  });
+
+  router.delete(`${base}/invitations/:invitationId`, leads, async (req, res) => {
+    const { federation, userId } = actor(req);
+    await revokeInvitation(ctx, federation.id, parseWith(idParam, req.params.invitationId, 'invitation id'), userId);
+    res.status(204).end();
+  });
+
+  router.get(`${base}/api-tokens`, leads, async (req, res) => {
+    res.json({ tokens: await listApiTokens(ctx, accessOf(req).federation.id) });
+  });
+
+  router.post(`${base}/api-tokens`, leads, async (req, res) => {
+    const { federation, userId } = actor(req);
+    const input = parseWith(tokenCreateSchema, req.body);
+    res.set('cache-control', 'no-store');
+    res.status(201).json(await createApiToken(ctx, federation.id, input, userId));
+  });
+
+  router.delete(`${base}/api-tokens/:tokenId`, leads, async (req, res) => {
+    const { federation, userId } = actor(req);
+    await revokeApiToken(ctx, federation.id, parseWith(idParam, req.params.tokenId, 'token id'), userId);
+    res.status(204).end();
+  });
+
+  router.get(`${base}/outbox`, leads, async (req, res) => {
+    if (!outboxEnabled(ctx)) throw new HttpError(404, 'not_found', 'The Outbox is only available outside production');
+    const rows = await ctx.db
+      .selectFrom('outbox_messages')
+      .select(['id', 'mail_to', 'subject', 'text_body', 'received_at'])
+      .where('federation_slug', '=', accessOf(req).federation.slug)
+      .orderBy('id', 'desc')
+      .limit(200)
+      .execute();
+    res.json({ messages: rows.map(outboxView) });
+  });
+
+  return router;
+}
