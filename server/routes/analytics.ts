@@ -17,7 +17,7 @@ import {
   pairs,
   raterDrift,
 } from '../services/analytics';
-import { evaluateFlags, evaluateFlagsOnDataChange, flagsOf, lastEvaluation, saveThresholds, thresholdsOf, updateFlag } from '../services/calibration-flags';
+import { ensureEvaluated, evaluateFlags, evaluateFlagsOnDataChange, flagsOf, lastEvaluation, saveThresholds, thresholdsOf, updateFlag } from '../services/calibration-flags';
 
 /**
  * The agreement dashboards' API: /api/federations/:federation/analytics/…
@@ -66,12 +66,14 @@ export function analyticsRouter(ctx: AppContext): Router {
     const access = accessOf(req);
     const filters = filtersOf(req);
     const figures = overviewFigures(ctx, federationOf(access), filters);
+    if (access.role === 'lead') await ensureEvaluated(ctx, access.federation.id);
     const openFlags = access.role === 'lead' ? await flagsOf(ctx, access.federation.id, { activeOnly: true }) : null;
     res.json({ ...figures, openFlags });
   });
 
   router.get(`${base}/classifiers`, leadOnly, async (req, res) => {
     const access = accessOf(req);
+    await ensureEvaluated(ctx, access.federation.id);
     res.json({ classifiers: await classifierRows(ctx, federationOf(access), filtersOf(req)) });
   });
 
@@ -79,6 +81,7 @@ export function analyticsRouter(ctx: AppContext): Router {
     const access = accessOf(req);
     const wanted = parseWith(code, req.params.code, 'classifier code');
     const filters = filtersOf(req);
+    await ensureEvaluated(ctx, access.federation.id);
     if (access.role === 'classifier') {
       if ((await ownCode(ctx, access)) !== wanted) throw forbidden('Classifiers see their own figures only');
       res.json(await myAgreement(ctx, federationOf(access), filters, wanted, await thresholdsOf(ctx, access.federation.id)));
@@ -90,6 +93,7 @@ export function analyticsRouter(ctx: AppContext): Router {
   router.get(`${base}/me`, classifierOnly, async (req, res) => {
     const access = accessOf(req);
     const mine = await ownCode(ctx, access);
+    await ensureEvaluated(ctx, access.federation.id);
     res.json(await myAgreement(ctx, federationOf(access), filtersOf(req), mine, await thresholdsOf(ctx, access.federation.id)));
   });
 
@@ -122,6 +126,7 @@ export function analyticsRouter(ctx: AppContext): Router {
 
   router.get(`${base}/flags`, leadOnly, async (req, res) => {
     const access = accessOf(req);
+    await ensureEvaluated(ctx, access.federation.id);
     res.json({ flags: await flagsOf(ctx, access.federation.id, { activeOnly: false }), evaluatedAt: await lastEvaluation(ctx, access.federation.id) });
   });
 

@@ -225,6 +225,9 @@ export function findingsFor(set: RatingSet, code: string, th: FlagThresholds, me
  * condition no longer holds. E-mails the leads about new flags when the thresholds say so.
  */
 export async function evaluateFlags(ctx: AppContext, federationId: number): Promise<EvaluateResponse> {
+  let done = evaluatedOnce.get(ctx);
+  if (!done) evaluatedOnce.set(ctx, (done = new Set()));
+  done.add(federationId);
   const federation = await ctx.db
     .selectFrom('federations')
     .select(['id', 'slug', 'name', 'scale_min as scaleMin', 'scale_max as scaleMax'])
@@ -325,6 +328,21 @@ async function notifyLeads(
       ctx.logger.error({ err, to: lead.email }, 'could not send the calibration flags e-mail');
     }
   }
+}
+
+const evaluatedOnce = new WeakMap<AppContext, Set<number>>();
+
+/**
+ * Evaluates a federation's flags once per process before they are first shown (after a
+ * restart, or for data seeded without an import), so the lists are never stale by more than
+ * one data change.
+ */
+export async function ensureEvaluated(ctx: AppContext, federationId: number): Promise<void> {
+  let done = evaluatedOnce.get(ctx);
+  if (!done) evaluatedOnce.set(ctx, (done = new Set()));
+  if (done.has(federationId)) return;
+  done.add(federationId);
+  await evaluateFlags(ctx, federationId);
 }
 
 const registered = new WeakSet<AppContext>();

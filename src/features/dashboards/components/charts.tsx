@@ -40,7 +40,7 @@ export function TrendChart({
       deps={[points, domain?.[0], domain?.[1], reference]}
       height={280}
       build={(width) => ({
-        marginBottom: width < 640 ? 60 : 40,
+        marginBottom: width < 640 ? 78 : 40,
         marginLeft: 56,
         x: { ...quarterAxis(width), domain: data.map((p) => p.quarter) },
         y: { label: yLabel, grid: true, domain, nice: !domain },
@@ -140,8 +140,8 @@ export function BoundaryTrend({ trend, title, fileName, summary }: { trend: { qu
         height: 180 * Math.ceil(new Set(trend.map((t) => t.boundary)).size / (width < 700 ? 2 : 4)) + 60,
         marginLeft: 48,
         marginBottom: 40,
-        fx: { label: null },
-        fy: { label: null },
+        fx: { axis: null },
+        fy: { axis: null },
         x: { label: 'Quarter', type: 'point', domain: quarters, ticks: quarters.filter((_, i) => i % 4 === 0), tickFormat: (q: string) => q.slice(0, 4) },
         y: { label: 'Split rate (%)', grid: true, domain: [0, 100] },
         marks: facetGrid(data, width < 700 ? 2 : 4),
@@ -256,7 +256,7 @@ export function MultiLineChart({
       height={320}
       build={(width) => ({
         marginLeft: 56,
-        marginBottom: width < 640 ? 60 : 40,
+        marginBottom: width < 640 ? 78 : 40,
         x: { ...quarterAxis(width), domain: quarters },
         y: { label: yLabel, grid: true },
         marks: [

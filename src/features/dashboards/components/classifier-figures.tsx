@@ -27,6 +27,7 @@ export function ClassifierFigures({ detail, who, fileStem }: { detail: Classifie
   const top = splits.slice(0, 3);
   const biasWord = row.bias.value === null ? '' : row.bias.value > 0 ? 'higher than' : row.bias.value < 0 ? 'lower than' : 'level with';
   const lastQuarter = detail.biasByQuarter.at(-1);
+  const whose = who === 'you' ? 'Your' : `${who}’s`;
   return (
     <div className="space-y-6">
       <section aria-labelledby="headline-title">
@@ -60,7 +61,7 @@ export function ClassifierFigures({ detail, who, fileStem }: { detail: Classifie
         />
         <TrendChart
           points={detail.biasByQuarter}
-          title={`Bias of ${who} by quarter`}
+          title={`${whose} bias by quarter`}
           yLabel="Mean deviation from the panel (points)"
           fileName={`${fileStem}-bias-by-quarter`}
           reference={0}
@@ -87,7 +88,7 @@ export function ClassifierFigures({ detail, who, fileStem }: { detail: Classifie
         <CusumChart
           points={detail.drift.points}
           h={detail.drift.h}
-          title={`Change detector for ${who} (CUSUM)`}
+          title={`${whose} change detector (CUSUM)`}
           fileName={`${fileStem}-cusum`}
           summary={`Two one-sided cumulative sums of standardised deviations from the panel (k = ${num(detail.drift.k)}, h = ${num(detail.drift.h, 1)}, σ = ${num(
             detail.drift.sigma,

@@ -3,12 +3,16 @@ import type { Stat } from '../../../../shared/schemas/analytics';
 /** Formatting of figures: fixed decimals, a true minus sign, intervals in brackets. */
 export function num(value: number | null | undefined, digits = 2): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return '—';
-  return value.toFixed(digits).replace('-', '−');
+  const text = value.toFixed(digits);
+  // A value that rounds to zero is written without a sign.
+  if (Number(text) === 0) return (0).toFixed(digits);
+  return text.replace('-', '−');
 }
 
 export function signed(value: number | null | undefined, digits = 2): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return '—';
-  return `${value > 0 ? '+' : ''}${num(value, digits)}`;
+  const text = num(value, digits);
+  return `${value > 0 && Number(value.toFixed(digits)) !== 0 ? '+' : ''}${text}`;
 }
 
 export function pct(value: number | null | undefined, digits = 0): string {

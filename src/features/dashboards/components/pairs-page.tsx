@@ -109,7 +109,9 @@ export function PairsPage() {
                     style: { color: INK },
                   };
                 }}
-              />
+              >
+                <KappaLegend low={Math.min(0.8, ...valued.map((p) => p.quadraticKappa!.value!))} />
+              </PlotFigure>
               {selected && selected.length === 2 ? <PairPanel federation={federation.slug} filters={filters.filters} a={selected[0]!} b={selected[1]!} /> : null}
               <DataTable
                 caption="Pairs of classifiers"
@@ -135,7 +137,7 @@ export function PairsPage() {
                     csv: () => '',
                   },
                 ]}
-                rows={data.pairs.map((p) => ({ a: p.a, b: p.b, n: p.n, tooFew: p.tooFew, kappa: p.quadraticKappa?.value ?? null, exact: p.exact?.value ?? null, open: '' }))}
+                rows={data.pairs.map((p) => ({ a: p.a, b: p.b, n: p.n, tooFew: p.tooFew, kappa: p.quadraticKappa?.value ?? undefined, exact: p.exact?.value ?? undefined, open: '' }))}
               />
             </div>
           );
@@ -198,5 +200,21 @@ function PairPanel({ federation, filters, a, b }: { federation: string; filters:
         )}
       </QueryState>
     </section>
+  );
+}
+
+function KappaLegend({ low }: { low: number }) {
+  return (
+    <div className="flex flex-wrap items-center gap-3 text-sm" aria-label="Colour key">
+      <span>Quadratic kappa</span>
+      <span className="flex items-center gap-1">
+        {num(low)}
+        <span aria-hidden="true" className="inline-block h-3 w-28 rounded-sm" style={{ background: `linear-gradient(to right, #f3d7b0, ${CHART_COLORS[0]})` }} />
+        1.00
+      </span>
+      <span className="flex items-center gap-1">
+        <span aria-hidden="true" className="inline-block h-3 w-3 rounded-sm border border-line" style={{ background: '#ebe8e1' }} />– too few shared assessments
+      </span>
+    </div>
   );
 }
