@@ -4,6 +4,7 @@ import { Loading } from '../components/status';
 import { useSession, useSignOut } from '../features/session/api/session';
 import { ForbiddenPage } from './error-pages';
 import { navFor } from './nav';
+import { GuardedOutlet } from './page-access';
 
 const ROLE_NAMES = { lead: 'Classification lead', classifier: 'Classifier', researcher: 'Researcher' } as const;
 
@@ -20,6 +21,7 @@ export function RequireSession() {
 export function HomeRedirect() {
   const session = useSession();
   const first = session.data?.memberships[0];
+  if (!first && session.data?.user.isOwner) return <Navigate to="/owner" replace />;
   if (!first) {
     return (
       <main className="mx-auto max-w-xl p-8">
@@ -101,7 +103,7 @@ export function FederationLayout() {
         </nav>
       </header>
       <main id="main" className="mx-auto max-w-7xl px-4 py-6">
-        <Outlet />
+        <GuardedOutlet membership={membership} />
       </main>
     </div>
   );

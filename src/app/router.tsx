@@ -1,5 +1,7 @@
 import { createBrowserRouter, type RouteObject } from 'react-router';
 import { dashboardRoutes, overviewRoute } from '../features/dashboards/routes';
+import { memberRoutes, ownerRoute } from '../features/members/routes';
+import { accessLinkRoutes } from '../features/session/routes';
 import { SignInPage } from '../features/session/components/sign-in-page';
 import { ExpiredLinkPage, ForbiddenPage, NotFoundPage, RouteErrorPage } from './error-pages';
 import { FederationLayout, HomeRedirect, RequireSession } from './layout';
@@ -11,6 +13,7 @@ import { FederationLayout, HomeRedirect, RequireSession } from './layout';
 export const federationRoutes: RouteObject[] = [
   overviewRoute,
   ...dashboardRoutes,
+  ...memberRoutes,
   { path: 'exports', lazy: () => import('../features/exports/components/exports-page').then((m) => ({ Component: m.ExportsPage })) },
 ];
 
@@ -18,6 +21,7 @@ export const federationRoutes: RouteObject[] = [
 export const publicRoutes: RouteObject[] = [
   { path: '/sign-in', element: <SignInPage /> },
   { path: '/expired', element: <ExpiredLinkPage /> },
+  ...accessLinkRoutes,
 ];
 
 export const routes: RouteObject[] = [
@@ -30,6 +34,7 @@ export const routes: RouteObject[] = [
         children: [
           { path: '/', element: <HomeRedirect /> },
           { path: '/forbidden', element: <ForbiddenPage /> },
+          ownerRoute,
           { path: '/f/:federation', element: <FederationLayout />, children: federationRoutes },
         ],
       },

@@ -1,6 +1,6 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useForm } from 'react-hook-form';
-import { Navigate, useNavigate, useSearchParams } from 'react-router';
+import { Link, Navigate, useNavigate, useSearchParams } from 'react-router';
 import { signInSchema, type SignIn } from '../../../../shared/schemas/session';
 import { BrandMark } from '../../../components/brand';
 import { useSession, useSignIn } from '../api/session';
@@ -35,6 +35,11 @@ export function SignInPage() {
         </div>
         <form onSubmit={onSubmit} className="card space-y-5" noValidate aria-labelledby="sign-in-title">
           <h1 id="sign-in-title">Sign in</h1>
+          {params.get('reset') === '1' && !signIn.error ? (
+            <p role="status" className="rounded-lg bg-ok-soft px-3 py-2 text-sm text-ok">
+              Your new password is saved. Sign in with it.
+            </p>
+          ) : null}
           {signIn.error ? (
             <p role="alert" className="rounded-lg bg-alert-soft px-3 py-2 text-sm text-alert">
               {signIn.error.message}
@@ -53,6 +58,11 @@ export function SignInPage() {
           <button type="submit" className="btn btn-primary w-full justify-center" disabled={signIn.isPending}>
             {signIn.isPending ? 'Signing in…' : 'Sign in'}
           </button>
+          <p className="text-sm">
+            <Link to="/forgot-password" className="text-harbour underline">
+              Forgot your password?
+            </Link>
+          </p>
         </form>
         <p className="mt-6 text-xs text-muted">
           For a federation's classification programme. Agreement statistics describe consistency between classifiers, not the correctness of

@@ -1,0 +1,83 @@
+import { Link } from 'react-router';
+import type { InvitationView, MemberView } from '../../../../shared/schemas/access';
+import { useCurrentFederation } from '../../../app/use-federation';
+import { DataTable, type DataTableColumn } from '../../../components/data-table';
+import { ErrorNotice, Loading } from '../../../components/status';
+import { useSession } from '../../session/api/session';
+import { useMembers } from '../api/get-members';
+import { useRevokeInvitation } from '../api/revoke-invitation';
+import { ApiTokensSection } from './api-tokens-section';
+import { formatTime, ROLE_NAMES } from './format-time';
+import { InviteForm } from './invite-form';
+import { MemberRowEditor } from './member-row-editor';
+
+/** A lead's page of the federation's people and systems. */
+export function MembersPage() {
+  const { federation } = useCurrentFederation();
+  const session = useSession();
+  const members = useMembers(federation.slug);
+  const revokeInvitation = useRevokeInvitation(federation.slug);
+  const me = session.data?.user.id;
+
+  if (members.isPending) return <Loading />;
+  if (members.error) return <ErrorNotice error={members.error} />;
+  const { unlinkedClassifiers } = members.data;
+
+  const memberColumns: DataTableColumn<MemberView>[] = [
+    { key: 'displayName', header: 'Name' },
+    { key: 'email', header: 'E-mail' },
+    { key: 'role', header: 'Role', cell: (m) => ROLE_NAMES[m.role] },
+    { key: 'classifierCode', header: 'Roster entry', cell: (m) => m.classifierCode ?? '—' },
+    { key: 'active', header: 'Status', cell: (m) => (m.active ? 'Active' : <span className="text-alert">Deactivated</span>) },
+    {
+      key: 'userId',
+      header: 'Change',
+      sortable: false,
+      cell: (m) => <MemberRowEditor federation={federation.slug} member={m} unlinked={unlinkedClassifiers} isSelf={m.userId === me} />,
+    },
+  ];
+  const invitationColumns: DataTableColumn<InvitationView>[] = [
+    { key: 'email', header: 'E-mail' },
+    { key: 'role', header: 'Role', cell: (i) => `${ROLE_NAMES[i.role]}${i.classifierCode ? ` (${i.classifierCode})` : ''}` },
+    { key: 'createdAt', header: 'Sent', cell: (i) => `${formatTime(i.createdAt)}${i.invitedBy ? ` by ${i.invitedBy}` : ''}` },
+    { key: 'expiresAt', header: 'Expires', cell: (i) => formatTime(i.expiresAt) },
+    {
+      key: 'id',
+      header: 'Revoke',
+      sortable: false,
+      cell: (i) => (
+        <button type="button" className="btn btn-quiet min-h-9 py-1 text-sm" disabled={revokeInvitation.isPending} onClick={() => revokeInvitation.mutate(i.id)}>
+          Revoke<span className="sr-only"> the invitation of {i.email}</span>
+        </button>
+      ),
+    },
+  ];
+
+  return (
+    <div className="space-y-8">
+      <div className="flex flex-wrap items-baseline justify-between gap-3">
+        <div>
+          <h1>Members and access</h1>
+          <p className="mt-1 text-muted">Who may use {federation.name} in Panelwise, in which role, and which systems may send or read data.</p>
+        </div>
+        {session.data?.localMail ? (
+          <Link to="../outbox" relative="path" className="btn btn-quiet">
+            Outbox (e-mail kept locally)
+          </Link>
+        ) : null}
+      </div>
+      <InviteForm federation={federation.slug} unlinked={unlinkedClassifiers} />
+      <section className="space-y-3" aria-labelledby="members-title">
+        <h2 id="members-title">Members</h2>
+        <p className="text-sm text-muted">A change applies on the member's next request; a deactivated member loses this federation at once.</p>
+        <DataTable caption="Members" rows={members.data.members} columns={memberColumns} filterable rowKey={(m) => String(m.userId)} />
+      </section>
+      <section className="space-y-3" aria-labelledby="invitations-title">
+        <h2 id="invitations-title">Pending invitations</h2>
+        {revokeInvitation.error ? <ErrorNotice error={revokeInvitation.error} /> : null}
+        <DataTable caption="Pending invitations" rows={members.data.invitations} columns={invitationColumns} emptyText="No pending invitations." rowKey={(i) => String(i.id)} />
+      </section>
+      <ApiTokensSection federation={federation.slug} />
+    </div>
+  );
+}

@@ -1,0 +1,23 @@
+import { useCurrentFederation } from '../../../app/use-federation';
+import { ErrorNotice, Loading } from '../../../components/status';
+import { useOutbox } from '../api/get-outbox';
+import { OutboxList } from './outbox-list';
+
+/** The e-mails about this federation kept by the local mail server (never in production). */
+export function OutboxPage() {
+  const { federation } = useCurrentFederation();
+  const outbox = useOutbox(federation.slug);
+  return (
+    <div className="space-y-4">
+      <h1>Outbox</h1>
+      <p className="text-muted">
+        Outside production Panelwise delivers no e-mail: a mail server inside the app keeps every message, so invitations and password resets work end to end. These are
+        the messages about {federation.name}.
+      </p>
+      <button type="button" className="btn btn-quiet" onClick={() => void outbox.refetch()}>
+        Refresh
+      </button>
+      {outbox.isPending ? <Loading /> : outbox.error ? <ErrorNotice error={outbox.error} /> : <OutboxList messages={outbox.data} />}
+    </div>
+  );
+}

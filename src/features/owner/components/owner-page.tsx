@@ -1,0 +1,112 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useForm } from 'react-hook-form';
+import { Link, useNavigate } from 'react-router';
+import type { z } from 'zod';
+import { federationCreateSchema, type FederationCreate, type OwnerFederation } from '../../../../shared/schemas/access';
+import { ForbiddenPage } from '../../../app/error-pages';
+import { BrandMark } from '../../../components/brand';
+import { DataTable, type DataTableColumn } from '../../../components/data-table';
+import { ErrorNotice, Loading } from '../../../components/status';
+import { OutboxList } from '../../members/components/outbox-list';
+import { useSession, useSignOut } from '../../session/api/session';
+import { useCreateFederation } from '../api/create-federation';
+import { useOwnerFederations } from '../api/get-federations';
+import { useOwnerOutbox } from '../api/get-outbox';
+
+function CreateFederationForm() {
+  const create = useCreateFederation();
+  const form = useForm<z.input<typeof federationCreateSchema>, unknown, FederationCreate>({
+    resolver: zodResolver(federationCreateSchema),
+    defaultValues: { slug: '', name: '', leadEmail: '' },
+  });
+  const { errors } = form.formState;
+  const onSubmit = form.handleSubmit((values) => create.mutateAsync(values).then(() => form.reset(), () => undefined));
+  return (
+    <form onSubmit={onSubmit} className="card space-y-4" noValidate aria-labelledby="create-title">
+      <h2 id="create-title">Add a federation</h2>
+      <p className="text-sm text-muted">Its first classification lead gets an e-mailed invitation; the lead then invites everyone else.</p>
+      {create.error ? <ErrorNotice error={create.error} /> : null}
+      {create.isSuccess ? (
+        <p role="status" className="rounded-lg bg-ok-soft px-3 py-2 text-sm text-ok">
+          {create.data.federation.name} is created; {create.data.mailSent ? 'the invitation is sent to' : 'the e-mail could not be sent to'} {create.data.invitation.email}.
+        </p>
+      ) : null}
+      <div className="grid gap-4 sm:grid-cols-3">
+        <div className="field">
+          <label htmlFor="federation-name">Name</label>
+          <input id="federation-name" className="input" aria-invalid={errors.name ? true : undefined} {...form.register('name')} />
+          {errors.name ? <p className="field-error">{errors.name.message}</p> : null}
+        </div>
+        <div className="field">
+          <label htmlFor="federation-slug">Short address</label>
+          <input id="federation-slug" className="input" aria-describedby="slug-hint" aria-invalid={errors.slug ? true : undefined} {...form.register('slug')} />
+          <p id="slug-hint" className="text-xs text-muted">
+            Used in links, e.g. gannet-bay
+          </p>
+          {errors.slug ? <p className="field-error">{errors.slug.message}</p> : null}
+        </div>
+        <div className="field">
+          <label htmlFor="lead-email">First lead's e-mail</label>
+          <input id="lead-email" type="email" className="input" aria-invalid={errors.leadEmail ? true : undefined} {...form.register('leadEmail')} />
+          {errors.leadEmail ? <p className="field-error">{errors.leadEmail.message}</p> : null}
+        </div>
+      </div>
+      <button type="submit" className="btn btn-primary" disabled={create.isPending}>
+        Create and invite the lead
+      </button>
+    </form>
+  );
+}
+
+/** The site owner's page: federations and their first lead, and the local Outbox. */
+export function OwnerPage() {
+  const session = useSession();
+  const signOut = useSignOut();
+  const navigate = useNavigate();
+  const isOwner = session.data?.user.isOwner === true;
+  const federations = useOwnerFederations();
+  const outbox = useOwnerOutbox(isOwner && session.data?.localMail === true);
+  if (!isOwner) return <ForbiddenPage />;
+  const memberOf = new Set(session.data?.memberships.map((m) => m.federation.slug));
+
+  const columns: DataTableColumn<OwnerFederation>[] = [
+    { key: 'name', header: 'Federation', cell: (f) => (memberOf.has(f.slug) ? <Link to={`/f/${f.slug}`} className="text-harbour underline">{f.name}</Link> : f.name) },
+    { key: 'slug', header: 'Address' },
+    { key: 'leads', header: 'Leads', align: 'right' },
+    { key: 'activeMembers', header: 'Active members', align: 'right' },
+    { key: 'pendingInvitations', header: 'Pending invitations', align: 'right' },
+  ];
+
+  return (
+    <div className="min-h-screen">
+      <header className="border-b border-line bg-card">
+        <div className="mx-auto flex max-w-7xl items-center gap-4 px-4 py-3">
+          <span className="flex items-center gap-2 font-bold tracking-tight">
+            <BrandMark size={32} />
+            <span className="text-lg">Panelwise</span>
+          </span>
+          <span className="rounded-full bg-harbour-soft px-2.5 py-1 text-xs font-semibold text-harbour">Site owner</span>
+          <button
+            type="button"
+            className="btn btn-quiet ml-auto min-h-10 py-1.5"
+            onClick={() => signOut.mutate(undefined, { onSuccess: () => navigate('/sign-in', { replace: true }) })}
+          >
+            Sign out
+          </button>
+        </div>
+      </header>
+      <main id="main" className="mx-auto max-w-7xl space-y-8 px-4 py-6">
+        <h1>Federations</h1>
+        {federations.isPending ? <Loading /> : federations.error ? <ErrorNotice error={federations.error} /> : <DataTable caption="Federations" rows={federations.data} columns={columns} rowKey={(f) => String(f.id)} />}
+        <CreateFederationForm />
+        {session.data?.localMail ? (
+          <section className="space-y-3" aria-labelledby="outbox-title">
+            <h2 id="outbox-title">Outbox</h2>
+            <p className="text-sm text-muted">Outside production no e-mail leaves Panelwise: every message is kept here.</p>
+            {outbox.isPending ? <Loading /> : outbox.error ? <ErrorNotice error={outbox.error} /> : <OutboxList messages={outbox.data} />}
+          </section>
+        ) : null}
+      </main>
+    </div>
+  );
+}

@@ -1,0 +1,32 @@
+import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import type { AcceptNewUser, AcceptResult, InvitationPreview } from '../../../../shared/schemas/access';
+import type { SessionView } from '../../../../shared/schemas/session';
+import { api } from '../../../lib/api-client';
+import { sessionQueryOptions } from './session';
+
+/** What an invitation link offers (410 when it expired or was used). */
+export function invitationQueryOptions(token: string) {
+  return queryOptions({
+    queryKey: ['invitations', token],
+    queryFn: () => api<InvitationPreview>(`/invitations/${encodeURIComponent(token)}`),
+    staleTime: Infinity,
+  });
+}
+
+export function useInvitation(token: string) {
+  return useQuery(invitationQueryOptions(token));
+}
+
+/** Accepts the invitation; a new account is signed in, and the session is reloaded. */
+export function useAcceptInvitation(token: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: AcceptNewUser | Record<string, never>) => api<AcceptResult>(`/invitations/${encodeURIComponent(token)}/accept`, { method: 'POST', body }),
+    onSuccess: async (result) => {
+      if (!result.signedIn) return;
+      const session = await api<SessionView>('/session');
+      queryClient.clear();
+      queryClient.setQueryData(sessionQueryOptions().queryKey, session);
+    },
+  });
+}
