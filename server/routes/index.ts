@@ -5,7 +5,9 @@ import { analyticsRouter } from './analytics';
 import { exportsRouter } from './exports';
 import { federationsRouter } from './federations';
 import { healthRouter } from './health';
+import { importsRouter } from './imports';
 import { membersRouter } from './members';
+import { openApiRouter } from './openapi';
 import { ownerRouter } from './owner';
 import { sessionRouter } from './session';
 
@@ -23,5 +25,7 @@ export function apiRouter(ctx: AppContext): Router {
   router.use(federationsRouter(ctx));
   router.use(exportsRouter(ctx));
   router.use(analyticsRouter(ctx));
+  router.use(importsRouter(ctx));
+  router.use(openApiRouter(ctx));
   return router;
 }

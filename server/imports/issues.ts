@@ -1,0 +1,60 @@
+import type { ImportIssue } from '../../shared/schemas/imports';
+
+/** How many errors and warnings are kept in detail; the rest are only counted. */
+export const ISSUE_DETAIL_LIMIT = 200;
+
+const VALUE_SHOWN = 120;
+
+/** A value as shown in a message: at most 120 characters. */
+export function shownValue(value: unknown): string {
+  const text = value === undefined || value === null ? '' : String(value);
+  return text.length > VALUE_SHOWN ? `${text.slice(0, VALUE_SHOWN)}…` : text;
+}
+
+/** Collects errors and warnings, keeping the first 200 of each and counting all. */
+export class IssueList {
+  readonly errors: ImportIssue[] = [];
+  readonly warnings: ImportIssue[] = [];
+  errorCount = 0;
+  warningCount = 0;
+
+  error(issue: ImportIssue): void {
+    this.errorCount++;
+    if (this.errors.length < ISSUE_DETAIL_LIMIT) this.errors.push(issue);
+  }
+
+  warning(issue: ImportIssue): void {
+    this.warningCount++;
+    if (this.warnings.length < ISSUE_DETAIL_LIMIT) this.warnings.push(issue);
+  }
+}
+
+/** An issue for a row and column, with its message as people read it. */
+export function rowIssue(row: number | null, line: number | null, column: string | null, value: unknown, problem: string): ImportIssue {
+  const shown = value === undefined ? null : shownValue(value);
+  return { row, line, column, value: shown, message: describe(row, line, column, shown, problem) };
+}
+
+export function describe(row: number | null, line: number | null, column: string | null, value: string | null, problem: string): string {
+  const parts: string[] = [];
+  if (row !== null) parts.push(`Row ${row}${line !== null ? ` (line ${line})` : ''}`);
+  else if (line !== null) parts.push(`Line ${line}`);
+  if (column !== null) parts.push(`column ${column}`);
+  const where = parts.join(', ');
+  const what = value !== null ? `value "${value}" ${problem}` : problem;
+  return where ? `${where}: ${what}` : what.charAt(0).toUpperCase() + what.slice(1);
+}
+
+/** A refusal of the file as a whole (not a CSV, empty, header problems, too large…). */
+export class FileRefusal extends Error {
+  readonly issues: ImportIssue[];
+  constructor(issues: ImportIssue[]) {
+    super(issues.map((i) => i.message).join('; '));
+    this.name = 'FileRefusal';
+    this.issues = issues;
+  }
+}
+
+export function fileIssue(message: string, where: { row?: number; line?: number; column?: string; value?: string } = {}): ImportIssue {
+  return { row: where.row ?? null, line: where.line ?? null, column: where.column ?? null, value: where.value === undefined ? null : shownValue(where.value), message };
+}

@@ -1,0 +1,331 @@
+/**
+ * Imports of panel decisions: the dry run of an uploaded CSV (read, check, compare with the
+ * federation's data, stage), its commit and revert, discarding a staged import, the history,
+ * and the batch API. Every write is one transaction on the raw connection; a refused file or
+ * batch writes nothing at all.
+ */
+import crypto from 'node:crypto';
+import fs from 'node:fs';
+import type { UploadOptions, DryRun, ImportCounts, ImportView, BatchResult, ImportStatus } from '../../shared/schemas/imports';
+import type { FederationAccess } from '../auth/access';
+import type { AppContext } from '../context';
+import { HttpError, notFound } from '../http/errors';
+import { audit } from '../services/audit';
+import { bumpDataVersion } from '../services/data-version';
+import type { ValidatedBatch } from './batch';
+import { readBatchItems, toBatchIssue } from './api-batch';
+import { readCsvBytes } from './csv-reader';
+import { IssueList } from './issues';
+import { planChangesSomething, planImport, type ImportPlan } from './plan';
+import { readStaged, removeStaged, writeStaged } from './staging';
+import { applyPlan, revertRows, RevertRefused } from './write';
+
+export const MAX_UPLOAD_BYTES = 50 * 1024 * 1024;
+
+type Federation = FederationAccess['federation'];
+
+export interface Reporter {
+  report(phase: 'reading' | 'checking' | 'writing' | 'reverting', done: number, total: number): void;
+}
+
+const silent: Reporter = { report: () => {} };
+
+function scaleOf(federation: Federation) {
+  return { min: federation.scaleMin, max: federation.scaleMax };
+}
+
+function rosterCodes(ctx: AppContext, federationId: number): string[] {
+  return ctx.sqlite.prepare('select code from classifiers where federation_id = ?').pluck().all(federationId) as string[];
+}
+
+function sameFileAs(ctx: AppContext, federationId: number, hash: string | null): DryRun['sameFileAs'] {
+  if (!hash) return null;
+  const row = ctx.sqlite
+    .prepare("select id, committed_at from imports where federation_id = ? and file_hash = ? and status = 'committed' order by id desc limit 1")
+    .get(federationId, hash) as { id: number; committed_at: string | null } | undefined;
+  return row ? { importId: row.id, committedAt: row.committed_at } : null;
+}
+
+/**
+ * Reads, checks and compares an uploaded file without touching the federation's data. A file
+ * that passes and would change something is staged as an import to commit.
+ */
+export async function dryRunCsv(
+  ctx: AppContext,
+  federation: Federation,
+  userId: number | null,
+  file: { bytes: Uint8Array; name: string | null },
+  options: UploadOptions,
+  reporter: Reporter = silent,
+): Promise<DryRun> {
+  const fileHash = crypto.createHash('sha256').update(file.bytes).digest('hex');
+  const read = await readCsvBytes(
+    file.bytes,
+    { mapping: options.mapping, dateFormat: options.dateFormat, scale: scaleOf(federation), unknownColumns: 'reject', knownClassifierCodes: rosterCodes(ctx, federation.id) },
+    (done, total) => reporter.report('reading', done, total),
+  );
+  const base = { fileName: file.name, fileHash, layout: read.layout, sameFileAs: sameFileAs(ctx, federation.id, fileHash) };
+  const refused = (issues: IssueList, counts: ImportCounts | null): DryRun => ({
+    ...base,
+    importId: null,
+    outcome: 'refused',
+    counts,
+    errorCount: issues.errorCount,
+    errors: issues.errors,
+    warningCount: issues.warningCount,
+    warnings: issues.warnings,
+  });
+  if (!read.batch || read.issues.errorCount > 0) return refused(read.issues, null);
+  reporter.report('checking', 0, 1);
+  const plan = planImport(ctx.sqlite, federation.id, read.batch, { addClassifiers: options.addClassifiers }, read.issues);
+  if (read.issues.errorCount > 0) return refused(read.issues, plan.counts);
+  const answer = (importId: number | null, outcome: DryRun['outcome']): DryRun => ({
+    ...base,
+    importId,
+    outcome,
+    counts: plan.counts,
+    errorCount: 0,
+    errors: [],
+    warningCount: read.issues.warningCount,
+    warnings: read.issues.warnings,
+  });
+  if (!planChangesSomething(plan.counts)) return answer(null, 'nothing-to-do');
+
+  const importId = Number(
+    ctx.sqlite
+      .prepare("insert into imports (federation_id, user_id, source, file_name, file_hash, status, counts) values (?, ?, 'csv', ?, ?, 'staged', ?)")
+      .run(federation.id, userId, file.name, fileHash, JSON.stringify(plan.counts)).lastInsertRowid,
+  );
+  try {
+    await writeStaged(ctx, importId, { federationId: federation.id, addClassifiers: options.addClassifiers, batch: read.batch });
+  } catch (error) {
+    ctx.sqlite.prepare('delete from imports where id = ?').run(importId);
+    throw error;
+  }
+  return answer(importId, 'ready');
+}
+
+interface ImportRow {
+  id: number;
+  federation_id: number;
+  status: ImportStatus;
+  source: 'csv' | 'api' | 'seed';
+  counts: string;
+}
+
+function importRow(ctx: AppContext, federationId: number, importId: number): ImportRow {
+  const row = ctx.sqlite.prepare('select id, federation_id, status, source, counts from imports where id = ? and federation_id = ?').get(importId, federationId) as ImportRow | undefined;
+  if (!row) throw notFound('The import');
+  return row;
+}
+
+/**
+ * Writes a batch as import `importId` in the caller's transaction: plans again against the data
+ * as it is now (another import may have come in since the dry run), refuses on any error, writes.
+ */
+function writeBatch(ctx: AppContext, federationId: number, importId: number, batch: ValidatedBatch, addClassifiers: boolean): { plan: ImportPlan; issues: IssueList } {
+  const issues = new IssueList();
+  const plan = planImport(ctx.sqlite, federationId, batch, { addClassifiers }, issues);
+  if (issues.errorCount > 0) return { plan, issues };
+  applyPlan(ctx.sqlite, federationId, importId, batch, plan);
+  return { plan, issues };
+}
+
+/** Commits a staged import in one transaction. */
+export async function commitImport(ctx: AppContext, federation: Federation, userId: number | null, importId: number, reporter: Reporter = silent): Promise<ImportView> {
+  const row = importRow(ctx, federation.id, importId);
+  if (row.status !== 'staged') throw new HttpError(409, 'conflict', `The import is ${row.status}, not waiting to be committed`);
+  const staged = await readStaged(ctx, importId);
+  if (!staged || staged.federationId !== federation.id) {
+    throw new HttpError(410, 'gone', 'The checked file is no longer kept on the server: upload it again');
+  }
+  const total = staged.batch.assessments.externalId.length + staged.batch.ratings.assessment.length;
+  reporter.report('writing', 0, total);
+  const result = ctx.sqlite
+    .transaction(() => {
+      // Re-read inside the transaction: a concurrent commit of the same import loses here.
+      const now = ctx.sqlite.prepare('select status from imports where id = ?').pluck().get(importId);
+      if (now !== 'staged') return { conflict: true as const };
+      const written = writeBatch(ctx, federation.id, importId, staged.batch, staged.addClassifiers);
+      if (written.issues.errorCount > 0) return { issues: written.issues };
+      ctx.sqlite
+        .prepare("update imports set status = 'committed', counts = ?, committed_at = strftime('%Y-%m-%dT%H:%M:%fZ','now') where id = ?")
+        .run(JSON.stringify(written.plan.counts), importId);
+      auditSync(ctx, federation.id, userId, 'import.commit', importId, { counts: written.plan.counts });
+      return { counts: written.plan.counts };
+    })
+    .immediate();
+  if ('conflict' in result) throw new HttpError(409, 'conflict', 'The import is no longer waiting to be committed');
+  if ('issues' in result && result.issues) {
+    throw new HttpError(409, 'conflict', 'The data changed since the dry run and the file no longer passes: check it again', {
+      errorCount: result.issues.errorCount,
+      errors: result.issues.errors,
+    });
+  }
+  reporter.report('writing', total, total);
+  bumpDataVersion(federation.id);
+  await removeStaged(ctx, importId);
+  return importView(ctx, federation.id, importId);
+}
+
+/** The audit entry, written with the raw connection inside its synchronous transaction. */
+function auditSync(ctx: AppContext, federationId: number, userId: number | null, action: string, importId: number, detail: Record<string, unknown>): void {
+  ctx.sqlite
+    .prepare("insert into audit_log (federation_id, user_id, action, entity, entity_id, detail) values (?, ?, ?, 'import', ?, ?)")
+    .run(federationId, userId, action, String(importId), JSON.stringify(detail));
+}
+
+/** Why an import cannot be reverted now, or null. */
+function revertBlocker(ctx: AppContext, row: ImportRow): string | null {
+  if (row.status !== 'committed') return `The import is ${row.status}`;
+  if (row.source === 'seed') return 'The demo data cannot be reverted';
+  const later = ctx.sqlite
+    .prepare("select id from imports where federation_id = ? and id > ? and status = 'committed' order by id limit 1")
+    .pluck()
+    .get(row.federation_id, row.id) as number | undefined;
+  return later === undefined ? null : `Import #${later} came later: revert it first`;
+}
+
+export async function revertImport(ctx: AppContext, federation: Federation, userId: number | null, importId: number, reporter: Reporter = silent): Promise<ImportView> {
+  const row = importRow(ctx, federation.id, importId);
+  const blocker = revertBlocker(ctx, row);
+  if (blocker) throw new HttpError(409, 'conflict', blocker);
+  reporter.report('reverting', 0, 1);
+  try {
+    ctx.sqlite
+      .transaction(() => {
+        const again = importRow(ctx, federation.id, importId);
+        const stillBlocked = revertBlocker(ctx, again);
+        if (stillBlocked) throw new RevertRefused(stillBlocked);
+        revertRows(ctx.sqlite, importId);
+        ctx.sqlite.prepare("update imports set status = 'reverted', reverted_at = strftime('%Y-%m-%dT%H:%M:%fZ','now') where id = ?").run(importId);
+        auditSync(ctx, federation.id, userId, 'import.revert', importId, { counts: JSON.parse(again.counts) as unknown });
+      })
+      .immediate();
+  } catch (error) {
+    if (error instanceof RevertRefused) throw new HttpError(409, 'conflict', `The import cannot be reverted: ${error.message}`);
+    if ((error as { code?: string }).code === 'SQLITE_CONSTRAINT_FOREIGNKEY') {
+      throw new HttpError(409, 'conflict', 'The import cannot be reverted: other records now refer to what it added');
+    }
+    throw error;
+  }
+  reporter.report('reverting', 1, 1);
+  bumpDataVersion(federation.id);
+  return importView(ctx, federation.id, importId);
+}
+
+export async function discardImport(ctx: AppContext, federation: Federation, userId: number | null, importId: number): Promise<void> {
+  const row = importRow(ctx, federation.id, importId);
+  if (row.status !== 'staged') throw new HttpError(409, 'conflict', `The import is ${row.status}: only a checked file waiting to be committed can be discarded`);
+  ctx.sqlite.prepare("update imports set status = 'discarded' where id = ? and status = 'staged'").run(importId);
+  await audit(ctx.db, { federationId: federation.id, userId, action: 'import.discard', entity: 'import', entityId: importId });
+  await removeStaged(ctx, importId);
+}
+
+interface HistoryRow {
+  id: number;
+  federation_id: number;
+  source: 'csv' | 'api' | 'seed';
+  file_name: string | null;
+  status: ImportStatus;
+  counts: string;
+  created_at: string;
+  committed_at: string | null;
+  reverted_at: string | null;
+  by: string | null;
+}
+
+const HISTORY_SQL = `select imports.id, imports.federation_id, imports.source, imports.file_name, imports.status, imports.counts,
+       imports.created_at, imports.committed_at, imports.reverted_at, users.display_name as by
+  from imports left join users on users.id = imports.user_id
+ where imports.federation_id = ?`;
+
+function toView(ctx: AppContext, row: HistoryRow): ImportView {
+  let counts: ImportView['counts'] = null;
+  try {
+    counts = JSON.parse(row.counts) as ImportView['counts'];
+  } catch {
+    counts = null;
+  }
+  const blocker = revertBlocker(ctx, row);
+  return {
+    id: row.id,
+    source: row.source,
+    fileName: row.file_name,
+    status: row.status,
+    counts,
+    by: row.by ?? (row.source === 'api' ? 'API token' : null),
+    createdAt: row.created_at,
+    committedAt: row.committed_at,
+    revertedAt: row.reverted_at,
+    revertable: blocker === null,
+    revertBlockedBy: blocker,
+  };
+}
+
+export function importView(ctx: AppContext, federationId: number, importId: number): ImportView {
+  const row = ctx.sqlite.prepare(`${HISTORY_SQL} and imports.id = ?`).get(federationId, importId) as HistoryRow | undefined;
+  if (!row) throw notFound('The import');
+  return toView(ctx, row);
+}
+
+export function listImports(ctx: AppContext, federationId: number): ImportView[] {
+  const rows = ctx.sqlite.prepare(`${HISTORY_SQL} and imports.status != 'discarded' order by imports.id desc limit 500`).all(federationId) as HistoryRow[];
+  return rows.map((row) => toView(ctx, row));
+}
+
+/** Thrown by importBatch when items are refused; the route answers 422 with every issue. */
+export class BatchRefused extends Error {
+  readonly issues: IssueList;
+  constructor(issues: IssueList) {
+    super(`${issues.errorCount} problem(s) in the batch`);
+    this.issues = issues;
+  }
+}
+
+/**
+ * The batch API: checks every item, then (unless a dry run) writes them all in one transaction
+ * or nothing. Idempotent by natural key: posting the same items again changes nothing.
+ */
+export function importBatch(
+  ctx: AppContext,
+  federation: Federation,
+  userId: number | null,
+  items: unknown,
+  options: { dryRun: boolean; addClassifiers: boolean },
+): { status: 200 | 201; body: BatchResult } {
+  const read = readBatchItems(items, scaleOf(federation));
+  if (!read.batch || read.issues.errorCount > 0) throw new BatchRefused(read.issues);
+  const batch = read.batch;
+  const warnings = read.issues.warnings.map(toBatchIssue);
+  const preview = planImport(ctx.sqlite, federation.id, batch, { addClassifiers: options.addClassifiers }, read.issues);
+  if (read.issues.errorCount > 0) throw new BatchRefused(read.issues);
+  if (options.dryRun) return { status: 200, body: { importId: null, outcome: 'dry-run', counts: preview.counts, warnings } };
+  if (!planChangesSomething(preview.counts)) return { status: 200, body: { importId: null, outcome: 'nothing-to-do', counts: preview.counts, warnings } };
+  const hash = crypto.createHash('sha256').update(JSON.stringify(items)).digest('hex');
+  const result = ctx.sqlite
+    .transaction(() => {
+      const importId = Number(
+        ctx.sqlite
+          .prepare("insert into imports (federation_id, user_id, source, file_name, file_hash, status, counts, committed_at) values (?, ?, 'api', null, ?, 'committed', '{}', strftime('%Y-%m-%dT%H:%M:%fZ','now'))")
+          .run(federation.id, userId, hash).lastInsertRowid,
+      );
+      const written = writeBatch(ctx, federation.id, importId, batch, options.addClassifiers);
+      if (written.issues.errorCount > 0) throw new BatchRefused(written.issues);
+      ctx.sqlite.prepare('update imports set counts = ? where id = ?').run(JSON.stringify(written.plan.counts), importId);
+      auditSync(ctx, federation.id, userId, 'import.commit', importId, { source: 'api', counts: written.plan.counts });
+      return { importId, counts: written.plan.counts };
+    })
+    .immediate();
+  bumpDataVersion(federation.id);
+  return { status: 201, body: { importId: result.importId, outcome: 'committed', counts: result.counts, warnings } };
+}
+
+/** Reads an uploaded temporary file and removes it. */
+export async function takeUpload(path: string): Promise<Uint8Array> {
+  try {
+    return await fs.promises.readFile(path);
+  } finally {
+    await fs.promises.rm(path, { force: true });
+  }
+}

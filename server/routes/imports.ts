@@ -1,0 +1,391 @@
+import crypto from 'node:crypto';
+import os from 'node:os';
+import path from 'node:path';
+import { Router, type RequestHandler } from 'express';
+import multer from 'multer';
+import { z } from 'zod';
+import {
+  batchQuerySchema,
+  batchRefusalSchema,
+  batchRequestSchema,
+  batchResultSchema,
+  dateFormatSchema,
+  dryRunSchema,
+  importListSchema,
+  importViewSchema,
+  saveMappingSchema,
+  savedMappingListSchema,
+  savedMappingSchema,
+  uploadOptionsSchema,
+  type SavedMapping,
+} from '../../shared/schemas/imports';
+import { apiErrorSchema } from '../../shared/schemas/common';
+import { accessOf, requireAccess } from '../auth/access';
+import type { AppContext } from '../context';
+import { HttpError, notFound } from '../http/errors';
+import { parseWith } from '../http/validate';
+import { toBatchIssue } from '../imports/api-batch';
+import { progressReporter, streamProgress, JOB_ID } from '../imports/progress';
+import { BatchRefused, commitImport, discardImport, dryRunCsv, importBatch, importView, listImports, MAX_UPLOAD_BYTES, revertImport, takeUpload } from '../imports/service';
+import { registerRoute } from '../openapi/registry';
+import { audit } from '../services/audit';
+
+const uploadFolder = path.join(os.tmpdir(), 'panelwise-uploads');
+
+const upload = multer({
+  storage: multer.diskStorage({
+    destination: uploadFolder,
+    filename: (_req, _file, cb) => cb(null, `${Date.now()}-${crypto.randomBytes(8).toString('hex')}.upload`),
+  }),
+  limits: { fileSize: MAX_UPLOAD_BYTES, files: 1, fields: 10, fieldSize: 256 * 1024 },
+}).single('file');
+
+/** Receives the one file of a multipart upload, with a clear refusal of a file over 50 MB. */
+const receiveFile: RequestHandler = (req, res, next) => {
+  import('node:fs')
+    .then((fs) => fs.promises.mkdir(uploadFolder, { recursive: true }))
+    .then(() =>
+      upload(req, res, (error: unknown) => {
+        if (!error) return next();
+        if (error instanceof multer.MulterError) {
+          if (error.code === 'LIMIT_FILE_SIZE') {
+            return next(new HttpError(413, 'payload_too_large', 'The file is larger than 50 MB: split it into smaller files, or send the assessments through the batch API'));
+          }
+          return next(new HttpError(400, 'bad_request', `The upload is not valid: ${error.message}${error.field ? ` (field ${error.field})` : ''}`));
+        }
+        next(error);
+      }),
+    )
+    .catch(next);
+};
+
+const importIdParam = z.coerce.number().int().positive();
+const mappingIdParam = z.coerce.number().int().positive();
+
+function idOf(raw: unknown, what: string): number {
+  const r = importIdParam.safeParse(raw);
+  if (!r.success) throw notFound(what);
+  return r.data;
+}
+
+function jobOf(query: unknown): string | undefined {
+  const job = (query as Record<string, unknown>).job;
+  return typeof job === 'string' && JOB_ID.test(job) ? job : undefined;
+}
+
+const truthy = (v: string | undefined) => v === 'true' || v === '1';
+
+/** The multipart fields beside the file: mapping (JSON), dateFormat, addClassifiers. */
+function uploadOptions(body: unknown) {
+  const fields = (body ?? {}) as Record<string, string | undefined>;
+  let mapping: unknown;
+  if (fields.mapping !== undefined && fields.mapping !== '') {
+    try {
+      mapping = JSON.parse(fields.mapping);
+    } catch {
+      throw new HttpError(400, 'validation_failed', 'The mapping is not valid JSON', [{ path: 'mapping', message: 'is not JSON' }]);
+    }
+  }
+  return parseWith(
+    uploadOptionsSchema,
+    { mapping, dateFormat: fields.dateFormat || undefined, addClassifiers: fields.addClassifiers === undefined ? undefined : truthy(fields.addClassifiers) },
+    'upload',
+  );
+}
+
+function mappingView(row: { id: number; name: string; layout: 'long' | 'wide'; mapping: string; date_format: string; updated_at: string }): SavedMapping {
+  return {
+    id: row.id,
+    name: row.name,
+    layout: row.layout,
+    mapping: JSON.parse(row.mapping) as SavedMapping['mapping'],
+    dateFormat: dateFormatSchema.catch('iso').parse(row.date_format),
+    updatedAt: row.updated_at,
+  };
+}
+
+/**
+ * Imports of panel decisions, for the federation's leads: dry run of an uploaded CSV, commit,
+ * revert, history, saved column mappings, progress as server-sent events; and the batch API
+ * for federations' own systems (a lead, or an API token with the import scope).
+ */
+export function importsRouter(ctx: AppContext): Router {
+  const router = Router();
+  const leads = requireAccess(ctx, { roles: ['lead'] });
+  const base = '/federations/:federation';
+
+  router.get(`${base}/imports`, leads, (req, res) => {
+    const { federation } = accessOf(req);
+    res.json({ imports: listImports(ctx, federation.id) });
+  });
+
+  router.post(`${base}/imports`, leads, receiveFile, async (req, res) => {
+    const { federation, userId } = accessOf(req);
+    const file = req.file;
+    if (!file) {
+      throw new HttpError(400, 'bad_request', 'Send the CSV as multipart/form-data in a field named "file"');
+    }
+    let bytes: Uint8Array;
+    let options: ReturnType<typeof uploadOptions>;
+    try {
+      options = uploadOptions(req.body);
+    } finally {
+      bytes = await takeUpload(file.path);
+    }
+    const progress = progressReporter(federation.id, userId, jobOf(req.query));
+    try {
+      const result = await dryRunCsv(ctx, federation, userId, { bytes, name: Buffer.from(file.originalname, 'latin1').toString('utf8').slice(0, 200) || null }, options, progress);
+      progress.finish('done');
+      res.json(result);
+    } catch (error) {
+      progress.finish('failed', 'The file could not be checked');
+      throw error;
+    }
+  });
+
+  router.get(`${base}/imports/:importId`, leads, (req, res) => {
+    const { federation } = accessOf(req);
+    res.json(importView(ctx, federation.id, idOf(req.params.importId, 'The import')));
+  });
+
+  router.post(`${base}/imports/:importId/commit`, leads, async (req, res) => {
+    const { federation, userId } = accessOf(req);
+    const progress = progressReporter(federation.id, userId, jobOf(req.query));
+    try {
+      const view = await commitImport(ctx, federation, userId, idOf(req.params.importId, 'The import'), progress);
+      progress.finish('done');
+      res.json(view);
+    } catch (error) {
+      progress.finish('failed', error instanceof HttpError ? error.message : 'The import was not written');
+      throw error;
+    }
+  });
+
+  router.post(`${base}/imports/:importId/revert`, leads, async (req, res) => {
+    const { federation, userId } = accessOf(req);
+    const progress = progressReporter(federation.id, userId, jobOf(req.query));
+    try {
+      const view = await revertImport(ctx, federation, userId, idOf(req.params.importId, 'The import'), progress);
+      progress.finish('done');
+      res.json(view);
+    } catch (error) {
+      progress.finish('failed', error instanceof HttpError ? error.message : 'The import was not reverted');
+      throw error;
+    }
+  });
+
+  router.delete(`${base}/imports/:importId`, leads, async (req, res) => {
+    const { federation, userId } = accessOf(req);
+    await discardImport(ctx, federation, userId, idOf(req.params.importId, 'The import'));
+    res.status(204).end();
+  });
+
+  router.get(`${base}/import-jobs/:job/events`, leads, (req, res) => {
+    const { federation, userId } = accessOf(req);
+    const job = String(req.params.job);
+    if (!JOB_ID.test(job)) throw new HttpError(400, 'bad_request', 'A job id is 8 to 64 letters, digits, - or _');
+    streamProgress(res, federation.id, userId, job);
+  });
+
+  router.get(`${base}/import-mappings`, leads, (req, res) => {
+    const { federation } = accessOf(req);
+    const rows = ctx.sqlite
+      .prepare('select id, name, layout, mapping, date_format, updated_at from import_mappings where federation_id = ? order by name')
+      .all(federation.id) as Parameters<typeof mappingView>[0][];
+    res.json({ mappings: rows.map(mappingView) });
+  });
+
+  router.post(`${base}/import-mappings`, leads, async (req, res) => {
+    const { federation, userId } = accessOf(req);
+    const input = parseWith(saveMappingSchema, req.body);
+    const layout = Object.values(input.mapping).some((t) => t.startsWith('classifier:') || t.startsWith('seat')) ? 'wide' : 'long';
+    const existing = ctx.sqlite.prepare('select id from import_mappings where federation_id = ? and name = ?').pluck().get(federation.id, input.name) as number | undefined;
+    if (existing !== undefined) {
+      ctx.sqlite
+        .prepare("update import_mappings set layout = ?, mapping = ?, date_format = ?, user_id = ?, updated_at = strftime('%Y-%m-%dT%H:%M:%fZ','now') where id = ?")
+        .run(layout, JSON.stringify(input.mapping), input.dateFormat, userId, existing);
+    } else {
+      ctx.sqlite
+        .prepare('insert into import_mappings (federation_id, name, layout, mapping, date_format, user_id) values (?, ?, ?, ?, ?, ?)')
+        .run(federation.id, input.name, layout, JSON.stringify(input.mapping), input.dateFormat, userId);
+    }
+    const row = ctx.sqlite
+      .prepare('select id, name, layout, mapping, date_format, updated_at from import_mappings where federation_id = ? and name = ?')
+      .get(federation.id, input.name) as Parameters<typeof mappingView>[0];
+    await audit(ctx.db, { federationId: federation.id, userId, action: existing === undefined ? 'import_mapping.create' : 'import_mapping.update', entity: 'import_mapping', entityId: row.id, detail: { name: input.name } });
+    res.status(existing === undefined ? 201 : 200).json(mappingView(row));
+  });
+
+  router.delete(`${base}/import-mappings/:mappingId`, leads, async (req, res) => {
+    const { federation, userId } = accessOf(req);
+    const id = mappingIdParam.safeParse(req.params.mappingId);
+    if (!id.success) throw notFound('The saved mapping');
+    const result = ctx.sqlite.prepare('delete from import_mappings where id = ? and federation_id = ?').run(id.data, federation.id);
+    if (result.changes === 0) throw notFound('The saved mapping');
+    await audit(ctx.db, { federationId: federation.id, userId, action: 'import_mapping.delete', entity: 'import_mapping', entityId: id.data });
+    res.status(204).end();
+  });
+
+  router.post('/v1/federations/:federation/assessments', requireAccess(ctx, { roles: ['lead'], tokenScopes: ['import'] }), (req, res) => {
+    const { federation, userId } = accessOf(req);
+    const query = parseWith(batchQuerySchema, req.query, 'query');
+    try {
+      const result = importBatch(ctx, federation, userId, req.body, { dryRun: truthy(query.dryRun), addClassifiers: truthy(query.addClassifiers) });
+      res.status(result.status).json(result.body);
+    } catch (error) {
+      if (error instanceof BatchRefused) {
+        throw new HttpError(422, 'validation_failed', `The batch was refused and nothing was written: ${error.issues.errorCount} problem(s)`, {
+          errorCount: error.issues.errorCount,
+          errors: error.issues.errors.map(toBatchIssue),
+        });
+      }
+      throw error;
+    }
+  });
+
+  return router;
+}
+
+// ——— OpenAPI descriptions ———
+
+const lead = { session: true } as const;
+const tags = ['Imports'];
+const importParam = { importId: 'The import’s id' };
+const errorResponse = (description: string) => ({ description, schema: apiErrorSchema });
+
+registerRoute({
+  method: 'get',
+  path: '/api/federations/:federation/imports',
+  summary: 'The federation’s import history (newest first)',
+  tags,
+  security: lead,
+  responses: { 200: { description: 'The imports', schema: importListSchema } },
+});
+registerRoute({
+  method: 'post',
+  path: '/api/federations/:federation/imports',
+  summary: 'Upload a CSV for a dry run: read, check and compare it; a file that passes is staged to commit',
+  description:
+    'multipart/form-data with the file in "file" (at most 50 MB), and optionally "mapping" (JSON: header → target), "dateFormat" and "addClassifiers". Nothing is written to the federation’s data. Pass ?job=ID to follow progress at /import-jobs/ID/events.',
+  tags,
+  security: lead,
+  query: z.object({ job: z.string().regex(JOB_ID).optional() }),
+  body: {
+    contentType: 'multipart/form-data',
+    schema: z.object({ file: z.string().meta({ format: 'binary' }), mapping: z.string().optional(), dateFormat: dateFormatSchema.optional(), addClassifiers: z.enum(['true', 'false']).optional() }),
+  },
+  responses: {
+    200: { description: 'The dry run: counts, the first 200 errors with their rows, and the staged import’s id when it can be committed', schema: dryRunSchema },
+    400: errorResponse('No file, or the form fields are not valid'),
+    413: errorResponse('The file is larger than 50 MB'),
+  },
+});
+registerRoute({
+  method: 'get',
+  path: '/api/federations/:federation/imports/:importId',
+  summary: 'One import',
+  tags,
+  security: lead,
+  params: importParam,
+  responses: { 200: { description: 'The import', schema: importViewSchema }, 404: errorResponse('No such import in the federation') },
+});
+registerRoute({
+  method: 'post',
+  path: '/api/federations/:federation/imports/:importId/commit',
+  summary: 'Commit a staged import, all or nothing, in one transaction',
+  tags,
+  security: lead,
+  params: importParam,
+  query: z.object({ job: z.string().regex(JOB_ID).optional() }),
+  responses: {
+    200: { description: 'The committed import', schema: importViewSchema },
+    404: errorResponse('No such import'),
+    409: errorResponse('The import is not staged, or the data changed so that the file no longer passes'),
+    410: errorResponse('The checked file is no longer kept: upload it again'),
+  },
+});
+registerRoute({
+  method: 'post',
+  path: '/api/federations/:federation/imports/:importId/revert',
+  summary: 'Revert a committed import: remove what it added, restore what it changed',
+  tags,
+  security: lead,
+  params: importParam,
+  query: z.object({ job: z.string().regex(JOB_ID).optional() }),
+  responses: {
+    200: { description: 'The reverted import', schema: importViewSchema },
+    404: errorResponse('No such import'),
+    409: errorResponse('Not committed, the demo data, or a later import must be reverted first'),
+  },
+});
+registerRoute({
+  method: 'delete',
+  path: '/api/federations/:federation/imports/:importId',
+  summary: 'Discard a staged import without committing it',
+  tags,
+  security: lead,
+  params: importParam,
+  responses: { 204: { description: 'Discarded' }, 404: errorResponse('No such import'), 409: errorResponse('The import is not staged') },
+});
+registerRoute({
+  method: 'get',
+  path: '/api/federations/:federation/import-jobs/:job/events',
+  summary: 'Progress of a dry run, commit or revert, as server-sent events',
+  tags,
+  security: lead,
+  params: { job: 'The id the client sent as ?job= with the request' },
+  responses: {
+    200: {
+      description: 'A stream of `data: {phase, done, total, message}` events, closed when the job ends',
+      contentType: 'text/event-stream',
+      schema: z.string(),
+    },
+  },
+});
+registerRoute({
+  method: 'get',
+  path: '/api/federations/:federation/import-mappings',
+  summary: 'Column mappings saved by name',
+  tags,
+  security: lead,
+  responses: { 200: { description: 'The saved mappings', schema: savedMappingListSchema } },
+});
+registerRoute({
+  method: 'post',
+  path: '/api/federations/:federation/import-mappings',
+  summary: 'Save a column mapping by name (replacing one of the same name)',
+  tags,
+  security: lead,
+  body: { schema: saveMappingSchema },
+  responses: {
+    200: { description: 'Replaced', schema: savedMappingSchema },
+    201: { description: 'Saved', schema: savedMappingSchema },
+    400: errorResponse('Not valid'),
+  },
+});
+registerRoute({
+  method: 'delete',
+  path: '/api/federations/:federation/import-mappings/:mappingId',
+  summary: 'Delete a saved column mapping',
+  tags,
+  security: lead,
+  params: { mappingId: 'The saved mapping’s id' },
+  responses: { 204: { description: 'Deleted' }, 404: errorResponse('No such mapping') },
+});
+registerRoute({
+  method: 'post',
+  path: '/api/v1/federations/:federation/assessments',
+  summary: 'Batch API: import assessments with their ratings, idempotent by natural key',
+  description:
+    'A JSON array of assessments. The same checks as a CSV upload; all items are written in one transaction or none. Posting the same items again changes nothing (assessments by (federation, assessment_id), ratings by (assessment, classifier)). ?dryRun=true checks and counts without writing; ?addClassifiers=true adds unknown classifier codes to the roster.',
+  tags,
+  security: { session: true, bearerScopes: ['import'] },
+  query: batchQuerySchema,
+  body: { schema: batchRequestSchema },
+  responses: {
+    200: { description: 'A dry run, or nothing to change', schema: batchResultSchema },
+    201: { description: 'Written as a new import', schema: batchResultSchema },
+    400: errorResponse('The query is not valid'),
+    422: { description: 'Refused, nothing written: every problem with its item, field and value', schema: batchRefusalSchema },
+  },
+});
