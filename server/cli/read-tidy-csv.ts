@@ -4,13 +4,16 @@
  * Columns (header required, any order, extra columns ignored): assessment_id, athlete_code,
  * event_code, assessed_on (ISO date YYYY-MM-DD), classifier_code, sport_class (1.0 … 4.5 in
  * half points, "3", "3.0", "3,5" accepted), optional panel_class and kind (first | review |
- * protest; blank = first). Every problem is reported with the file, the data row and its line,
- * the column and the value.
+ * protest; blank = first), note. Every problem is reported with the file, the data row and its
+ * line, the column and the value. The reading and checking are the importer's, so a file the
+ * command line accepts is a file an upload accepts (apart from the roster, which only the
+ * server knows).
  */
 import { readFileSync } from 'node:fs';
-import Papa from 'papaparse';
-import { ASSESSMENT_KINDS, buildRatingSet, isoDateToDay, RatingInputError, type AssessmentKind, type RatingRow, type RatingSet } from '../analysis';
-import { DEFAULT_SCALE, parseSportClass, type ClassScale } from '../../shared/scale';
+import { ASSESSMENT_KINDS, buildRatingSet, RatingInputError, type RatingRow, type RatingSet } from '../analysis';
+import { DEFAULT_SCALE, type ClassScale } from '../../shared/scale';
+import { readCsvText } from '../imports/csv-reader';
+import { problemOf } from '../imports/issues';
 
 export const REQUIRED_COLUMNS = ['assessment_id', 'athlete_code', 'event_code', 'assessed_on', 'classifier_code', 'sport_class'] as const;
 export const OPTIONAL_COLUMNS = ['panel_class', 'kind'] as const;
@@ -55,67 +58,44 @@ export interface TidyCsv {
   lines: number[];
 }
 
-/** Parses CSV text; `file` is only used in messages. */
+/**
+ * Parses CSV text; `file` is only used in messages. The reading and checking are the importer's
+ * (server/imports/csv-reader.ts), in the long layout with unknown columns ignored; the first
+ * problem found is thrown.
+ */
 export function parseTidyCsv(text: string, file: string, scale: ClassScale = DEFAULT_SCALE): TidyCsv {
-  const source = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
-  const parsed = Papa.parse<Record<string, string>>(source, {
-    header: true,
-    skipEmptyLines: 'greedy',
-    transformHeader: (h) => h.trim().toLowerCase(),
-  });
-  const header = parsed.meta.fields ?? [];
-  for (const col of REQUIRED_COLUMNS) {
-    if (!header.includes(col)) throw new TidyCsvError(file, `the header has no column ${col} (required: ${REQUIRED_COLUMNS.join(', ')})`, { line: 1 });
+  const read = readCsvText(text, { scale, unknownColumns: 'ignore', layout: 'long' });
+  const first = read.issues.errors[0];
+  if (first) {
+    const where: { row?: number; line?: number; column?: string; value?: string } = {};
+    if (first.row !== null) where.row = first.row;
+    if (first.line !== null) where.line = first.line;
+    if (first.row !== null && first.column !== null) where.column = first.column;
+    if (first.row !== null && first.value !== null) where.value = first.value;
+    throw new TidyCsvError(file, first.row === null ? first.message.charAt(0).toLowerCase() + first.message.slice(1) : problemOf(first), where);
   }
-  // Line of each data row: papaparse reports cursor offsets only for errors, so count newlines.
-  const lineStarts = dataRowLines(source, parsed.data.length);
-  const firstError = parsed.errors.find((e) => e.type !== 'FieldMismatch' || e.code !== 'TooManyFields');
-  if (firstError) {
-    const rowNo = (firstError.row ?? 0) + 1;
-    throw new TidyCsvError(file, `cannot be read as CSV: ${firstError.message}`, { row: rowNo, line: lineStarts[rowNo - 1] });
-  }
+  const batch = read.batch;
+  if (!batch || batch.ratings.assessment.length === 0) throw new TidyCsvError(file, 'has no data rows', { line: 2 });
+  const a = batch.assessments;
+  const r = batch.ratings;
   const rows: RatingRow[] = [];
-  parsed.data.forEach((rec, i) => {
-    const rowNo = i + 1;
-    const line = lineStarts[i];
-    const at = (column: string, value: string | undefined, problem: string): never => {
-      throw new TidyCsvError(file, problem, { row: rowNo, line, column, value: value ?? '' });
-    };
-    const text = (column: string): string => {
-      const v = (rec[column] ?? '').trim();
-      if (v === '') at(column, rec[column], 'is blank');
-      return v;
-    };
-    const assessedOn = text('assessed_on');
-    if (isoDateToDay(assessedOn) === null) at('assessed_on', rec.assessed_on, 'is not a date YYYY-MM-DD');
-    const cls = parseSportClass(rec.sport_class ?? '', scale);
-    if (!cls.ok) at('sport_class', rec.sport_class, cls.reason);
-    let panelClass: number | null = null;
-    const pcText = (rec.panel_class ?? '').trim();
-    if (pcText !== '') {
-      const pc = parseSportClass(pcText, scale);
-      if (!pc.ok) at('panel_class', rec.panel_class, pc.reason);
-      else panelClass = pc.value;
-    }
-    let kind: AssessmentKind = 'first';
-    const kindText = (rec.kind ?? '').trim().toLowerCase();
-    if (kindText !== '') {
-      if (!(ASSESSMENT_KINDS as readonly string[]).includes(kindText)) at('kind', rec.kind, `is not one of ${ASSESSMENT_KINDS.join(', ')}`);
-      kind = kindText as AssessmentKind;
-    }
+  const lines: number[] = [];
+  for (let k = 0; k < r.assessment.length; k++) {
+    const i = r.assessment[k]!;
+    const kind = a.kind[i]!;
     rows.push({
-      assessmentId: text('assessment_id'),
-      athleteCode: text('athlete_code'),
-      eventCode: text('event_code'),
-      assessedOn,
-      classifierCode: text('classifier_code'),
-      sportClass: (cls as { ok: true; value: number }).value,
-      panelClass,
-      kind,
+      assessmentId: a.externalId[i]!,
+      athleteCode: a.athleteCode[i]!,
+      eventCode: a.eventCode[i]!,
+      assessedOn: a.assessedOn[i]!,
+      classifierCode: r.classifierCode[k]!,
+      sportClass: r.sportClass[k]!,
+      panelClass: a.panelClass[i] ?? null,
+      kind: kind === -1 ? 'first' : ASSESSMENT_KINDS[kind]!,
     });
-  });
-  if (rows.length === 0) throw new TidyCsvError(file, 'has no data rows', { line: 2 });
-  return { rows, lines: lineStarts.slice(0, rows.length) };
+    lines.push(r.line[k] ?? 0);
+  }
+  return { rows, lines };
 }
 
 /** Reads and parses a file, then builds the RatingSet (consistency errors name row and column too). */
@@ -137,31 +117,4 @@ export function readTidyCsv(path: string, scale: ClassScale = DEFAULT_SCALE): Ra
     }
     throw e;
   }
-}
-
-/** File line (1-based) of each data row, accounting for quoted newlines and blank lines. */
-function dataRowLines(text: string, count: number): number[] {
-  const lines: number[] = [];
-  let line = 1;
-  let inQuotes = false;
-  let rowStart = true;
-  let headerDone = false;
-  let rowHasContent = false;
-  let rowLine = 1;
-  for (let i = 0; i <= text.length && lines.length < count; i++) {
-    const ch = i < text.length ? text[i] : '\n';
-    if (rowStart) {
-      rowLine = line;
-      rowStart = false;
-      rowHasContent = false;
-    }
-    if (ch === '"') inQuotes = !inQuotes;
-    if (ch === '\n' && !inQuotes) {
-      if (!headerDone) headerDone = true;
-      else if (rowHasContent) lines.push(rowLine);
-      rowStart = true;
-    } else if (ch !== '\r' && ch !== ',' && ch !== ' ' && ch !== '\t') rowHasContent = true;
-    if (ch === '\n') line++;
-  }
-  return lines;
 }

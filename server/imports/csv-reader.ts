@@ -36,6 +36,8 @@ export interface CsvReadOptions {
   unknownColumns?: 'reject' | 'ignore';
   /** Roster codes, to recognise classifier columns of the wide layout. */
   knownClassifierCodes?: readonly string[];
+  /** Only this layout: guesses of the other layout's columns are dropped (the command line reads long files only). */
+  layout?: ImportLayout;
 }
 
 export interface CsvReadResult {
@@ -133,6 +135,9 @@ function planColumns(headers: string[], options: CsvReadOptions): ColumnPlan {
   if (issues.length) throw new FileRefusal(issues);
 
   const guessed = guessMapping(headers.filter((h) => h !== ''), options.knownClassifierCodes ?? []).mapping;
+  if (options.layout === 'long') {
+    for (const [h, target] of Object.entries(guessed)) if (target.startsWith('classifier:') || target.startsWith('seat')) delete guessed[h];
+  }
   const given = options.mapping ?? {};
   const mapping: ColumnMapping = {};
   const fixed: ColumnPlan['fixed'] = {

@@ -58,3 +58,10 @@ export class FileRefusal extends Error {
 export function fileIssue(message: string, where: { row?: number; line?: number; column?: string; value?: string } = {}): ImportIssue {
   return { row: where.row ?? null, line: where.line ?? null, column: where.column ?? null, value: where.value === undefined ? null : shownValue(where.value), message };
 }
+
+/** The problem of an issue without its "Row …, column …: value …" prefix. */
+export function problemOf(issue: ImportIssue): string {
+  if (issue.row === null && issue.column === null) return issue.message;
+  const prefix = describe(issue.row, issue.line, issue.column, issue.value, '');
+  return issue.message.startsWith(prefix) ? issue.message.slice(prefix.length) : issue.message;
+}
