@@ -43,6 +43,17 @@ export function routeKey(method: string, path: string): string {
 /** Registers (or replaces) the description of one route. */
 export function registerRoute(doc: RouteDoc): void {
   routes.set(routeKey(doc.method, doc.path), doc);
+  placeholders.delete(routeKey(doc.method, doc.path));
+}
+
+const placeholders = new Set<string>();
+
+/** Registers a bare description unless the route is already described; a later registerRoute replaces it. */
+export function registerPlaceholder(doc: RouteDoc): void {
+  const key = routeKey(doc.method, doc.path);
+  if (routes.has(key)) return;
+  routes.set(key, doc);
+  placeholders.add(key);
 }
 
 export function registeredRoutes(): RouteDoc[] {

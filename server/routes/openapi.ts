@@ -1,6 +1,7 @@
 import { Router } from 'express';
 import type { AppContext } from '../context';
 import '../openapi/foundation-routes';
+import '../openapi/pending-routes';
 import { buildOpenApiDocument, registerRoute } from '../openapi/registry';
 
 /** GET /api/openapi.json: the OpenAPI 3.1 document of every registered route (open to all). */

@@ -1,0 +1,73 @@
+/**
+ * The OpenAPI 3.1 document at GET /api/openapi.json: generated from the zod schemas, and every
+ * route of the Express router appears in it (a route nobody registered fails here).
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import request from 'supertest';
+import { apiRouter } from '../../server/routes/index';
+import { openApiPath } from '../../server/openapi/registry';
+import { createTestApp, type TestApp } from '../helpers/test-app';
+
+interface Layer {
+  route?: { path: unknown; methods: Record<string, boolean> };
+  handle?: { stack?: Layer[] };
+  rawPath?: unknown;
+  slash?: boolean;
+}
+
+/** Every (method, path) on a router, nested routers included (as the access matrix walks it). */
+function routesOf(router: { stack: Layer[] }, prefix = ''): { method: string; path: string }[] {
+  const out: { method: string; path: string }[] = [];
+  for (const layer of router.stack) {
+    if (layer.route) {
+      const paths = Array.isArray(layer.route.path) ? layer.route.path : [layer.route.path];
+      for (const p of paths) for (const [method, on] of Object.entries(layer.route.methods)) if (on) out.push({ method, path: prefix + String(p) });
+    } else if (layer.handle?.stack) {
+      const mount = layer.slash || layer.rawPath === undefined || layer.rawPath === '/' ? '' : String(layer.rawPath);
+      out.push(...routesOf(layer.handle as { stack: Layer[] }, prefix + mount));
+    }
+  }
+  return out;
+}
+
+let t: TestApp;
+let doc: { openapi: string; paths: Record<string, Record<string, Record<string, unknown>>>; components: Record<string, unknown> };
+
+beforeAll(async () => {
+  t = await createTestApp({ seed: 'none' });
+  const res = await request(t.app).get('/api/openapi.json').expect(200);
+  doc = res.body;
+});
+afterAll(() => t.close());
+
+describe('OpenAPI document', () => {
+  it('is OpenAPI 3.1 with JSON Schema 2020-12 and the two ways to authenticate', () => {
+    expect(doc.openapi).toBe('3.1.0');
+    expect(doc).toMatchObject({ jsonSchemaDialect: 'https://json-schema.org/draft/2020-12/schema' });
+    expect(Object.keys((doc.components as { securitySchemes: object }).securitySchemes)).toEqual(['session', 'bearer']);
+  });
+
+  it('describes every route of the Express router', () => {
+    const routes = routesOf(apiRouter(t.ctx) as unknown as { stack: Layer[] }).map((r) => ({ method: r.method, path: openApiPath(`/api${r.path}`) }));
+    expect(routes.length).toBeGreaterThan(10);
+    const missing = routes.filter((r) => !doc.paths[r.path]?.[r.method]).map((r) => `${r.method.toUpperCase()} ${r.path}`);
+    expect(missing, 'register these routes in the OpenAPI registry (server/openapi/registry.ts)').toEqual([]);
+  });
+
+  it('has the batch API with its request schema from zod, its token scope and its refusal', () => {
+    const op = doc.paths['/api/v1/federations/{federation}/assessments']!.post!;
+    expect(op.security).toEqual([{ session: [] }, { bearer: ['import'] }]);
+    const body = (op.requestBody as { content: Record<string, { schema: { type: string; items: { required: string[]; properties: Record<string, unknown> } } }> }).content['application/json']!.schema;
+    expect(body.type).toBe('array');
+    expect(body.items.required).toEqual(expect.arrayContaining(['assessment_id', 'athlete_code', 'event_code', 'assessed_on', 'ratings']));
+    expect(Object.keys(op.responses as object)).toEqual(expect.arrayContaining(['200', '201', '401', '403', '422']));
+    const params = op.parameters as { name: string; in: string }[];
+    expect(params).toEqual(expect.arrayContaining([expect.objectContaining({ name: 'federation', in: 'path' }), expect.objectContaining({ name: 'dryRun', in: 'query' })]));
+  });
+
+  it('describes the upload as multipart with a binary file', () => {
+    const op = doc.paths['/api/federations/{federation}/imports']!.post!;
+    const content = (op.requestBody as { content: Record<string, { schema: { properties: { file: { format: string } } } }> }).content;
+    expect(content['multipart/form-data']!.schema.properties.file.format).toBe('binary');
+  });
+});
