@@ -11,7 +11,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApiToken } from '../../server/services/api-tokens';
 import { dataVersion } from '../../server/services/data-version';
 import { createTestApp, signedInAgent, tableCounts, type TestApp } from '../helpers/test-app';
-import { dataCounts, FEDERATION, federationId, fixture, LEAD, upload } from './imports/helpers';
+import { dataCounts, FEDERATION, federationId, fixture, LEAD, settled, upload } from './imports/helpers';
 
 let t: TestApp;
 let lead: Awaited<ReturnType<typeof signedInAgent>>;
@@ -26,7 +26,7 @@ afterAll(() => t.close());
 
 describe('a valid long CSV', () => {
   it('dry run counts without writing, commit writes it all, the same file again changes nothing, revert restores', async () => {
-    const before = tableCounts(t.ctx);
+    const before = await settled(t.ctx, tableCounts);
     const dry = await upload(lead, { name: 'long-valid.csv' });
     expect(dry.status).toBe(200);
     expect(dry.body.outcome).toBe('ready');
@@ -42,7 +42,7 @@ describe('a valid long CSV', () => {
     expect(dry.body.warningCount).toBe(1);
     expect(dry.body.warnings[0].message).toMatch(/Row 14 \(line 15\), column assessment_id: value "IMP-0006" has ratings from a single classifier/);
     // The dry run staged an import; the federation's data is untouched.
-    const afterDry = tableCounts(t.ctx);
+    const afterDry = await settled(t.ctx, tableCounts);
     expect({ ...afterDry, imports: before.imports }).toEqual(before);
     expect(afterDry.imports).toBe(before.imports + 1);
 
@@ -63,10 +63,11 @@ describe('a valid long CSV', () => {
     expect(classes).toEqual([{ code: 'C01', sport_class: 2 }, { code: 'C05', sport_class: 3 }, { code: 'C13', sport_class: 2 }]);
 
     // Again: nothing to do, nothing written at all.
+    const settledAfterCommit = await settled(t.ctx, tableCounts);
     const again = await upload(lead, { name: 'long-valid.csv' });
     expect(again.body).toMatchObject({ outcome: 'nothing-to-do', importId: null, sameFileAs: { importId: dry.body.importId } });
     expect(again.body.counts.assessments).toEqual({ new: 0, changed: 0, unchanged: 6 });
-    expect(tableCounts(t.ctx)).toEqual(afterCommit);
+    expect(tableCounts(t.ctx)).toEqual(settledAfterCommit);
 
     const audit = t.ctx.sqlite.prepare("select action from audit_log where entity = 'import' and entity_id = ?").pluck().all(String(dry.body.importId));
     expect(audit).toEqual(['import.commit']);
@@ -213,7 +214,7 @@ const MALFORMED: [string, number | null, string | null, string | null, RegExp][]
 
 describe('refused files write nothing and say where', () => {
   it.each(MALFORMED)('%s', async (name, row, column, value, message) => {
-    const before = tableCounts(t.ctx);
+    const before = await settled(t.ctx, tableCounts);
     const res = await upload(lead, { name: `malformed/${name}` });
     expect(res.status).toBe(200);
     expect(res.body.outcome).toBe('refused');
@@ -233,7 +234,7 @@ describe('refused files write nothing and say where', () => {
   });
 
   it('a file over 50 MB gets a clear refusal and writes nothing', async () => {
-    const before = tableCounts(t.ctx);
+    const before = await settled(t.ctx, tableCounts);
     const big = Buffer.alloc(50 * 1024 * 1024 + 10, 'a');
     const res = await upload(lead, { name: 'big.csv', bytes: big });
     expect(res.status).toBe(413);
@@ -242,7 +243,7 @@ describe('refused files write nothing and say where', () => {
   });
 
   it('a request without a file, or with bad form fields, is a 400 and writes nothing', async () => {
-    const before = tableCounts(t.ctx);
+    const before = await settled(t.ctx, tableCounts);
     const none = await lead.post(`/api/federations/${FEDERATION}/imports`).send({ hello: 'there' });
     expect(none.status).toBe(400);
     expect(none.body.error.message).toMatch(/multipart\/form-data/);
@@ -325,7 +326,7 @@ describe('batch API', () => {
   const path = `/api/v1/federations/${FEDERATION}/assessments`;
 
   it('a lead posts items: written once, the same items again change nothing, a dry run writes nothing', async () => {
-    const before = tableCounts(t.ctx);
+    const before = await settled(t.ctx, tableCounts);
     const dry = await lead.post(`${path}?dryRun=true`).send(ITEMS);
     expect(dry.status).toBe(200);
     expect(dry.body).toMatchObject({ outcome: 'dry-run', importId: null, counts: { assessments: { new: 2 }, ratings: { new: 4 }, notAnalysable: 1 } });
@@ -335,7 +336,7 @@ describe('batch API', () => {
     expect(res.body.outcome).toBe('committed');
     expect(res.body.warnings[0]).toMatchObject({ item: 1, field: 'assessment_id', value: 'API-0002' });
     expect(t.ctx.sqlite.prepare('select status, source from imports where id = ?').get(res.body.importId)).toEqual({ status: 'committed', source: 'api' });
-    const after = tableCounts(t.ctx);
+    const after = await settled(t.ctx, tableCounts);
     const again = await lead.post(path).send(ITEMS);
     expect(again.status).toBe(200);
     expect(again.body.outcome).toBe('nothing-to-do');
@@ -344,7 +345,7 @@ describe('batch API', () => {
   });
 
   it('refuses a batch with any bad item: 422 naming item, field and value, nothing written', async () => {
-    const before = tableCounts(t.ctx);
+    const before = await settled(t.ctx, tableCounts);
     const bad = structuredClone(ITEMS) as Record<string, unknown>[];
     (bad[0]!.ratings as { sport_class: unknown }[])[1]!.sport_class = 3.25;
     bad[1]!.assessed_on = '2024-13-01';
