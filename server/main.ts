@@ -34,7 +34,12 @@ async function main() {
   const mailer = await startMailer({ config, db, logger });
   const ctx: AppContext = { db, sqlite, config, logger, mailer };
   const app = createApp(ctx);
-  const server = app.listen(config.port, () => {
+  const server = app.listen(config.port, (error?: Error) => {
+    // Express 5 hands a listen error (such as a port in use) to this callback instead of throwing.
+    if (error) {
+      logger.error({ err: error }, `cannot listen on port ${config.port}`);
+      process.exit(1);
+    }
     logger.info(`Panelwise ${config.version} on http://localhost:${config.port} (database ${config.databasePath})`);
   });
 
