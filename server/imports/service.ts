@@ -163,9 +163,12 @@ export async function commitImport(ctx: AppContext, federation: Federation, user
     });
   }
   reporter.report('writing', total, total);
-  bumpDataVersion(federation.id);
   await removeStaged(ctx, importId);
-  return importView(ctx, federation.id, importId);
+  const view = importView(ctx, federation.id, importId);
+  // Last, with nothing awaited after it: listeners may start background work (flag evaluation)
+  // that should not hold up the answer to the lead.
+  bumpDataVersion(federation.id);
+  return view;
 }
 
 /** The audit entry, written with the raw connection inside its synchronous transaction. */
@@ -210,8 +213,9 @@ export async function revertImport(ctx: AppContext, federation: Federation, user
     throw error;
   }
   reporter.report('reverting', 1, 1);
+  const view = importView(ctx, federation.id, importId);
   bumpDataVersion(federation.id);
-  return importView(ctx, federation.id, importId);
+  return view;
 }
 
 export async function discardImport(ctx: AppContext, federation: Federation, userId: number | null, importId: number): Promise<void> {

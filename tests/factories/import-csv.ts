@@ -7,12 +7,15 @@ import { createWriteStream } from 'node:fs';
 import { once } from 'node:events';
 
 export const LONG_HEADER = 'assessment_id,athlete_code,event_code,assessed_on,classifier_code,sport_class,panel_class,kind';
+export const COMPACT_HEADER = 'assessment_id,athlete_code,event_code,assessed_on,classifier_code,sport_class';
 
 export interface LongCsvOptions {
   ratings: number;
   prefix?: string;
   classifiers?: number;
   seed?: number;
+  /** Without panel_class and kind (smaller: 1,000,000 ratings stay under the 50 MB upload limit). */
+  compact?: boolean;
 }
 
 function* longLines(options: LongCsvOptions): Generator<string> {
@@ -23,7 +26,7 @@ function* longLines(options: LongCsvOptions): Generator<string> {
     state = (state * 1664525 + 1013904223) >>> 0;
     return state / 4294967296;
   };
-  yield LONG_HEADER;
+  yield options.compact ? COMPACT_HEADER : LONG_HEADER;
   let written = 0;
   for (let a = 0; written < options.ratings; a++) {
     const truth = 2 + Math.floor(next() * 8);
@@ -38,7 +41,8 @@ function* longLines(options: LongCsvOptions): Generator<string> {
       const c = `C${String(1 + ((first + k * 7) % classifiers)).padStart(2, '0')}`;
       const u = next();
       const cls = Math.min(9, Math.max(2, truth + (u < 0.15 ? -1 : u > 0.85 ? 1 : 0)));
-      yield `${prefix}${a},${athlete},${event},${date},${c},${(cls / 2).toFixed(1)},${(truth / 2).toFixed(1)},${kind}`;
+      const line = `${prefix}${a},${athlete},${event},${date},${c},${(cls / 2).toFixed(1)}`;
+      yield options.compact ? line : `${line},${(truth / 2).toFixed(1)},${kind}`;
     }
   }
 }
