@@ -247,7 +247,10 @@ const HISTORY_SQL = `select imports.id, imports.federation_id, imports.source, i
 function toView(ctx: AppContext, row: HistoryRow): ImportView {
   let counts: ImportView['counts'] = null;
   try {
-    counts = JSON.parse(row.counts) as ImportView['counts'];
+    const raw = JSON.parse(row.counts) as Record<string, unknown>;
+    // The demo seed records plain totals: show them as new records.
+    for (const key of ['assessments', 'ratings'] as const) if (typeof raw[key] === 'number') raw[key] = { new: raw[key], changed: 0, unchanged: 0 };
+    counts = raw as ImportView['counts'];
   } catch {
     counts = null;
   }

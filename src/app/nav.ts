@@ -21,6 +21,7 @@ export const NAV_ITEMS: NavItem[] = [
   { path: 'flags', label: 'Calibration flags', roles: ['lead'] },
   { path: 'members', label: 'Members', roles: ['lead'] },
   { path: 'exports', label: 'Research export', roles: ['lead', 'researcher'] },
+  { path: 'imports', label: 'Imports', roles: ['lead'] },
 ];
 
 export function navFor(role: Role): NavItem[] {

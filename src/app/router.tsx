@@ -15,6 +15,7 @@ export const federationRoutes: RouteObject[] = [
   ...dashboardRoutes,
   ...memberRoutes,
   { path: 'exports', lazy: () => import('../features/exports/components/exports-page').then((m) => ({ Component: m.ExportsPage })) },
+  { path: 'imports', lazy: () => import('../features/imports/components/imports-page').then((m) => ({ Component: m.ImportsPage })) },
 ];
 
 /** Pages that need no session (sign-in, links from e-mails). */

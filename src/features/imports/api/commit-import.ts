@@ -1,0 +1,14 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import type { ImportView } from '../../../../shared/schemas/imports';
+import { api } from '../../../lib/api-client';
+import { federationPath } from './keys';
+
+/** Commits a staged import; every figure of the federation is fetched again afterwards. */
+export function useCommitImport(federation: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({ importId, job }: { importId: number; job: string }) =>
+      api<ImportView>(`${federationPath(federation)}/imports/${importId}/commit?job=${encodeURIComponent(job)}`, { method: 'POST' }),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: ['federations', federation] }),
+  });
+}
