@@ -30,21 +30,6 @@ const pending: [string, string, string, string][] = [
   ['post', '/api/federations/:federation/exports/studies', 'Research exports: add a study', 'session'],
   ['post', '/api/federations/:federation/exports/studies/:studyId/close', 'Research exports: close a study', 'session'],
   ['get', '/api/federations/:federation/exports/:exportId/:file', 'Research exports: download a file', 'session'],
-  ['get', '/api/federations/:federation/analytics/filters', 'Analytics: filters', 'session,read'],
-  ['get', '/api/federations/:federation/analytics/overview', 'Analytics: overview', 'session,read'],
-  ['get', '/api/federations/:federation/analytics/classifiers', 'Analytics: classifiers', 'session,read'],
-  ['get', '/api/federations/:federation/analytics/classifiers/:code', 'Analytics: one classifier', 'session,read'],
-  ['get', '/api/federations/:federation/analytics/me', "Analytics: the caller's own figures", 'session'],
-  ['get', '/api/federations/:federation/analytics/pairs', 'Analytics: classifier pairs', 'session,read'],
-  ['get', '/api/federations/:federation/analytics/pairs/:a/:b', 'Analytics: one pair', 'session,read'],
-  ['get', '/api/federations/:federation/analytics/boundaries', 'Analytics: class boundaries', 'session,read'],
-  ['get', '/api/federations/:federation/analytics/drift/raters', 'Analytics: drift by classifier', 'session,read'],
-  ['get', '/api/federations/:federation/analytics/drift/classes', 'Analytics: drift by class', 'session,read'],
-  ['get', '/api/federations/:federation/analytics/flags', 'Analytics: calibration flags', 'session'],
-  ['post', '/api/federations/:federation/analytics/flags/evaluate', 'Analytics: evaluate calibration flags', 'session'],
-  ['patch', '/api/federations/:federation/analytics/flags/:id', 'Analytics: change a calibration flag', 'session'],
-  ['get', '/api/federations/:federation/analytics/flag-settings', 'Analytics: calibration flag thresholds', 'session'],
-  ['put', '/api/federations/:federation/analytics/flag-settings', 'Analytics: change calibration flag thresholds', 'session'],
 ];
 
 for (const [method, path, summary, security] of pending) {

@@ -5,6 +5,7 @@ import { accessOf, requireAccess, type FederationAccess } from '../auth/access';
 import type { AppContext } from '../context';
 import { forbidden, HttpError } from '../http/errors';
 import { parseWith } from '../http/validate';
+import '../openapi/analytics-routes';
 import { federationData, filterOptions } from '../services/analytics-data';
 import {
   boundaries,

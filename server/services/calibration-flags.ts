@@ -33,16 +33,6 @@ import { federationData } from './analytics-data';
 import { audit } from './audit';
 import { onDataChange } from './data-version';
 
-/** The e-mail sender another part of the app adds to the context; used when present. */
-interface MailerLike {
-  send(message: { to: string; subject: string; text: string; html?: string }): Promise<unknown>;
-}
-
-function mailerOf(ctx: AppContext): MailerLike | null {
-  const candidate = (ctx as AppContext & { mailer?: MailerLike }).mailer;
-  return candidate && typeof candidate.send === 'function' ? candidate : null;
-}
-
 // ---------------------------------------------------------------------------------------------
 // Thresholds
 
@@ -295,7 +285,7 @@ async function notifyLeads(
   federation: { id: number; slug: string; name: string },
   opened: { code: string; name: string; rule: FlagRule; summary: string }[],
 ): Promise<void> {
-  const mailer = mailerOf(ctx);
+  const mailer = ctx.mailer;
   if (!mailer) {
     ctx.logger.warn({ federation: federation.slug, flags: opened.length }, 'new calibration flags, but no mailer is configured');
     return;
