@@ -6,7 +6,7 @@ import type { AppContext } from '../context';
 import { forbidden, HttpError } from '../http/errors';
 import { parseWith } from '../http/validate';
 import '../openapi/analytics-routes';
-import { federationData, filterOptions } from '../services/analytics-data';
+import { athletesInFilter, federationData, filterOptions, MIN_ATHLETES_FOR_AGGREGATES } from '../services/analytics-data';
 import {
   boundaries,
   classDrift,
@@ -38,6 +38,23 @@ function filtersOf(req: Request): AnalyticsFilters {
   return parseWith(analyticsFiltersSchema, req.query, 'filter query');
 }
 
+/**
+ * Filters of a federation-wide aggregate view, for the caller: researchers and read tokens may
+ * not narrow by event (events are not listed for them), and no one but a lead sees aggregates
+ * of fewer than MIN_ATHLETES_FOR_AGGREGATES athletes.
+ */
+function aggregateFiltersOf(ctx: AppContext, req: Request): AnalyticsFilters {
+  const access = accessOf(req);
+  const filters = filtersOf(req);
+  if (access.role === 'lead') return filters;
+  if (filters.event && access.role !== 'classifier') throw forbidden('Researchers cannot narrow the figures to one event');
+  const athletes = athletesInFilter(ctx, federationData(ctx, federationOf(access)), access.federation.id, filters);
+  if (athletes > 0 && athletes < MIN_ATHLETES_FOR_AGGREGATES) {
+    throw new HttpError(422, 'validation_failed', `These filters leave ${athletes} athletes; figures are shown for groups of at least ${MIN_ATHLETES_FOR_AGGREGATES}. Widen the filters.`);
+  }
+  return filters;
+}
+
 function federationOf(access: FederationAccess) {
   return { id: access.federation.id, scaleMin: access.federation.scaleMin, scaleMax: access.federation.scaleMax };
 }
@@ -60,12 +77,14 @@ export function analyticsRouter(ctx: AppContext): Router {
 
   router.get(`${base}/filters`, everyone, (req, res) => {
     const access = accessOf(req);
-    res.json(filterOptions(federationData(ctx, federationOf(access))));
+    const options = filterOptions(federationData(ctx, federationOf(access)));
+    // Researchers and read tokens get no event list (decision record 0006).
+    res.json(access.role === 'lead' || access.role === 'classifier' ? options : { ...options, events: [] });
   });
 
   router.get(`${base}/overview`, everyone, async (req, res) => {
     const access = accessOf(req);
-    const filters = filtersOf(req);
+    const filters = aggregateFiltersOf(ctx, req);
     const figures = overviewFigures(ctx, federationOf(access), filters);
     if (access.role === 'lead') await ensureEvaluated(ctx, access.federation.id);
     const openFlags = access.role === 'lead' ? await flagsOf(ctx, access.federation.id, { activeOnly: true }) : null;
@@ -95,7 +114,12 @@ export function analyticsRouter(ctx: AppContext): Router {
     const access = accessOf(req);
     const mine = await ownCode(ctx, access);
     await ensureEvaluated(ctx, access.federation.id);
-    res.json(await myAgreement(ctx, federationOf(access), filtersOf(req), mine, await thresholdsOf(ctx, access.federation.id)));
+    const filters = filtersOf(req);
+    const mineFigures = await myAgreement(ctx, federationOf(access), filters, mine, await thresholdsOf(ctx, access.federation.id));
+    // The federation's spread is an aggregate: not shown for groups that are too small.
+    const athletes = athletesInFilter(ctx, federationData(ctx, federationOf(access)), access.federation.id, filters);
+    if (athletes < MIN_ATHLETES_FOR_AGGREGATES) mineFigures.distribution = { quadraticKappa: [], bias: [], exactWithPanel: [] };
+    res.json(mineFigures);
   });
 
   router.get(`${base}/pairs`, leadOnly, (req, res) => {
@@ -112,7 +136,7 @@ export function analyticsRouter(ctx: AppContext): Router {
 
   router.get(`${base}/boundaries`, everyone, (req, res) => {
     const access = accessOf(req);
-    res.json(boundaries(ctx, federationOf(access), filtersOf(req)));
+    res.json(boundaries(ctx, federationOf(access), aggregateFiltersOf(ctx, req)));
   });
 
   router.get(`${base}/drift/raters`, leadOnly, async (req, res) => {
@@ -122,7 +146,7 @@ export function analyticsRouter(ctx: AppContext): Router {
 
   router.get(`${base}/drift/classes`, everyone, (req, res) => {
     const access = accessOf(req);
-    res.json(classDrift(ctx, federationOf(access), filtersOf(req), access.role === 'lead'));
+    res.json(classDrift(ctx, federationOf(access), aggregateFiltersOf(ctx, req), access.role === 'lead'));
   });
 
   router.get(`${base}/flags`, leadOnly, async (req, res) => {

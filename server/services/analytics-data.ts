@@ -208,3 +208,17 @@ export function requireClassifier(data: FederationData, code: string): { id: num
   if (!c) throw new HttpError(404, 'not_found', `The classifier ${code} was not found`);
   return c;
 }
+
+/**
+ * Fewest athletes a filtered view must hold before a non-lead sees its aggregates: smaller groups
+ * could let a reader work out individual ratings (docs/decisions/0006-dashboards-who-sees-what.md).
+ */
+export const MIN_ATHLETES_FOR_AGGREGATES = 10;
+
+/** Athletes in the filtered set (cached with it). */
+export function athletesInFilter(ctx: AppContext, data: FederationData, federationId: number, filters: AnalyticsFilters): number {
+  return cached(ctx, federationId, `athletes|${filterKey(filters)}`, () => {
+    const set = filteredSet(ctx, data, federationId, filters);
+    return new Set(set.athlete).size;
+  });
+}

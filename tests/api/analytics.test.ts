@@ -250,6 +250,19 @@ describe('agreement dashboards API', () => {
     for (const path of ['/classifiers', '/classifiers/C12', '/me', '/pairs', '/pairs/C01/C02', '/drift/raters', '/flags', '/flag-settings']) {
       expect((await researcher.get(base + path)).status).toBe(403);
     }
+    // No event list and no event filter for researchers; no aggregate of fewer than 10 athletes for anyone but a lead.
+    expect((await researcher.get(`${base}/filters`)).body.events).toEqual([]);
+    expect((await researcher.get(`${base}/overview?event=S2324-CUP`)).status).toBe(403);
+    const protests = filterRatingSet(set, { kinds: ['protest'], from: '2024-07-01', to: '2025-06-30' });
+    const athletes = new Set(protests.athlete).size;
+    expect(athletes).toBeLessThan(10);
+    const small = await researcher.get(`${base}/boundaries?kind=protest&season=2024`);
+    expect(small.status).toBe(422);
+    expect(small.body.error.message).toContain(`leave ${athletes} athletes`);
+    expect((await classifier.get(`${base}/drift/classes?kind=protest&season=2024`)).status).toBe(422);
+    expect((await lead.get(`${base}/drift/classes?kind=protest&season=2024`)).status).toBe(200);
+    const mine = await classifier.get(`${base}/me?kind=protest&season=2024`);
+    expect(mine.body.distribution.quadraticKappa).toEqual([]);
   });
 
   it('caches per data version: a new assessment shows after the data version moves', async () => {

@@ -42,6 +42,7 @@ export function FilterBar({ federation, state, showMinShared = false }: { federa
           <label htmlFor={`${id}-to`}>To</label>
           <input id={`${id}-to`} className="input" type="date" value={filters.to ?? ''} onChange={(e) => set({ to: e.target.value })} />
         </div>
+        {options.data && options.data.events.length > 0 ? (
         <div className="field">
           <label htmlFor={`${id}-event`}>Event</label>
           <select id={`${id}-event`} className="input" value={filters.event ?? ''} onChange={(e) => set({ event: e.target.value })}>
@@ -53,6 +54,7 @@ export function FilterBar({ federation, state, showMinShared = false }: { federa
             ))}
           </select>
         </div>
+        ) : null}
         <div className="field">
           <label htmlFor={`${id}-category`}>Category</label>
           <select id={`${id}-category`} className="input" value={filters.category ?? ''} onChange={(e) => set({ category: e.target.value })}>
