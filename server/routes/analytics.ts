@@ -29,7 +29,7 @@ import { ensureEvaluated, evaluateFlags, evaluateFlagsOnDataChange, flagsOf, las
  *   athletes) and their own figures (`/me`, `/classifiers/<own code>`); another classifier's
  *   figures → 403;
  * - researcher and read tokens: aggregates only; no view that names a classifier or an athlete
- *   (docs/decisions/0006-researchers-and-per-classifier-views.md).
+ *   (docs/decisions/0006-dashboards-who-sees-what.md).
  */
 const base = '/federations/:federation/analytics';
 const code = z.string().regex(/^[A-Za-z0-9._-]{1,64}$/, { message: 'is not a classifier code' });
