@@ -14,8 +14,8 @@ const optionalText = (max: number) =>
     .string()
     .trim()
     .max(max)
-    .optional()
-    .transform((v) => (v === '' ? undefined : v));
+    .transform((v) => (v === '' ? undefined : v))
+    .optional();
 
 /** Filters of every dashboard view. All optional; empty strings count as absent. */
 export const analyticsFiltersSchema = z
