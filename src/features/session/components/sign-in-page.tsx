@@ -2,8 +2,8 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useForm } from 'react-hook-form';
 import { Link, Navigate, useNavigate, useSearchParams } from 'react-router';
 import { signInSchema, type SignIn } from '../../../../shared/schemas/session';
-import { BrandMark } from '../../../components/brand';
 import { useSession, useSignIn } from '../api/session';
+import { PublicFrame } from './public-frame';
 
 export function SignInPage() {
   const session = useSession();
@@ -24,15 +24,7 @@ export function SignInPage() {
   const { errors } = form.formState;
 
   return (
-    <main className="min-h-screen grid place-items-center px-4 py-10">
-      <div className="w-full max-w-md">
-        <div className="mb-8 flex items-center gap-3">
-          <BrandMark />
-          <div>
-            <p className="text-2xl font-bold tracking-tight">Panelwise</p>
-            <p className="text-sm text-muted">Agreement between classifiers, made visible</p>
-          </div>
-        </div>
+    <PublicFrame>
         <form onSubmit={onSubmit} className="card space-y-5" noValidate aria-labelledby="sign-in-title">
           <h1 id="sign-in-title">Sign in</h1>
           {params.get('reset') === '1' && !signIn.error ? (
@@ -68,7 +60,6 @@ export function SignInPage() {
           For a federation's classification programme. Agreement statistics describe consistency between classifiers, not the correctness of
           any athlete's sport class.
         </p>
-      </div>
-    </main>
+    </PublicFrame>
   );
 }
