@@ -1,0 +1,45 @@
+/**
+ * The lint configuration holds the architecture's import boundaries (eslint.config.js): each
+ * deliberate violation below, linted as if it stood at the given path, is reported by
+ * `no-restricted-imports`, and the same import where it is allowed is not.
+ */
+import { ESLint } from 'eslint';
+import { describe, expect, it } from 'vitest';
+
+const eslint = new ESLint({
+  cwd: process.cwd(),
+  // Only the boundary rule: the type-aware rules need files that are part of a tsconfig project.
+  ruleFilter: ({ ruleId }) => ruleId === 'no-restricted-imports',
+  overrideConfig: { languageOptions: { parserOptions: { projectService: false, project: null } } },
+});
+
+async function boundaryMessages(filePath: string, code: string): Promise<string[]> {
+  const [result] = await eslint.lintText(code, { filePath });
+  return (result?.messages ?? []).filter((m) => m.ruleId === 'no-restricted-imports').map((m) => m.message);
+}
+
+describe('import boundaries', () => {
+  it('the agreement engine may not import the database, a service or an I/O module', async () => {
+    expect(await boundaryMessages('server/analysis/lint-case.ts', "import { openDatabase } from '../db/connection';\n")).toHaveLength(1);
+    expect(await boundaryMessages('server/analysis/lint-case.ts', "import fs from 'node:fs';\n")).toHaveLength(1);
+    expect(await boundaryMessages('server/analysis/lint-case.ts', "import { analyzeRatings } from './report';\n")).toEqual([]);
+  });
+
+  it('a service may not import a route', async () => {
+    const messages = await boundaryMessages('server/services/lint-case.ts', "import { apiRouter } from '../routes/index';\n");
+    expect(messages).toHaveLength(1);
+    expect(messages[0]).toMatch(/routes → services/);
+  });
+
+  it('a feature may import neither another feature nor the app shell; shared UI imports no feature', async () => {
+    expect(await boundaryMessages('src/features/overview/components/lint-case.tsx', "import { x } from '../../dashboards/components/format';\n")).toHaveLength(1);
+    expect(await boundaryMessages('src/features/overview/components/lint-case.tsx', "import { x } from '../../../app/router';\n")).toHaveLength(1);
+    expect(await boundaryMessages('src/components/lint-case.tsx', "import { x } from '../features/overview/components/overview-page';\n")).toHaveLength(1);
+    expect(await boundaryMessages('src/features/overview/components/lint-case.tsx', "import { x } from '../../../components/status';\n")).toEqual([]);
+  });
+
+  it('shared/ imports nothing from the client or the server', async () => {
+    expect(await boundaryMessages('shared/lint-case.ts', "import { x } from '../server/analysis';\n")).toHaveLength(1);
+    expect(await boundaryMessages('shared/lint-case.ts', "import { z } from 'zod';\n")).toEqual([]);
+  });
+});
