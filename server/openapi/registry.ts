@@ -1,8 +1,9 @@
 /**
  * The OpenAPI 3.1 description of the API, generated from the zod schemas the routes use rather
  * than kept by hand. Each feature registers its routes (method, Express path, summary, request
- * and response schemas, security) next to its router; GET /api/openapi.json serves the document.
- * A test checks that every route of the Express router is registered.
+ * and response schemas, security) in `server/routes/<feature>.openapi.ts` beside its router;
+ * `apiRouter` gathers them into one ApiDescription per app and GET /api/openapi.json serves its
+ * document. A test checks that every route of the Express router is described completely.
  */
 import { z, type ZodType } from 'zod';
 import { apiErrorSchema } from '../../shared/schemas/common';
@@ -31,33 +32,60 @@ export interface RouteDoc {
   params?: Record<string, string>;
   query?: z.ZodObject;
   body?: { schema: ZodType; contentType?: string; description?: string };
+  /** A write that reads no body (say so, rather than leave `body` out by accident). */
+  noBody?: true;
   responses: Record<number, ResponseDoc>;
 }
-
-const routes = new Map<string, RouteDoc>();
 
 export function routeKey(method: string, path: string): string {
   return `${method.toLowerCase()} ${path}`;
 }
 
-/** Registers (or replaces) the description of one route. */
-export function registerRoute(doc: RouteDoc): void {
-  routes.set(routeKey(doc.method, doc.path), doc);
-  placeholders.delete(routeKey(doc.method, doc.path));
+/**
+ * What a description lacks for a client to use the route without reading its code: a 2xx
+ * answer, a schema for every answer with a body, and for a write either a body schema or an
+ * explicit `noBody`. Empty when the description is complete.
+ */
+export function missingSchemas(doc: RouteDoc): string[] {
+  const missing: string[] = [];
+  const ok = Object.entries(doc.responses).filter(([status]) => Number(status) >= 200 && Number(status) < 300);
+  if (ok.length === 0) missing.push('a 2xx response');
+  for (const [status, response] of ok) if (status !== '204' && !response.schema) missing.push(`a schema for the ${status} response`);
+  if (['post', 'put', 'patch'].includes(doc.method) && !doc.body && !doc.noBody) missing.push('a request body schema (or noBody: true)');
+  return missing;
 }
 
-const placeholders = new Set<string>();
+/**
+ * The descriptions of one app's routes. Built by `apiRouter` from each feature's list
+ * (`server/routes/<feature>.openapi.ts`), so two apps in one process never share one.
+ */
+export class ApiDescription {
+  readonly #routes = new Map<string, RouteDoc>();
 
-/** Registers a bare description unless the route is already described; a later registerRoute replaces it. */
-export function registerPlaceholder(doc: RouteDoc): void {
-  const key = routeKey(doc.method, doc.path);
-  if (routes.has(key)) return;
-  routes.set(key, doc);
-  placeholders.add(key);
-}
+  constructor(docs: Iterable<RouteDoc> = []) {
+    for (const doc of docs) this.add(doc);
+  }
 
-export function registeredRoutes(): RouteDoc[] {
-  return [...routes.values()];
+  /** Adds the description of one route; describing a route twice is a mistake and throws. */
+  add(doc: RouteDoc): this {
+    const key = routeKey(doc.method, doc.path);
+    if (this.#routes.has(key)) throw new Error(`The route ${key} is described twice`);
+    this.#routes.set(key, doc);
+    return this;
+  }
+
+  get(method: string, path: string): RouteDoc | undefined {
+    return this.#routes.get(routeKey(method, path));
+  }
+
+  routes(): RouteDoc[] {
+    return [...this.#routes.values()];
+  }
+
+  /** The OpenAPI 3.1 document of every route described here. */
+  document(info: OpenApiInfo): Record<string, unknown> {
+    return buildOpenApiDocument(this.routes(), info);
+  }
 }
 
 /** '/api/federations/:federation/summary' → '/api/federations/{federation}/summary'. */
@@ -82,9 +110,9 @@ export interface OpenApiInfo {
 }
 
 /** The OpenAPI 3.1 document of every registered route. */
-export function buildOpenApiDocument(info: OpenApiInfo): Record<string, unknown> {
+export function buildOpenApiDocument(routes: RouteDoc[], info: OpenApiInfo): Record<string, unknown> {
   const paths: Record<string, Record<string, unknown>> = {};
-  const sorted = registeredRoutes().sort((a, b) => a.path.localeCompare(b.path) || a.method.localeCompare(b.method));
+  const sorted = [...routes].sort((a, b) => a.path.localeCompare(b.path) || a.method.localeCompare(b.method));
   for (const route of sorted) {
     const params = [...route.path.matchAll(/:([A-Za-z0-9_]+)/g)].map((m) => m[1]!);
     const parameters: Record<string, unknown>[] = params.map((name) => ({

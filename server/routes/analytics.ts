@@ -5,7 +5,6 @@ import { accessOf, requireAccess, type FederationAccess } from '../auth/access';
 import type { AppContext } from '../context';
 import { forbidden, HttpError } from '../http/errors';
 import { parseWith } from '../http/validate';
-import '../openapi/analytics-routes';
 import { athletesInFilter, federationData, filterOptions, MIN_ATHLETES_FOR_AGGREGATES } from '../services/analytics-data';
 import {
   boundaries,

@@ -1,5 +1,11 @@
 import { Router } from 'express';
 import type { AppContext } from '../context';
+import { ApiDescription, type RouteDoc } from '../openapi/registry';
+import { accessRouteDocs } from './access.openapi';
+import { analyticsRouteDocs } from './analytics.openapi';
+import { exportsRouteDocs } from './exports.openapi';
+import { foundationRouteDocs } from './foundation.openapi';
+import { importsRouteDocs } from './imports.openapi';
 import { accessLinksRouter } from './access-links';
 import { analyticsRouter } from './analytics';
 import { exportsRouter } from './exports';
@@ -11,11 +17,15 @@ import { openApiRouter } from './openapi';
 import { ownerRouter } from './owner';
 import { sessionRouter } from './session';
 
+/** Every route's OpenAPI description, one list per feature (`<feature>.openapi.ts`). */
+export const apiRouteDocs: readonly RouteDoc[] = [...foundationRouteDocs, ...accessRouteDocs, ...exportsRouteDocs, ...analyticsRouteDocs, ...importsRouteDocs];
+
 /**
- * Every API router, mounted under /api. Add a feature's router here; the route × role matrix
- * test walks this router, so a new route without an access entry fails the tests.
+ * Every API router, mounted under /api. Add a feature's router here and its descriptions to
+ * `apiRouteDocs`; the route × role matrix and the OpenAPI tests walk this router, so a route
+ * without an access entry or without a complete description fails the tests.
  */
-export function apiRouter(ctx: AppContext): Router {
+export function apiRouter(ctx: AppContext, description = new ApiDescription(apiRouteDocs)): Router {
   const router = Router();
   router.use(healthRouter(ctx));
   router.use(sessionRouter(ctx));
@@ -26,6 +36,6 @@ export function apiRouter(ctx: AppContext): Router {
   router.use(exportsRouter(ctx));
   router.use(analyticsRouter(ctx));
   router.use(importsRouter(ctx));
-  router.use(openApiRouter(ctx));
+  router.use(openApiRouter(ctx, description));
   return router;
 }

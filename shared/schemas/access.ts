@@ -178,3 +178,17 @@ export const outboxMessageSchema = z.object({
   receivedAt: z.string(),
 });
 export type OutboxMessage = z.infer<typeof outboxMessageSchema>;
+
+// --- response bodies described in OpenAPI ------------------------------------------------------
+
+export const invitationCreatedSchema = z.object({ invitation: invitationViewSchema, mailSent: z.boolean() });
+export const resetPreviewSchema = z.object({ email: z.string(), expiresAt: z.string() });
+export const resetRequestedSchema = z.object({ message: z.string() });
+export const tokenListSchema = z.object({ tokens: z.array(tokenViewSchema) });
+export const outboxSchema = z.object({ messages: z.array(outboxMessageSchema) });
+export const ownerFederationsSchema = z.object({ federations: z.array(ownerFederationSchema) });
+export const federationCreatedSchema = z.object({
+  federation: z.object({ id: z.number(), slug: z.string(), name: z.string() }),
+  invitation: invitationViewSchema,
+  mailSent: z.boolean(),
+});

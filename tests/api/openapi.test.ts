@@ -1,11 +1,14 @@
 /**
  * The OpenAPI 3.1 document at GET /api/openapi.json: generated from the zod schemas, and every
- * route of the Express router appears in it (a route nobody registered fails here).
+ * route of the Express router is described in it completely — request and response schemas —
+ * so a route nobody described, or described without schemas, fails here.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { apiRouter } from '../../server/routes/index';
-import { openApiPath } from '../../server/openapi/registry';
+import { Router } from 'express';
+import { z } from 'zod';
+import { apiRouteDocs, apiRouter } from '../../server/routes/index';
+import { ApiDescription, missingSchemas, openApiPath, type RouteDoc } from '../../server/openapi/registry';
 import { createTestApp, type TestApp } from '../helpers/test-app';
 
 interface Layer {
@@ -26,6 +29,18 @@ function routesOf(router: { stack: Layer[] }, prefix = ''): { method: string; pa
       const mount = layer.slash || layer.rawPath === undefined || layer.rawPath === '/' ? '' : String(layer.rawPath);
       out.push(...routesOf(layer.handle as { stack: Layer[] }, prefix + mount));
     }
+  }
+  return out;
+}
+
+/** The routes of `router` (mounted under /api) whose description is missing or incomplete. */
+function incompleteRoutes(router: Router, description: ApiDescription): string[] {
+  const out: string[] = [];
+  for (const r of routesOf(router as unknown as { stack: Layer[] })) {
+    const path = `/api${r.path}`;
+    const doc = description.get(r.method, path);
+    if (!doc) out.push(`${r.method.toUpperCase()} ${path} is not described`);
+    else if (missingSchemas(doc).length > 0) out.push(`${r.method.toUpperCase()} ${path} lacks ${missingSchemas(doc).join(', ')}`);
   }
   return out;
 }
@@ -51,7 +66,33 @@ describe('OpenAPI document', () => {
     const routes = routesOf(apiRouter(t.ctx) as unknown as { stack: Layer[] }).map((r) => ({ method: r.method, path: openApiPath(`/api${r.path}`) }));
     expect(routes.length).toBeGreaterThan(10);
     const missing = routes.filter((r) => !doc.paths[r.path]?.[r.method]).map((r) => `${r.method.toUpperCase()} ${r.path}`);
-    expect(missing, 'register these routes in the OpenAPI registry (server/openapi/registry.ts)').toEqual([]);
+    expect(missing, 'describe these routes in their feature’s server/routes/<feature>.openapi.ts').toEqual([]);
+  });
+
+  it('describes every route completely: a schema for each answer with a body, and for each write its body', () => {
+    expect(incompleteRoutes(apiRouter(t.ctx), new ApiDescription(apiRouteDocs))).toEqual([]);
+  });
+
+  it('fails for a route whose description lacks schemas, and for a route with none', () => {
+    const router = Router();
+    router.post('/federations/:federation/lint-case', (_req, res) => res.json({}));
+    router.get('/federations/:federation/undescribed', (_req, res) => res.json({}));
+    const description = new ApiDescription([
+      { method: 'post', path: '/api/federations/:federation/lint-case', summary: 'A write described without schemas', security: { session: true }, responses: { 200: { description: 'Done' } } },
+    ]);
+    expect(incompleteRoutes(router, description)).toEqual([
+      'POST /api/federations/:federation/lint-case lacks a schema for the 200 response, a request body schema (or noBody: true)',
+      'GET /api/federations/:federation/undescribed is not described',
+    ]);
+    const complete: RouteDoc = {
+      method: 'post',
+      path: '/api/federations/:federation/lint-case',
+      summary: 'The same write, described',
+      security: { session: true },
+      body: { schema: z.object({ name: z.string() }) },
+      responses: { 200: { description: 'Done', schema: z.object({ ok: z.boolean() }) } },
+    };
+    expect(missingSchemas(complete)).toEqual([]);
   });
 
   it('has the batch API with its request schema from zod, its token scope and its refusal', () => {

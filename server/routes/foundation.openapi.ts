@@ -1,19 +1,20 @@
-/** OpenAPI descriptions of the foundation's routes: health, session, the federation summary. */
+/** OpenAPI descriptions of the foundation's routes: health, session, the federation summary, this document. */
 import { z } from 'zod';
 import { apiErrorSchema } from '../../shared/schemas/common';
 import { federationSummarySchema } from '../../shared/schemas/federation';
 import { sessionSchema, signInSchema } from '../../shared/schemas/session';
-import { registerRoute } from './registry';
+import type { RouteDoc } from '../openapi/registry';
 
-registerRoute({
+export const foundationRouteDocs: RouteDoc[] = [
+{
   method: 'get',
   path: '/api/health',
   summary: 'Whether the server is up, and its version',
   tags: ['Foundation'],
   security: 'none',
   responses: { 200: { description: 'Up', schema: z.object({ status: z.literal('ok'), version: z.string() }) } },
-});
-registerRoute({
+},
+{
   method: 'post',
   path: '/api/session',
   summary: 'Sign in with e-mail and password; sets the session cookie',
@@ -25,28 +26,37 @@ registerRoute({
     400: { description: 'Not valid', schema: apiErrorSchema },
     401: { description: 'The e-mail or password is not right', schema: apiErrorSchema },
   },
-});
-registerRoute({
+},
+{
   method: 'get',
   path: '/api/session',
   summary: 'The signed-in user and their memberships',
   tags: ['Foundation'],
   security: { session: true },
   responses: { 200: { description: 'The session', schema: sessionSchema } },
-});
-registerRoute({
+},
+{
   method: 'delete',
   path: '/api/session',
   summary: 'Sign out (revokes this session)',
   tags: ['Foundation'],
   security: 'none',
   responses: { 204: { description: 'Signed out' } },
-});
-registerRoute({
+},
+{
   method: 'get',
   path: '/api/federations/:federation/summary',
   summary: 'The federation’s counts (no identities)',
   tags: ['Foundation'],
   security: { session: true, bearerScopes: ['read'] },
   responses: { 200: { description: 'The counts', schema: federationSummarySchema } },
-});
+},
+{
+    method: 'get',
+    path: '/api/openapi.json',
+    summary: 'This OpenAPI 3.1 document',
+    tags: ['Foundation'],
+    security: 'none',
+    responses: { 200: { description: 'The document', schema: z.record(z.string(), z.unknown()) } },
+  },
+];

@@ -1,4 +1,4 @@
-/** OpenAPI descriptions of the agreement dashboards' routes (server/routes/analytics.ts). */
+/** OpenAPI descriptions of the agreement dashboards' routes (analytics.ts beside this file). */
 import {
   analyticsFiltersSchema,
   boundariesResponseSchema,
@@ -18,18 +18,21 @@ import {
   raterDriftSchema,
 } from '../../shared/schemas/analytics';
 import { apiErrorSchema } from '../../shared/schemas/common';
-import { registerRoute, type RouteDoc } from './registry';
+import type { RouteDoc } from '../openapi/registry';
 
 const base = '/api/federations/:federation/analytics';
 const everyone = { session: true, bearerScopes: ['read'] } as const;
 const session = { session: true } as const;
 const invalid = { 400: { description: 'A filter or the body is not valid (each field named)', schema: apiErrorSchema } };
 
-function route(doc: Omit<RouteDoc, 'tags' | 'params'> & { params?: Record<string, string> }): void {
-  registerRoute({ tags: ['Agreement dashboards'], ...doc, params: { federation: 'The federation’s slug', ...doc.params } });
-}
+const route = (doc: Omit<RouteDoc, 'tags' | 'params'> & { params?: Record<string, string> }): RouteDoc => ({
+  tags: ['Agreement dashboards'],
+  ...doc,
+  params: { federation: 'The federation’s slug', ...doc.params },
+});
 
-route({ method: 'get', path: `${base}/filters`, summary: 'What the dashboards can be filtered by: seasons, events, categories, kinds', security: everyone, responses: { 200: { description: 'Filter options', schema: filterOptionsSchema } } });
+export const analyticsRouteDocs: RouteDoc[] = [
+route({ method: 'get', path: `${base}/filters`, summary: 'What the dashboards can be filtered by: seasons, events, categories, kinds', security: everyone, responses: { 200: { description: 'Filter options', schema: filterOptionsSchema } } }),
 route({
   method: 'get',
   path: `${base}/overview`,
@@ -37,8 +40,8 @@ route({
   security: everyone,
   query: analyticsFiltersSchema,
   responses: { 200: { description: 'Overview', schema: overviewSchema }, ...invalid },
-});
-route({ method: 'get', path: `${base}/classifiers`, summary: 'Each classifier against the panel (leads)', security: session, query: analyticsFiltersSchema, responses: { 200: { description: 'Classifiers', schema: classifiersResponseSchema }, ...invalid } });
+}),
+route({ method: 'get', path: `${base}/classifiers`, summary: 'Each classifier against the panel (leads)', security: session, query: analyticsFiltersSchema, responses: { 200: { description: 'Classifiers', schema: classifiersResponseSchema }, ...invalid } }),
 route({
   method: 'get',
   path: `${base}/classifiers/:code`,
@@ -47,9 +50,9 @@ route({
   params: { code: 'Classifier code' },
   query: analyticsFiltersSchema,
   responses: { 200: { description: 'The classifier', schema: classifierDetailSchema }, ...invalid, 404: { description: 'No such classifier', schema: apiErrorSchema } },
-});
-route({ method: 'get', path: `${base}/me`, summary: 'The signed-in classifier’s own figures, with the federation’s spread without names', security: session, query: analyticsFiltersSchema, responses: { 200: { description: 'Own figures', schema: myAgreementSchema }, ...invalid } });
-route({ method: 'get', path: `${base}/pairs`, summary: 'Quadratically weighted kappa of every pair of classifiers; pairs under minShared are “too few” (leads)', security: session, query: analyticsFiltersSchema, responses: { 200: { description: 'Pairs', schema: pairsResponseSchema }, ...invalid } });
+}),
+route({ method: 'get', path: `${base}/me`, summary: 'The signed-in classifier’s own figures, with the federation’s spread without names', security: session, query: analyticsFiltersSchema, responses: { 200: { description: 'Own figures', schema: myAgreementSchema }, ...invalid } }),
+route({ method: 'get', path: `${base}/pairs`, summary: 'Quadratically weighted kappa of every pair of classifiers; pairs under minShared are “too few” (leads)', security: session, query: analyticsFiltersSchema, responses: { 200: { description: 'Pairs', schema: pairsResponseSchema }, ...invalid } }),
 route({
   method: 'get',
   path: `${base}/pairs/:a/:b`,
@@ -58,9 +61,9 @@ route({
   params: { a: 'Classifier code', b: 'Classifier code' },
   query: analyticsFiltersSchema,
   responses: { 200: { description: 'The pair', schema: pairDetailSchema }, ...invalid, 404: { description: 'No such classifier', schema: apiErrorSchema } },
-});
-route({ method: 'get', path: `${base}/boundaries`, summary: 'Split rate of each class boundary, overall and by quarter', security: everyone, query: analyticsFiltersSchema, responses: { 200: { description: 'Boundaries', schema: boundariesResponseSchema }, ...invalid } });
-route({ method: 'get', path: `${base}/drift/raters`, summary: 'Each classifier’s bias by quarter and the CUSUM signals (leads)', security: session, query: analyticsFiltersSchema, responses: { 200: { description: 'Rater drift', schema: raterDriftSchema }, ...invalid } });
+}),
+route({ method: 'get', path: `${base}/boundaries`, summary: 'Split rate of each class boundary, overall and by quarter', security: everyone, query: analyticsFiltersSchema, responses: { 200: { description: 'Boundaries', schema: boundariesResponseSchema }, ...invalid } }),
+route({ method: 'get', path: `${base}/drift/raters`, summary: 'Each classifier’s bias by quarter and the CUSUM signals (leads)', security: session, query: analyticsFiltersSchema, responses: { 200: { description: 'Rater drift', schema: raterDriftSchema }, ...invalid } }),
 route({
   method: 'get',
   path: `${base}/drift/classes`,
@@ -68,9 +71,9 @@ route({
   security: everyone,
   query: analyticsFiltersSchema,
   responses: { 200: { description: 'Class drift', schema: classDriftSchema }, ...invalid },
-});
-route({ method: 'get', path: `${base}/flags`, summary: 'Calibration flags with their evidence and status (leads)', security: session, responses: { 200: { description: 'Flags', schema: flagsResponseSchema } } });
-route({ method: 'post', path: `${base}/flags/evaluate`, summary: 'Evaluate the calibration flags now (leads)', security: session, responses: { 200: { description: 'Counts', schema: evaluateResponseSchema } } });
+}),
+route({ method: 'get', path: `${base}/flags`, summary: 'Calibration flags with their evidence and status (leads)', security: session, responses: { 200: { description: 'Flags', schema: flagsResponseSchema } } }),
+route({ method: 'post', path: `${base}/flags/evaluate`, summary: 'Evaluate the calibration flags now (leads)', security: session, noBody: true, responses: { 200: { description: 'Counts', schema: evaluateResponseSchema } } }),
 route({
   method: 'patch',
   path: `${base}/flags/:id`,
@@ -84,8 +87,8 @@ route({
     404: { description: 'No such flag', schema: apiErrorSchema },
     409: { description: 'A closed flag stays closed', schema: apiErrorSchema },
   },
-});
-route({ method: 'get', path: `${base}/flag-settings`, summary: 'Thresholds of the calibration flags (leads)', security: session, responses: { 200: { description: 'Thresholds', schema: flagThresholdsSchema } } });
+}),
+route({ method: 'get', path: `${base}/flag-settings`, summary: 'Thresholds of the calibration flags (leads)', security: session, responses: { 200: { description: 'Thresholds', schema: flagThresholdsSchema } } }),
 route({
   method: 'put',
   path: `${base}/flag-settings`,
@@ -93,4 +96,5 @@ route({
   security: session,
   body: { schema: flagThresholdsSchema },
   responses: { 200: { description: 'Saved thresholds', schema: flagThresholdsSchema }, ...invalid },
-});
+}),
+];
