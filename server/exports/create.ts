@@ -21,7 +21,7 @@ import { HttpError } from '../http/errors';
 import { audit } from '../services/audit';
 import { cellKey, federationSmallCells, quarterOfIsoDate } from '../services/research-cells';
 import { assessmentFingerprints, renderExport } from './build';
-import { differingAthletes, differingLowerBound, type ExportMember } from './differencing';
+import { compareExports, type ExportMember } from './differencing';
 import { randomSecret } from './pseudonyms';
 import { exportSettings, scopeRatings } from './scope';
 import { exportsDirectory, newStorageKey, removeExportFiles, writeExportFiles, type ExportStorageContext } from './storage';
@@ -111,13 +111,15 @@ async function storedBytesOf(db: Db, federationId: number, userId: number): Prom
   return Number(row.bytes);
 }
 
-/** Refuses an export whose data differ from an earlier one of the same maker or study by 0 < n < k athletes. */
+/**
+ * Refuses an export whose data differ from an earlier one of the same maker or study by
+ * 0 < n < k athletes, or that shares identical assessments of 0 < n < k athletes with it.
+ */
 async function checkDifferencing(
   trx: Db,
   params: BuildExportParams,
   study: Selectable<ResearchStudyTable> | undefined,
   members: readonly ExportMember[],
-  athletes: number,
   k: number,
 ): Promise<void> {
   const earlier = await trx
@@ -128,16 +130,25 @@ async function checkDifferencing(
     .orderBy('id', 'desc')
     .execute();
   for (const row of earlier) {
-    const counts = JSON.parse(row.counts) as Partial<ExportCounts>;
-    if (counts.athletes !== undefined && differingLowerBound(counts.athletes, athletes) >= k) continue;
     const theirs = await trx
       .selectFrom('research_export_assessments')
       .select(['assessment_id as assessmentId', 'athlete_id as athleteId', 'fingerprint'])
       .where('export_id', '=', row.id)
       .execute();
-    const differing = differingAthletes(members, theirs).size;
-    if (differing === 0 || differing >= k) continue;
+    const compared = compareExports(members, theirs);
+    const differing = compared.differing.size;
+    const shared = compared.shared.size;
     const which = row.user_id === params.userId ? `your export ${row.id} (made ${row.created_at.slice(0, 10)})` : `an earlier export of the study "${study!.name}"`;
+    if (shared > 0 && shared < k) {
+      throw new HttpError(
+        422,
+        'validation_failed',
+        `This export would share the same assessments of ${shared} athlete${shared === 1 ? '' : 's'} only with ${which}, fewer than k = ${k}: ` +
+          `set side by side, the two would single ${shared === 1 ? 'that athlete' : 'those athletes'} out. Choose a scope that overlaps it by at least ${k} athletes or not at all.`,
+        [{ path: 'scope', message: `shares ${shared} athletes with an earlier export (fewer than k = ${k})` }],
+      );
+    }
+    if (differing === 0 || differing >= k) continue;
     throw new HttpError(
       422,
       'validation_failed',
@@ -188,7 +199,7 @@ export async function buildExport(ctx: ExportStorageContext, params: BuildExport
   const expiresAt = new Date(now.getTime() + EXPORT_KEEP_DAYS * DAY_MS).toISOString();
   const exportId = await immediate(db, async (trx) => {
     await checkQuota(trx, params, settings, now);
-    await checkDifferencing(trx, params, study, members, athletes, k);
+    await checkDifferencing(trx, params, study, members, k);
     const inserted = await trx
       .insertInto('research_exports')
       .values({

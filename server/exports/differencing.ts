@@ -10,6 +10,10 @@
  * this is the symmetric difference of the two athlete sets; it also covers an export that keeps
  * the same athletes but adds or drops some of their assessments (one event level more, one
  * import later).
+ *
+ * The same bound holds for what two exports share: read side by side, the assessments present in
+ * both (matched by their content) single out the athletes they belong to as well, so a new
+ * export that shares identical assessments of 0 < n < k athletes with an earlier one is refused too.
  */
 
 export interface ExportMember {
@@ -20,9 +24,15 @@ export interface ExportMember {
 
 /** Athletes whose data differ between two exports. */
 export function differingAthletes(a: readonly ExportMember[], b: readonly ExportMember[]): Set<number> {
+  return compareExports(a, b).differing;
+}
+
+/** Athletes whose data differ between two exports, and athletes with an identical assessment in both. */
+export function compareExports(a: readonly ExportMember[], b: readonly ExportMember[]): { differing: Set<number>; shared: Set<number> } {
   const inB = new Map<number, ExportMember>();
   for (const m of b) inB.set(m.assessmentId, m);
   const differing = new Set<number>();
+  const shared = new Set<number>();
   const seen = new Set<number>();
   for (const m of a) {
     const other = inB.get(m.assessmentId);
@@ -31,13 +41,8 @@ export function differingAthletes(a: readonly ExportMember[], b: readonly Export
     else if (other.fingerprint !== m.fingerprint || other.athleteId !== m.athleteId) {
       differing.add(m.athleteId);
       differing.add(other.athleteId);
-    }
+    } else shared.add(m.athleteId);
   }
   for (const m of b) if (!seen.has(m.assessmentId)) differing.add(m.athleteId);
-  return differing;
-}
-
-/** A lower bound of the differing athletes from the athlete counts alone (no need to compare when it is ≥ k). */
-export function differingLowerBound(athletesA: number, athletesB: number): number {
-  return Math.abs(athletesA - athletesB);
+  return { differing, shared };
 }
