@@ -21,8 +21,8 @@ export function FilterBar({ federation, state, showMinShared = false }: { federa
   const options = useFilterOptions(federation);
   const research = useFederation()?.role === 'researcher';
   const id = useId();
-  const quarters = (options.data?.seasons ?? []).filter((s) => !filters.season || String(s.year) === filters.season).flatMap((s) => quartersOfSeason(s.year));
   const { filters, set, clear, problems } = state;
+  const quarters = (options.data?.seasons ?? []).filter((s) => !filters.season || String(s.year) === filters.season).flatMap((s) => quartersOfSeason(s.year));
   const events = (options.data?.events ?? []).filter((e) => {
     if (!filters.season) return true;
     const season = options.data?.seasons.find((s) => String(s.year) === filters.season);
