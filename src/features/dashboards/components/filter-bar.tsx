@@ -129,7 +129,11 @@ export function FilterBar({ federation, state, showMinShared = false }: { federa
             Clear filters
           </button>
         ) : (
-          <span className="text-muted">Showing all of the federation’s assessments.</span>
+          <span className="text-muted">
+            {research
+              ? 'Showing the federation’s assessments without the groups (quarter, kind and category) of too few athletes to be shown.'
+              : 'Showing all of the federation’s assessments.'}
+          </span>
         )}
       </div>
     </section>
