@@ -283,6 +283,7 @@ export async function buildExport(ctx: ExportStorageContext, params: BuildExport
     };
   } catch (error) {
     await removeExportFiles(dir, exportId, storageKey);
+    await db.deleteFrom('research_export_assessments').where('export_id', '=', exportId).execute();
     await db.deleteFrom('research_exports').where('id', '=', exportId).execute();
     throw error;
   }
