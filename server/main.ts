@@ -9,6 +9,7 @@ import { migrateToLatest } from './db/migrate';
 import { isEmpty, seedDemo } from './demo/seed';
 import { createLogger } from './logger';
 import { startMailer } from './mail/mailer';
+import { scheduleExportCleanup } from './exports/storage';
 
 /**
  * Starts Panelwise: builds the client when it is missing (with --build-if-missing), applies
@@ -33,6 +34,8 @@ async function main() {
 
   const mailer = await startMailer({ config, db, logger });
   const ctx: AppContext = { db, sqlite, config, logger, mailer };
+  // Removes the files of expired research exports now and every hour.
+  const exportCleanup = scheduleExportCleanup(ctx);
   const app = createApp(ctx);
   const server = app.listen(config.port, (error?: Error) => {
     // Express 5 hands a listen error (such as a port in use) to this callback instead of throwing.
@@ -45,7 +48,10 @@ async function main() {
 
   const stop = () => {
     server.close(() => {
-      void mailer.close().finally(() => db.destroy().then(() => process.exit(0)));
+      void exportCleanup
+        .stop()
+        .then(() => mailer.close())
+        .finally(() => db.destroy().then(() => process.exit(0)));
     });
     setTimeout(() => process.exit(0), 3000).unref();
   };

@@ -183,6 +183,9 @@ export interface ResearchExportSettingsTable {
   /** Hex of the federation's HMAC-SHA-256 pseudonym key: server-side only. */
   pseudonym_key: string;
   min_athletes: ColumnType<number, number | undefined, number>;
+  /** Quota of every researcher: exports in any 24 hours, and megabytes of files kept at once. */
+  max_exports_per_day: ColumnType<number, number | undefined, number>;
+  max_stored_megabytes: ColumnType<number, number | undefined, number>;
   created_at: CreatedAt;
   updated_at: string | null;
   updated_by: number | null;
@@ -209,12 +212,26 @@ export interface ResearchExportTable {
   request: string;
   min_athletes: number;
   counts: ColumnType<string, string | undefined, string>;
-  /** The generated files; cleared when the export expires. */
-  csv: string | null;
-  json: string | null;
-  dictionary: string | null;
+  /**
+   * Names the export's gzip-compressed files in the exports folder (server/exports/storage.ts);
+   * null while it is being built and once its files are removed.
+   */
+  storage_key: string | null;
+  /** Bytes of the compressed files on disk (0 once removed). */
+  stored_bytes: ColumnType<number, number | undefined, number>;
+  /** When the files were removed (expiry); the row stays as the record. */
+  removed_at: string | null;
   created_at: CreatedAt;
   expires_at: string;
+}
+
+/** What an export held, one row per assessment (kept after the files expire). */
+export interface ResearchExportAssessmentTable {
+  export_id: number;
+  assessment_id: number;
+  athlete_id: number;
+  /** 32-bit hash of everything the export wrote about the assessment. */
+  fingerprint: number;
 }
 
 export interface InvitationTable {
@@ -289,6 +306,7 @@ export interface Database {
   research_export_settings: ResearchExportSettingsTable;
   research_studies: ResearchStudyTable;
   research_exports: ResearchExportTable;
+  research_export_assessments: ResearchExportAssessmentTable;
   import_changes: ImportChangeTable;
   import_mappings: ImportMappingTable;
 }

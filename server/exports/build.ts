@@ -85,8 +85,36 @@ export const CAUTIONS = [
   'Do not try to re-identify athletes, classifiers or events, and do not link this data with other sources except other exports of the same study.',
 ];
 
-/** Builds the CSV, the JSON and the data dictionary of an export (pure apart from hashing). */
-export function buildExport(input: BuildInput): BuiltExport {
+/**
+ * A 32-bit fingerprint (FNV-1a) of everything the database holds about each assessment that an
+ * export could write: kind, date, event, event level, the athlete's category, the panel's class
+ * and every rating with its classifier. Two exports hold "the same" assessment when both have
+ * it with equal fingerprints (server/exports/differencing.ts).
+ */
+export function assessmentFingerprints(ratings: readonly SourceRating[]): Map<string, number> {
+  const parts = new Map<string, string[]>();
+  for (const r of ratings) {
+    let list = parts.get(r.assessmentKey);
+    if (!list) parts.set(r.assessmentKey, (list = [r.athleteKey, r.kind, r.assessedOn, r.eventKey ?? '', r.eventLevel ?? '', r.category, String(r.panelClass ?? '')]));
+    list.push(`${r.classifierKey}=${r.sportClass}`);
+  }
+  const out = new Map<string, number>();
+  for (const [key, list] of parts) {
+    const head = list.slice(0, 7);
+    const ratingsPart = list.slice(7).sort();
+    const text = [...head, ...ratingsPart].join('\u241f');
+    let h = 0x811c9dc5;
+    for (let i = 0; i < text.length; i++) {
+      h ^= text.charCodeAt(i);
+      h = Math.imul(h, 0x01000193);
+    }
+    out.set(key, h | 0);
+  }
+  return out;
+}
+
+/** Renders the CSV, the JSON and the data dictionary of an export (pure apart from hashing). */
+export function renderExport(input: BuildInput): BuiltExport {
   const { request, k, federation } = input;
   const fields = new Set<ExportField>(request.fields);
   const pseudo = pseudonymiser(input.key, input.salt);

@@ -1,30 +1,28 @@
-import { sql } from 'kysely';
-import type { ExportCounts, ExportFile, ExportOptions, ExportRequest, ExportSettingsView, ExportView, StudyView } from '../../shared/schemas/exports';
+import fs from 'node:fs';
+import { sql, type Selectable } from 'kysely';
+import type {
+  ExportCounts,
+  ExportFile,
+  ExportOptions,
+  ExportRequest,
+  ExportSettings,
+  ExportSettingsView,
+  ExportView,
+  StudyView,
+} from '../../shared/schemas/exports';
 import type { FederationAccess } from '../auth/access';
 import type { Db } from '../db/connection';
 import type { ResearchStudyTable } from '../db/database';
 import { HttpError, notFound } from '../http/errors';
 import { audit } from '../services/audit';
-import type { Selectable } from 'kysely';
-import { buildExport, seasonOf, type SourceRating } from './build';
+import { seasonOf } from './build';
+import { buildExport, EXPORT_KEEP_DAYS } from './create';
 import { randomSecret } from './pseudonyms';
+import { exportSettings, NO_EVENT_LEVEL } from './scope';
+import { exportFilePath, exportsDirectory, removeExportFiles, type ExportStorageContext } from './storage';
 
-/** Days an export's files can be downloaded again by its maker. */
-export const EXPORT_KEEP_DAYS = 7;
-export const DEFAULT_MIN_ATHLETES = 5;
-
-const DAY_MS = 86_400_000;
-
-/** The federation's export settings, created with a fresh pseudonym key on first use. */
-export async function exportSettings(db: Db, federationId: number): Promise<{ key: Uint8Array; minAthletes: number }> {
-  await db
-    .insertInto('research_export_settings')
-    .values({ federation_id: federationId, pseudonym_key: randomSecret(), min_athletes: DEFAULT_MIN_ATHLETES })
-    .onConflict((oc) => oc.column('federation_id').doNothing())
-    .execute();
-  const row = await db.selectFrom('research_export_settings').select(['pseudonym_key', 'min_athletes']).where('federation_id', '=', federationId).executeTakeFirstOrThrow();
-  return { key: new Uint8Array(Buffer.from(row.pseudonym_key, 'hex')), minAthletes: row.min_athletes };
-}
+export { EXPORT_KEEP_DAYS } from './create';
+export { DEFAULT_MIN_ATHLETES } from '../services/research-cells';
 
 function studyView(row: Selectable<ResearchStudyTable>): StudyView {
   return { id: row.id, name: row.name, purpose: row.purpose, createdAt: row.created_at, closedAt: row.closed_at };
@@ -71,58 +69,23 @@ export async function exportOptions(db: Db, access: FederationAccess): Promise<E
   };
 }
 
-/** The level offered for assessments recorded without an event. */
-export const NO_EVENT_LEVEL = '(no event)';
-
-/** The ratings of an export's scope, with identities (server-side only). */
-export async function scopeRatings(db: Db, federationId: number, scope: ExportRequest['scope']): Promise<SourceRating[]> {
-  const levels = scope.eventLevels.filter((l) => l !== NO_EVENT_LEVEL);
-  const includeNoEvent = scope.eventLevels.includes(NO_EVENT_LEVEL) && !(scope.eventIds && scope.eventIds.length > 0);
-  let query = db
-    .selectFrom('ratings')
-    .innerJoin('assessments', 'assessments.id', 'ratings.assessment_id')
-    .innerJoin('athletes', 'athletes.id', 'assessments.athlete_id')
-    .innerJoin('classifiers', 'classifiers.id', 'ratings.classifier_id')
-    .leftJoin('events', 'events.id', 'assessments.event_id')
-    .select([
-      'assessments.external_id as assessmentKey',
-      'athletes.code as athleteKey',
-      'events.code as eventKey',
-      'classifiers.code as classifierKey',
-      'assessments.assessed_on as assessedOn',
-      'assessments.kind as kind',
-      'athletes.category as category',
-      'events.level as eventLevel',
-      'ratings.sport_class as sportClass',
-      'assessments.panel_class as panelClass',
-    ])
-    .where('assessments.federation_id', '=', federationId)
-    .where('assessments.kind', 'in', scope.kinds)
-    .where('athletes.category', 'in', scope.categories)
-    .where((eb) => {
-      const parts = [];
-      if (levels.length > 0) parts.push(eb('events.level', 'in', levels));
-      if (includeNoEvent) parts.push(eb('assessments.event_id', 'is', null));
-      return parts.length > 0 ? eb.or(parts) : eb.val(false);
-    });
-  if (scope.eventIds && scope.eventIds.length > 0) query = query.where('assessments.event_id', 'in', scope.eventIds);
-  const rows = await query.orderBy('assessments.id').orderBy('ratings.id').execute();
-  const seasons = new Set(scope.seasons);
-  return rows.filter((r) => seasons.has(seasonOf(r.assessedOn))) as SourceRating[];
-}
-
-function exportView(row: {
-  id: number;
-  created_at: string;
-  expires_at: string;
-  request: string;
-  min_athletes: number;
-  counts: string;
-  csv: string | null;
-  study_id: number | null;
-  study_name: string | null;
-}, federationSlug: string, now: Date): ExportView {
-  const expired = Date.parse(row.expires_at) <= now.getTime() || row.csv === null;
+function exportView(
+  row: {
+    id: number;
+    created_at: string;
+    expires_at: string;
+    request: string;
+    min_athletes: number;
+    counts: string;
+    storage_key: string | null;
+    stored_bytes: number;
+    study_id: number | null;
+    study_name: string | null;
+  },
+  federationSlug: string,
+  now: Date,
+): ExportView {
+  const expired = Date.parse(row.expires_at) <= now.getTime() || row.storage_key === null;
   const base = `/federations/${encodeURIComponent(federationSlug)}/exports/${row.id}`;
   return {
     id: row.id,
@@ -133,97 +96,49 @@ function exportView(row: {
     study: row.study_id !== null && row.study_name !== null ? { id: row.study_id, name: row.study_name } : null,
     minAthletes: row.min_athletes,
     counts: JSON.parse(row.counts) as ExportCounts,
+    storedBytes: expired ? 0 : row.stored_bytes,
     files: expired ? {} : { csv: `${base}/csv`, json: `${base}/json`, dictionary: `${base}/dictionary` },
   };
 }
 
 /**
- * Builds an export, stores its files for EXPORT_KEEP_DAYS and records it in the audit log, in
- * one transaction. The per-export salt is used and forgotten.
+ * Builds an export (server/exports/create.ts: whole cells of at least k athletes, quota,
+ * differencing, gzip files kept for EXPORT_KEEP_DAYS, audit). The per-export salt is used and
+ * forgotten.
  */
-export async function createExport(db: Db, access: FederationAccess, request: ExportRequest, now = new Date()): Promise<ExportView> {
-  const federationId = access.federation.id;
+export async function createExport(ctx: ExportStorageContext, access: FederationAccess, request: ExportRequest, now = new Date()): Promise<ExportView> {
   if (access.role !== 'lead' && request.scope.eventIds && request.scope.eventIds.length > 0) {
     throw new HttpError(403, 'forbidden', 'Researchers choose events by season and level, not one by one', [{ path: 'scope.eventIds', message: 'Only a lead may choose individual events' }]);
   }
-  const settings = await exportSettings(db, federationId);
-  let study: Selectable<ResearchStudyTable> | undefined;
-  if (request.studyId !== undefined && request.studyId !== null) {
-    study = await db.selectFrom('research_studies').selectAll().where('id', '=', request.studyId).where('federation_id', '=', federationId).executeTakeFirst();
-    if (!study) throw new HttpError(400, 'validation_failed', 'The export request is not valid', [{ path: 'studyId', message: `Study ${request.studyId} does not exist in this federation` }]);
-    if (study.closed_at) throw new HttpError(409, 'conflict', `The study "${study.name}" is closed: its stable key can no longer be used`);
-  }
-  const ratings = await scopeRatings(db, federationId, request.scope);
-  const athletes = new Set(ratings.map((r) => r.athleteKey)).size;
-  if (athletes < settings.minAthletes) {
-    throw new HttpError(422, 'validation_failed', `The scope holds ${athletes} athletes, fewer than k = ${settings.minAthletes}: widen it`, [
-      { path: 'scope', message: `fewer than ${settings.minAthletes} athletes` },
-    ]);
-  }
-
-  return db.transaction().execute(async (trx) => {
-    const createdAt = now.toISOString();
-    const expiresAt = new Date(now.getTime() + EXPORT_KEEP_DAYS * DAY_MS).toISOString();
-    const inserted = await trx
-      .insertInto('research_exports')
-      .values({
-        federation_id: federationId,
-        user_id: access.userId,
-        study_id: study?.id ?? null,
-        request: JSON.stringify(request),
-        min_athletes: settings.minAthletes,
-        created_at: createdAt,
-        expires_at: expiresAt,
-      })
-      .returning('id')
-      .executeTakeFirstOrThrow();
-    const built = buildExport({
-      federation: { name: access.federation.name, scale: { min: access.federation.scaleMin, max: access.federation.scaleMax } },
-      exportId: inserted.id,
-      exportedAt: createdAt,
-      request,
-      k: settings.minAthletes,
-      key: settings.key,
-      salt: study?.salt ?? randomSecret(),
-      study: study ? { name: study.name } : null,
-      ratings,
-    });
-    await trx
-      .updateTable('research_exports')
-      .set({ counts: JSON.stringify(built.counts), csv: built.csv, json: built.json, dictionary: built.dictionary })
-      .where('id', '=', inserted.id)
-      .execute();
-    await audit(trx, {
-      federationId,
-      userId: access.userId,
-      action: 'export.create',
-      entity: 'research_export',
-      entityId: inserted.id,
-      detail: { scope: request.scope, fields: request.fields, dateMode: request.dateMode, studyId: study?.id ?? null, k: settings.minAthletes, rows: built.counts.rows, suppressed: built.counts.suppressed },
-    });
-    return exportView(
-      { id: inserted.id, created_at: createdAt, expires_at: expiresAt, request: JSON.stringify(request), min_athletes: settings.minAthletes, counts: JSON.stringify(built.counts), csv: built.csv, study_id: study?.id ?? null, study_name: study?.name ?? null },
-      access.federation.slug,
-      now,
-    );
+  if (access.role === null || access.userId === null) throw new HttpError(403, 'forbidden', 'API tokens cannot make research exports');
+  const built = await buildExport(ctx, {
+    federation: { id: access.federation.id, name: access.federation.name, scaleMin: access.federation.scaleMin, scaleMax: access.federation.scaleMax },
+    userId: access.userId,
+    role: access.role,
+    request,
+    now,
   });
+  return exportView(
+    {
+      id: built.exportId,
+      created_at: built.createdAt,
+      expires_at: built.expiresAt,
+      request: JSON.stringify(request),
+      min_athletes: built.minAthletes,
+      counts: JSON.stringify(built.counts),
+      storage_key: built.storageKey,
+      stored_bytes: built.storedBytes,
+      study_id: built.study?.id ?? null,
+      study_name: built.study?.name ?? null,
+    },
+    access.federation.slug,
+    now,
+  );
 }
 
-/** Clears the files of expired exports of a federation (the rows stay as the record). */
-async function clearExpired(db: Db, federationId: number, now: Date): Promise<void> {
-  await db
-    .updateTable('research_exports')
-    .set({ csv: null, json: null, dictionary: null })
-    .where('federation_id', '=', federationId)
-    .where('expires_at', '<=', now.toISOString())
-    .where('csv', 'is not', null)
-    .execute();
-}
-
-/** The caller's own exports, newest first. */
-export async function listMyExports(db: Db, access: FederationAccess, now = new Date()): Promise<ExportView[]> {
-  await clearExpired(db, access.federation.id, now);
-  const rows = await db
+/** The caller's own exports, newest first (exports still being built are left out). */
+export async function listMyExports(ctx: ExportStorageContext, access: FederationAccess, now = new Date()): Promise<ExportView[]> {
+  const rows = await ctx.db
     .selectFrom('research_exports')
     .leftJoin('research_studies', 'research_studies.id', 'research_exports.study_id')
     .select([
@@ -233,12 +148,14 @@ export async function listMyExports(db: Db, access: FederationAccess, now = new 
       'research_exports.request',
       'research_exports.min_athletes',
       'research_exports.counts',
-      sql<string | null>`case when research_exports.csv is null then null else '' end`.as('csv'),
+      'research_exports.storage_key',
+      'research_exports.stored_bytes',
       'research_exports.study_id',
       'research_studies.name as study_name',
     ])
     .where('research_exports.federation_id', '=', access.federation.id)
     .where('research_exports.user_id', '=', access.userId)
+    .where((eb) => eb.or([eb('research_exports.storage_key', 'is not', null), eb('research_exports.removed_at', 'is not', null)]))
     .orderBy('research_exports.id', 'desc')
     .limit(200)
     .execute();
@@ -251,21 +168,31 @@ const MEDIA_TYPES: Record<ExportFile, string> = {
   dictionary: 'application/json; charset=utf-8',
 };
 
-/** One stored file of the caller's own export; 404 for anyone else's, 410 once expired. */
-export async function exportFile(db: Db, access: FederationAccess, exportId: number, file: ExportFile, now = new Date()) {
-  const row = await db
+/**
+ * One stored file of the caller's own export, as the path of its gzip-compressed file; 404 for
+ * anyone else's, 410 once expired (its files are removed then, if the scheduled job has not yet).
+ */
+export async function exportFile(ctx: ExportStorageContext, access: FederationAccess, exportId: number, file: ExportFile, now = new Date()) {
+  const row = await ctx.db
     .selectFrom('research_exports')
-    .select(['id', 'user_id', 'csv', 'json', 'dictionary', 'expires_at', 'counts'])
+    .select(['id', 'user_id', 'storage_key', 'expires_at', 'counts'])
     .where('id', '=', exportId)
     .where('federation_id', '=', access.federation.id)
     .executeTakeFirst();
   if (!row || row.user_id === null || row.user_id !== access.userId) throw notFound(`Export ${exportId}`);
-  const content = row[file];
-  if (Date.parse(row.expires_at) <= now.getTime() || content === null) {
-    await clearExpired(db, access.federation.id, now);
-    throw new HttpError(410, 'gone', `Export ${exportId} expired on ${row.expires_at.slice(0, 10)}: exports can be downloaded for ${EXPORT_KEEP_DAYS} days; build it again`);
+  const dir = exportsDirectory(ctx);
+  const gone = () =>
+    new HttpError(410, 'gone', `Export ${exportId} expired on ${row.expires_at.slice(0, 10)}: exports can be downloaded for ${EXPORT_KEEP_DAYS} days; build it again`);
+  if (row.storage_key === null) throw gone();
+  if (Date.parse(row.expires_at) <= now.getTime()) {
+    await removeExportFiles(dir, row.id, row.storage_key);
+    await ctx.db.updateTable('research_exports').set({ storage_key: null, stored_bytes: 0, removed_at: now.toISOString() }).where('id', '=', row.id).execute();
+    throw gone();
   }
-  await audit(db, {
+  const gzipPath = exportFilePath(dir, row.id, row.storage_key, file);
+  const stat = await fs.promises.stat(gzipPath).catch(() => null);
+  if (!stat) throw new HttpError(410, 'gone', `The files of export ${exportId} are no longer on the server; build it again`);
+  await audit(ctx.db, {
     federationId: access.federation.id,
     userId: access.userId,
     action: 'export.download',
@@ -274,23 +201,37 @@ export async function exportFile(db: Db, access: FederationAccess, exportId: num
     detail: { file, rows: (JSON.parse(row.counts) as ExportCounts).rows },
   });
   const suffix = file === 'csv' ? '.csv' : file === 'json' ? '.json' : '-dictionary.json';
-  return { content, mediaType: MEDIA_TYPES[file], fileName: `research-export-${exportId}${suffix}` };
+  return { gzipPath, gzipBytes: stat.size, mediaType: MEDIA_TYPES[file], fileName: `research-export-${exportId}${suffix}` };
 }
 
 export async function settingsView(db: Db, federationId: number): Promise<ExportSettingsView> {
   const settings = await exportSettings(db, federationId);
-  return { minAthletes: settings.minAthletes, studies: await listStudies(db, federationId, false) };
+  return {
+    minAthletes: settings.minAthletes,
+    maxExportsPerDay: settings.maxExportsPerDay,
+    maxStoredMegabytes: settings.maxStoredMegabytes,
+    studies: await listStudies(db, federationId, false),
+  };
 }
 
-export async function updateSettings(db: Db, access: FederationAccess, minAthletes: number): Promise<ExportSettingsView> {
+export async function updateSettings(db: Db, access: FederationAccess, next: ExportSettings): Promise<ExportSettingsView> {
   const before = await exportSettings(db, access.federation.id);
   await db.transaction().execute(async (trx) => {
     await trx
       .updateTable('research_export_settings')
-      .set({ min_athletes: minAthletes, updated_at: new Date().toISOString(), updated_by: access.userId })
+      .set({
+        min_athletes: next.minAthletes,
+        max_exports_per_day: next.maxExportsPerDay ?? before.maxExportsPerDay,
+        max_stored_megabytes: next.maxStoredMegabytes ?? before.maxStoredMegabytes,
+        updated_at: new Date().toISOString(),
+        updated_by: access.userId,
+      })
       .where('federation_id', '=', access.federation.id)
       .execute();
-    await audit(trx, { federationId: access.federation.id, userId: access.userId, action: 'export.settings', entity: 'research_export_settings', entityId: access.federation.id, detail: { minAthletes: { from: before.minAthletes, to: minAthletes } } });
+    const detail: Record<string, { from: number; to: number }> = { minAthletes: { from: before.minAthletes, to: next.minAthletes } };
+    if (next.maxExportsPerDay !== undefined) detail.maxExportsPerDay = { from: before.maxExportsPerDay, to: next.maxExportsPerDay };
+    if (next.maxStoredMegabytes !== undefined) detail.maxStoredMegabytes = { from: before.maxStoredMegabytes, to: next.maxStoredMegabytes };
+    await audit(trx, { federationId: access.federation.id, userId: access.userId, action: 'export.settings', entity: 'research_export_settings', entityId: access.federation.id, detail });
   });
   return settingsView(db, access.federation.id);
 }

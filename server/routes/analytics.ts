@@ -5,7 +5,15 @@ import { accessOf, requireAccess, type FederationAccess } from '../auth/access';
 import type { AppContext } from '../context';
 import { forbidden, HttpError } from '../http/errors';
 import { parseWith } from '../http/validate';
-import { athletesInFilter, federationData, filterOptions, MIN_ATHLETES_FOR_AGGREGATES } from '../services/analytics-data';
+import {
+  athletesInFilter,
+  federationData,
+  filterOptions,
+  MIN_ATHLETES_FOR_AGGREGATES,
+  researchBaseSet,
+  type ViewFilters,
+} from '../services/analytics-data';
+import { federationK, isResearchView } from '../services/research-cells';
 import {
   boundaries,
   classDrift,
@@ -37,21 +45,43 @@ function filtersOf(req: Request): AnalyticsFilters {
   return parseWith(analyticsFiltersSchema, req.query, 'filter query');
 }
 
+/** Filters finer than a cell, refused for researchers and read tokens (400, naming each field). */
+const FINER_THAN_A_CELL = ['from', 'to', 'event'] as const;
+
 /**
- * Filters of a federation-wide aggregate view, for the caller: researchers and read tokens may
- * not narrow by event (events are not listed for them), and no one but a lead sees aggregates
- * of fewer than MIN_ATHLETES_FOR_AGGREGATES athletes.
+ * Researchers and read tokens filter by whole seasons and quarters, assessment kind and
+ * category only: a day-level window or an event would cut a cell (quarter × kind × category)
+ * and let two views be subtracted down to one athlete. Their figures start from the data
+ * without the cells of fewer than k athletes.
  */
-function aggregateFiltersOf(ctx: AppContext, req: Request): AnalyticsFilters {
+function researchFiltersOf(ctx: AppContext, access: FederationAccess, filters: AnalyticsFilters): ViewFilters {
+  const finer = FINER_THAN_A_CELL.filter((field) => filters[field] !== undefined);
+  if (finer.length > 0) {
+    throw new HttpError(
+      400,
+      'validation_failed',
+      `Researchers filter by whole seasons and quarters, assessment kind and category; ${finer.join(', ')} cannot be used`,
+      finer.map((path) => ({ path, message: path === 'event' ? 'is not a filter for researchers: events are not shown to them' : 'is not a filter for researchers: choose a season or a quarter' })),
+    );
+  }
+  return { ...filters, minCellAthletes: federationK(ctx.sqlite, access.federation.id) };
+}
+
+/**
+ * Filters of a federation-wide aggregate view, for the caller: researchers and read tokens get
+ * whole cells only (researchFiltersOf), and no one but a lead sees aggregates of fewer than
+ * MIN_ATHLETES_FOR_AGGREGATES athletes.
+ */
+function aggregateFiltersOf(ctx: AppContext, req: Request): ViewFilters {
   const access = accessOf(req);
   const filters = filtersOf(req);
   if (access.role === 'lead') return filters;
-  if (filters.event && access.role !== 'classifier') throw forbidden('Researchers cannot narrow the figures to one event');
-  const athletes = athletesInFilter(ctx, federationData(ctx, federationOf(access)), access.federation.id, filters);
+  const view = isResearchView(access) ? researchFiltersOf(ctx, access, filters) : filters;
+  const athletes = athletesInFilter(ctx, federationData(ctx, federationOf(access)), access.federation.id, view);
   if (athletes > 0 && athletes < MIN_ATHLETES_FOR_AGGREGATES) {
     throw new HttpError(422, 'validation_failed', `These filters leave ${athletes} athletes; figures are shown for groups of at least ${MIN_ATHLETES_FOR_AGGREGATES}. Widen the filters.`);
   }
-  return filters;
+  return view;
 }
 
 function federationOf(access: FederationAccess) {
@@ -76,9 +106,14 @@ export function analyticsRouter(ctx: AppContext): Router {
 
   router.get(`${base}/filters`, everyone, (req, res) => {
     const access = accessOf(req);
-    const options = filterOptions(federationData(ctx, federationOf(access)));
-    // Researchers and read tokens get no event list (decision record 0006).
-    res.json(access.role === 'lead' || access.role === 'classifier' ? options : { ...options, events: [] });
+    const data = federationData(ctx, federationOf(access));
+    if (!isResearchView(access)) {
+      res.json(filterOptions(data));
+      return;
+    }
+    // Researchers and read tokens: no event list, and seasons of the data they may see (decision records 0006, 0007).
+    const options = filterOptions(data, researchBaseSet(ctx, data, access.federation.id, federationK(ctx.sqlite, access.federation.id)));
+    res.json({ ...options, events: [] });
   });
 
   router.get(`${base}/overview`, everyone, async (req, res) => {

@@ -42,7 +42,14 @@ export const exportsRouteDocs: RouteDoc[] = [
     tags,
     security: session,
     body: { schema: exportRequestSchema },
-    responses: { 201: { description: 'The export and its counts', schema: exportViewSchema }, ...invalid, 409: error('The export would reveal a group smaller than k') },
+    responses: {
+      201: { description: 'The export and its counts', schema: exportViewSchema },
+      ...invalid,
+      403: error('Researchers choose events by season and level; API tokens make no exports'),
+      409: error('The study is closed'),
+      422: error('The scope holds fewer than k athletes, or differs from an earlier export by fewer than k athletes'),
+      429: error('The researcher’s export quota (per day or space kept) is reached: the message says when the next is possible'),
+    },
   },
   {
     method: 'get',
@@ -68,7 +75,7 @@ export const exportsRouteDocs: RouteDoc[] = [
     tags,
     security: session,
     body: { schema: createStudySchema },
-    responses: { 201: { description: 'The study', schema: studyViewSchema }, ...invalid },
+    responses: { 201: { description: 'The study', schema: studyViewSchema }, ...invalid, 409: error('A study of that name exists') },
   },
   {
     method: 'post',
@@ -83,7 +90,7 @@ export const exportsRouteDocs: RouteDoc[] = [
   {
     method: 'get',
     path: `${base}/:exportId/:file`,
-    summary: 'Download one file of an export: csv, json or dictionary (its maker; for seven days)',
+    summary: 'Download one file of an export: csv, json or dictionary, streamed (gzip to a client that accepts it; its maker; for seven days)',
     tags,
     security: session,
     params: { exportId: 'The export’s id', file: 'csv, json or dictionary' },

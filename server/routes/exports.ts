@@ -1,3 +1,6 @@
+import fs from 'node:fs';
+import { pipeline } from 'node:stream/promises';
+import zlib from 'node:zlib';
 import { Router } from 'express';
 import { z } from 'zod';
 import { createStudySchema, exportFileSchema, exportRequestSchema, exportSettingsSchema } from '../../shared/schemas/exports';
@@ -22,12 +25,12 @@ export function exportsRouter(ctx: AppContext): Router {
   });
 
   router.get('/federations/:federation/exports', exporters, async (req, res) => {
-    res.json(await listMyExports(ctx.db, accessOf(req)));
+    res.json(await listMyExports(ctx, accessOf(req)));
   });
 
   router.post('/federations/:federation/exports', exporters, async (req, res) => {
     const body = parseWith(exportRequestSchema, req.body, 'export request');
-    res.status(201).json(await createExport(ctx.db, accessOf(req), body));
+    res.status(201).json(await createExport(ctx, accessOf(req), body));
   });
 
   router.get('/federations/:federation/exports/settings', leads, async (req, res) => {
@@ -36,7 +39,7 @@ export function exportsRouter(ctx: AppContext): Router {
 
   router.put('/federations/:federation/exports/settings', leads, async (req, res) => {
     const body = parseWith(exportSettingsSchema, req.body, 'export settings');
-    res.json(await updateSettings(ctx.db, accessOf(req), body.minAthletes));
+    res.json(await updateSettings(ctx.db, accessOf(req), body));
   });
 
   router.post('/federations/:federation/exports/studies', leads, async (req, res) => {
@@ -52,13 +55,18 @@ export function exportsRouter(ctx: AppContext): Router {
   router.get('/federations/:federation/exports/:exportId/:file', exporters, async (req, res) => {
     const exportId = parseWith(idParam, req.params.exportId, 'export id');
     const file = parseWith(exportFileSchema, req.params.file, 'file');
-    const found = await exportFile(ctx.db, accessOf(req), exportId, file);
+    const found = await exportFile(ctx, accessOf(req), exportId, file);
+    // Streamed from the gzip-compressed file: as it is to a client that accepts gzip, else unpacked on the way.
+    const gzip = req.acceptsEncodings('gzip', 'identity') === 'gzip';
     res
       .status(200)
       .type(found.mediaType)
       .set('content-disposition', `attachment; filename="${found.fileName}"`)
       .set('cache-control', 'private, no-store')
-      .send(found.content);
+      .set('vary', 'Accept-Encoding');
+    if (gzip) res.set('content-encoding', 'gzip').set('content-length', String(found.gzipBytes));
+    const source = fs.createReadStream(found.gzipPath);
+    await pipeline(gzip ? [source, res] : [source, zlib.createGunzip(), res]);
   });
 
   return router;

@@ -7,7 +7,9 @@
  * per AppContext (a process may hold several apps, e.g. in tests).
  */
 import {
+  ASSESSMENT_KINDS,
   buildRatingSet,
+  dayToQuarter,
   filterRatingSet,
   seasonLabel,
   seasonRange,
@@ -22,6 +24,7 @@ import { HttpError } from '../http/errors';
 import { dataVersion } from './data-version';
 import { DEFAULT_MIN_SHARED, type AnalyticsFilters, type FilterOptions } from '../../shared/schemas/analytics';
 import { ASSESSMENT_KIND_LABELS, type AssessmentKind } from '../../shared/schemas/common';
+import { cellKey, smallCells } from './research-cells';
 
 /** Event code used for assessments recorded without an event. */
 export const NO_EVENT = '(no event)';
@@ -149,9 +152,51 @@ export function federationData(ctx: AppContext, federation: { id: number; scaleM
   });
 }
 
+/**
+ * Filters as the server applies them: the request's filters and, for researchers and read
+ * tokens, the k below which whole cells (quarter × kind × category) are removed before anything
+ * else (server/services/research-cells.ts). The extra field travels inside the filters object
+ * through the services to `filteredSet` and `filterKey`, so every cached figure is keyed on it.
+ */
+export type ViewFilters = AnalyticsFilters & { minCellAthletes?: number };
+
 /** The filters in a canonical text form (for cache keys). */
-export function filterKey(filters: AnalyticsFilters): string {
-  return JSON.stringify([filters.season ?? '', filters.from ?? '', filters.to ?? '', filters.event ?? '', filters.category ?? '', filters.kind ?? '']);
+export function filterKey(filters: ViewFilters): string {
+  return JSON.stringify([
+    filters.season ?? '',
+    filters.quarter ?? '',
+    filters.from ?? '',
+    filters.to ?? '',
+    filters.event ?? '',
+    filters.category ?? '',
+    filters.kind ?? '',
+    filters.minCellAthletes ?? 0,
+  ]);
+}
+
+/** First and last day (ISO) of a calendar quarter written 2024-Q3. */
+export function quarterRange(quarter: string): { from: string; to: string } {
+  const year = Number(quarter.slice(0, 4));
+  const q = Number(quarter.slice(-1));
+  const from = `${year}-${String(q * 3 - 2).padStart(2, '0')}-01`;
+  const to = new Date(Date.UTC(year, q * 3, 0)).toISOString().slice(0, 10);
+  return { from, to };
+}
+
+/**
+ * The federation's set without the assessments of cells held by fewer than k athletes: what a
+ * researcher's every figure starts from (cached per data version and k).
+ */
+export function researchBaseSet(ctx: AppContext, data: FederationData, federationId: number, k: number): RatingSet {
+  return cached(ctx, federationId, `research-base|${k}`, () => {
+    const set = data.set;
+    const cellOf = (a: number) => cellKey(dayToQuarter(set.day[a]!), ASSESSMENT_KINDS[set.kind[a]!]!, data.athleteCategory[set.athlete[a]!]!);
+    const small = smallCells(
+      Array.from({ length: set.assessmentCount }, (_, a) => ({ cell: cellOf(a), athlete: set.athlete[a]! })),
+      k,
+    );
+    return small.size === 0 ? set : subsetRatingSet(set, (a) => !small.has(cellOf(a)));
+  });
 }
 
 /** The minimum shared assessments of a pair to be shown with a value. */
@@ -160,13 +205,13 @@ export function minSharedOf(filters: AnalyticsFilters): number {
 }
 
 /** The federation's ratings narrowed by the filters (cached per data version and filter set). */
-export function filteredSet(ctx: AppContext, data: FederationData, federationId: number, filters: AnalyticsFilters): RatingSet {
+export function filteredSet(ctx: AppContext, data: FederationData, federationId: number, filters: ViewFilters): RatingSet {
   return cached(ctx, federationId, `set|${filterKey(filters)}`, () => {
     const f: AssessmentFilter = {};
     let from = filters.from;
     let to = filters.to;
-    if (filters.season) {
-      const range = seasonRange(Number(filters.season));
+    for (const range of [filters.season ? seasonRange(Number(filters.season)) : null, filters.quarter ? quarterRange(filters.quarter) : null]) {
+      if (!range) continue;
       from = from && from > range.from ? from : range.from;
       to = to && to < range.to ? to : range.to;
     }
@@ -174,7 +219,8 @@ export function filteredSet(ctx: AppContext, data: FederationData, federationId:
     if (to) f.to = to;
     if (filters.event) f.eventCodes = [filters.event];
     if (filters.kind) f.kinds = [filters.kind];
-    let set = filterRatingSet(data.set, f);
+    const base = filters.minCellAthletes ? researchBaseSet(ctx, data, federationId, filters.minCellAthletes) : data.set;
+    let set = filterRatingSet(base, f);
     if (filters.category) {
       const wanted = filters.category;
       set = subsetRatingSet(set, (a, s) => data.athleteCategory[s.athlete[a]!] === wanted);
@@ -184,10 +230,10 @@ export function filteredSet(ctx: AppContext, data: FederationData, federationId:
 }
 
 /** What the filter bar offers: seasons with data, events, categories and kinds. */
-export function filterOptions(data: FederationData): FilterOptions {
+export function filterOptions(data: FederationData, set: RatingSet = data.set): FilterOptions {
   const years = new Set<number>();
-  for (let a = 0; a < data.set.assessmentCount; a++) {
-    const y = isoDateToSeasonYear(new Date(data.set.day[a]! * 86_400_000).toISOString().slice(0, 10));
+  for (let a = 0; a < set.assessmentCount; a++) {
+    const y = isoDateToSeasonYear(new Date(set.day[a]! * 86_400_000).toISOString().slice(0, 10));
     if (y !== null) years.add(y);
   }
   return {
@@ -216,7 +262,7 @@ export function requireClassifier(data: FederationData, code: string): { id: num
 export const MIN_ATHLETES_FOR_AGGREGATES = 10;
 
 /** Athletes in the filtered set (cached with it). */
-export function athletesInFilter(ctx: AppContext, data: FederationData, federationId: number, filters: AnalyticsFilters): number {
+export function athletesInFilter(ctx: AppContext, data: FederationData, federationId: number, filters: ViewFilters): number {
   return cached(ctx, federationId, `athletes|${filterKey(filters)}`, () => {
     const set = filteredSet(ctx, data, federationId, filters);
     return new Set(set.athlete).size;

@@ -27,6 +27,14 @@ export const analyticsFiltersSchema = z
       .regex(/^(19|20)\d{2}$/, { message: 'Season must be a starting year such as 2024' })
       .optional()
       .or(z.literal('').transform(() => undefined)),
+    /** Calendar quarter, written 2024-Q3 (July to September 2024). */
+    quarter: z
+      .string()
+      .trim()
+      .regex(/^(19|20)\d{2}-Q[1-4]$/, { message: 'Quarter must be written like 2024-Q3' })
+      .optional()
+      .or(z.literal('').transform(() => undefined)),
+    /** Dates and events: leads and classifiers only (researchers and read tokens are refused, 400). */
     from: isoDateSchema.optional().or(z.literal('').transform(() => undefined)),
     to: isoDateSchema.optional().or(z.literal('').transform(() => undefined)),
     /** Event code. */
@@ -44,7 +52,7 @@ export const analyticsFiltersSchema = z
   })
   .refine((f) => !f.from || !f.to || f.from <= f.to, { message: 'The start date must not be after the end date', path: ['from'] });
 export type AnalyticsFilters = z.infer<typeof analyticsFiltersSchema>;
-export const ANALYTICS_FILTER_KEYS = ['season', 'from', 'to', 'event', 'category', 'kind', 'minShared'] as const;
+export const ANALYTICS_FILTER_KEYS = ['season', 'quarter', 'from', 'to', 'event', 'category', 'kind', 'minShared'] as const;
 
 /** Filters as query-string pairs (absent ones left out), in a fixed order. */
 export function filtersToSearch(filters: AnalyticsFilters): string {

@@ -93,6 +93,8 @@ export const exportViewSchema = z.object({
   study: z.object({ id: z.number(), name: z.string() }).nullable(),
   minAthletes: z.number(),
   counts: exportCountsSchema,
+  /** Bytes of the gzip-compressed files kept on the server (0 once expired): what counts towards the quota. */
+  storedBytes: z.number(),
   /** API paths of the files (below /api), while they can be downloaded. */
   files: z.record(z.string(), z.string()),
 });
@@ -121,10 +123,28 @@ export type ExportOptions = z.infer<typeof exportOptionsSchema>;
 
 export const exportSettingsSchema = z.object({
   minAthletes: z.number().int().min(2, { message: 'k must be at least 2' }).max(100, { message: 'k must be at most 100' }),
+  /** Each researcher's quota: exports in any 24 hours … */
+  maxExportsPerDay: z
+    .number({ message: 'Enter a whole number' })
+    .int({ message: 'Enter a whole number' })
+    .min(1, { message: 'At least 1 export a day' })
+    .max(1000, { message: 'At most 1,000 exports a day' })
+    .optional(),
+  /** … and megabytes of compressed files kept at once. */
+  maxStoredMegabytes: z
+    .number({ message: 'Enter a whole number' })
+    .int({ message: 'Enter a whole number' })
+    .min(1, { message: 'At least 1 MB' })
+    .max(100_000, { message: 'At most 100,000 MB' })
+    .optional(),
 });
 export type ExportSettings = z.infer<typeof exportSettingsSchema>;
 
-export const exportSettingsViewSchema = exportSettingsSchema.extend({ studies: z.array(studyViewSchema) });
+export const exportSettingsViewSchema = exportSettingsSchema.extend({
+  maxExportsPerDay: z.number(),
+  maxStoredMegabytes: z.number(),
+  studies: z.array(studyViewSchema),
+});
 export type ExportSettingsView = z.infer<typeof exportSettingsViewSchema>;
 
 export const createStudySchema = z.object({

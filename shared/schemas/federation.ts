@@ -9,6 +9,7 @@ export const federationSummarySchema = z.object({
     assessments: z.number(),
     ratings: z.number(),
   }),
+  /** ISO date for leads and classifiers; month (YYYY-MM) for researchers and read tokens. */
   firstAssessment: z.string().nullable(),
   lastAssessment: z.string().nullable(),
 });

@@ -250,17 +250,24 @@ describe('agreement dashboards API', () => {
     for (const path of ['/classifiers', '/classifiers/C12', '/me', '/pairs', '/pairs/C01/C02', '/drift/raters', '/flags', '/flag-settings']) {
       expect((await researcher.get(base + path)).status).toBe(403);
     }
-    // No event list and no event filter for researchers; no aggregate of fewer than 10 athletes for anyone but a lead.
+    // No event list and no event filter for researchers (400, naming the field); no aggregate of fewer than 10 athletes for anyone but a lead.
     expect((await researcher.get(`${base}/filters`)).body.events).toEqual([]);
-    expect((await researcher.get(`${base}/overview?event=S2324-CUP`)).status).toBe(403);
+    const byEvent = await researcher.get(`${base}/overview?event=S2324-CUP`);
+    expect(byEvent.status).toBe(400);
+    expect(byEvent.body.error.details[0].path).toBe('event');
     const protests = filterRatingSet(set, { kinds: ['protest'], from: '2024-07-01', to: '2025-06-30' });
     const athletes = new Set(protests.athlete).size;
     expect(athletes).toBeLessThan(10);
-    const small = await researcher.get(`${base}/boundaries?kind=protest&season=2024`);
+    const small = await classifier.get(`${base}/boundaries?kind=protest&season=2024`);
     expect(small.status).toBe(422);
     expect(small.body.error.message).toContain(`leave ${athletes} athletes`);
     expect((await classifier.get(`${base}/drift/classes?kind=protest&season=2024`)).status).toBe(422);
     expect((await lead.get(`${base}/drift/classes?kind=protest&season=2024`)).status).toBe(200);
+    // For researchers the protests' cells (fewer than k = 5 athletes each) are left out before anything: nothing to show
+    // (tests/api/differencing.test.ts).
+    const researcherProtests = await researcher.get(`${base}/drift/classes?kind=protest&season=2024`);
+    expect(researcherProtests.status).toBe(200);
+    expect(researcherProtests.body.transitions.n).toBe(0);
     const mine = await classifier.get(`${base}/me?kind=protest&season=2024`);
     expect(mine.body.distribution.quadraticKappa).toEqual([]);
   });

@@ -5,6 +5,9 @@
  * database for the same scope, small-cell suppression, studies, re-download and expiry, audit,
  * and the role × route entries of tests/api/access/exports.ts.
  */
+import fs from 'node:fs';
+import path from 'node:path';
+import zlib from 'node:zlib';
 import Papa from 'papaparse';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -13,6 +16,7 @@ import { hashPassword } from '../../server/auth/password';
 import { DEMO_PASSWORD } from '../../server/demo/seed';
 import { parseSportClass, DEFAULT_SCALE } from '../../shared/scale';
 import type { ExportRequest, ExportView } from '../../shared/schemas/exports';
+import { removeExpiredExports, exportsDirectory } from '../../server/exports/storage';
 import { entries } from './access/exports';
 import type { Caller } from './access/types';
 import { createTestApp, signedInAgent, type TestApp } from '../helpers/test-app';
@@ -87,8 +91,15 @@ function engineRows(rows: Record<string, Value>[]): RatingRow[] {
   });
 }
 
-/** The same scope read straight from the tables (not through the export service). */
-function databaseRows(t: TestApp, scope: ExportRequest['scope']): RatingRow[] {
+/** Calendar quarter of an ISO date, written 2024-Q3 (written out here, not taken from the server). */
+const quarterOf = (d: string) => `${d.slice(0, 4)}-Q${Math.ceil(Number(d.slice(5, 7)) / 3)}`;
+
+/**
+ * The same scope read straight from the tables (not through the export service), without the
+ * assessments of cells (quarter × kind × category, over the whole federation) held by fewer than
+ * k athletes: docs/decisions/0007-research-export.md.
+ */
+function databaseRows(t: TestApp, scope: ExportRequest['scope'], k = 5): RatingRow[] {
   const rows = t.ctx.sqlite
     .prepare(
       `select a.external_id, ath.code as athlete, e.code as event, a.assessed_on, c.code as classifier, r.sport_class, a.panel_class, a.kind, ath.category, e.level
@@ -97,12 +108,19 @@ function databaseRows(t: TestApp, scope: ExportRequest['scope']): RatingRow[] {
         where f.slug = 'kestrel-coast' order by a.id, r.id`,
     )
     .all() as { external_id: string; athlete: string; event: string; assessed_on: string; classifier: string; sport_class: number; panel_class: number | null; kind: 'first' | 'review' | 'protest'; category: string; level: string }[];
+  const cellOf = (r: (typeof rows)[number]) => `${quarterOf(r.assessed_on)}|${r.kind}|${r.category}`;
+  const cells = new Map<string, Set<string>>();
+  for (const r of rows) {
+    if (!cells.has(cellOf(r))) cells.set(cellOf(r), new Set());
+    cells.get(cellOf(r))!.add(r.athlete);
+  }
   const season = (d: string) => {
     const y = Number(d.slice(0, 4));
     const s = Number(d.slice(5, 7)) >= 7 ? y : y - 1;
     return `${s}-${String(s + 1).slice(2)}`;
   };
   return rows
+    .filter((r) => cells.get(cellOf(r))!.size >= k)
     .filter((r) => scope.seasons.includes(season(r.assessed_on)) && scope.kinds.includes(r.kind) && scope.categories.includes(r.category) && scope.eventLevels.includes(r.level))
     .map((r) => ({
       assessmentId: r.external_id,
@@ -142,6 +160,15 @@ function expectClose(actual: unknown, expected: unknown, path = ''): void {
     const keys = new Set([...Object.keys(expected as object), ...Object.keys((actual ?? {}) as object)]);
     for (const key of keys) expectClose((actual as Record<string, unknown>)[key], (expected as Record<string, unknown>)[key], `${path}.${key}`);
   } else expect(actual, path).toEqual(expected);
+}
+
+/** The gzip-compressed files of an export on disk. */
+function filesOf(t: TestApp, exportId: number): string[] {
+  const dir = exportsDirectory(t.ctx);
+  return fs
+    .readdirSync(dir)
+    .filter((name) => name.startsWith(`export-${exportId}-`))
+    .map((name) => path.join(dir, name));
 }
 
 async function download(agent: Agent, view: ExportView, file: 'csv' | 'json' | 'dictionary'): Promise<string> {
@@ -251,26 +278,27 @@ describe('research exports', () => {
     expectClose(statistics(exported), statistics(direct));
   });
 
-  it('suppresses a category held by fewer than k athletes by blanking it, keeps every row, and counts it in the dictionary', async () => {
+  it('leaves out the data of a cell held by fewer than k athletes before anything else, and blanks small combinations of the rest', async () => {
     const small = t.ctx.sqlite.prepare("select a.id from athletes a join federations f on f.id = a.federation_id where f.slug = 'kestrel-coast' and a.category = 'junior' order by a.id limit 3").all() as { id: number }[];
     t.ctx.sqlite.prepare(`update athletes set category = 'masters' where id in (${small.map((s) => s.id).join(',')})`).run();
     try {
       const scope = { ...FULL.scope, categories: ['men', 'women', 'junior', 'masters'] };
-      const view = (await researcher.post(base).send({ ...FULL, scope }).expect(201)).body as ExportView;
-      const dictionary = JSON.parse(await download(researcher, view, 'dictionary')) as Dictionary;
-      const rows = readCsv(await download(researcher, view, 'csv'), dictionary);
+      // The lead exports here: the researcher's earlier exports differ from this one by the three athletes (tests/api/differencing.test.ts).
+      const view = (await lead.post(base).send({ ...FULL, scope }).expect(201)).body as ExportView;
+      const dictionary = JSON.parse(await download(lead, view, 'dictionary')) as Dictionary;
+      const rows = readCsv(await download(lead, view, 'csv'), dictionary);
       const fromDatabase = databaseRows(t, scope);
       const mastersRows = t.ctx.sqlite
         .prepare(`select count(*) as n from ratings r join assessments a on a.id = r.assessment_id where a.athlete_id in (${small.map((s) => s.id).join(',')})`)
         .get() as { n: number };
       expect(mastersRows.n).toBeGreaterThan(0);
-      expect(rows.length).toBe(fromDatabase.length); // no row dropped
+      // Every cell of the three 'masters' athletes holds fewer than k = 5 athletes: their data is left out, not blanked.
+      expect(rows.length).toBe(fromDatabase.length);
+      expect(fromDatabase.length).toBeLessThan(databaseRows(t, scope, 1).length - mastersRows.n + 1);
       expect(rows.some((r) => r.category === 'masters')).toBe(false);
-      expect(rows.filter((r) => r.category === null).length).toBe(mastersRows.n);
       expect(dictionary.suppression.k).toBe(5);
-      expect(dictionary.suppression.counts.categoryAthletes).toBe(3);
-      expect(dictionary.suppression.counts.categoryRows).toBe(mastersRows.n);
-      expect(view.counts.suppressed.categoryAthletes).toBe(3);
+      expect(dictionary.suppression.counts.categoryAthletes).toBe(0);
+      expect(view.counts.athletes).toBe(new Set(fromDatabase.map((r) => r.athleteCode)).size);
 
       // Every combination still written is held by at least k athletes; blanked ones are counted.
       const cells = new Map<string, Set<Value>>();
@@ -349,12 +377,16 @@ describe('research exports', () => {
     expect(JSON.parse(audit[0]!.detail)).toMatchObject({ scope: FULL.scope, rows: view.counts.rows });
     expect(audit.filter((a) => a.action === 'export.download').length).toBe(3);
 
+    const files = filesOf(t, view.id);
+    expect(files.length).toBe(3);
     t.ctx.sqlite.prepare("update research_exports set expires_at = '2000-01-01T00:00:00.000Z' where id = ?").run(view.id);
     const gone = await researcher.get(`/api${view.files.json}`).expect(410);
     expect(gone.body).toEqual({ error: { code: 'gone', message: expect.stringMatching(/7 days/) } });
-    const stored = t.ctx.sqlite.prepare('select csv, json, dictionary, counts from research_exports where id = ?').get(view.id) as Record<string, string | null>;
-    expect([stored.csv, stored.json, stored.dictionary]).toEqual([null, null, null]);
+    const stored = t.ctx.sqlite.prepare('select storage_key, stored_bytes, removed_at, counts from research_exports where id = ?').get(view.id) as Record<string, string | null>;
+    expect([stored.storage_key, stored.stored_bytes]).toEqual([null, 0]);
+    expect(stored.removed_at).not.toBeNull();
     expect(JSON.parse(stored.counts!).rows).toBe(view.counts.rows);
+    for (const file of files) expect(fs.existsSync(file)).toBe(false);
     const listed = ((await researcher.get(base).expect(200)).body as ExportView[]).find((e) => e.id === view.id)!;
     expect(listed.expired).toBe(true);
     expect(listed.files).toEqual({});
@@ -387,6 +419,106 @@ describe('research exports', () => {
       await lead.put(`${base}/settings`).send({ minAthletes: 5 }).expect(200);
     }
     await classifier.post(base).send(FULL).expect(403);
+  });
+
+  it('keeps each export as three gzip-compressed files beside the database, and streams them back unchanged', async () => {
+    const view = (await researcher.post(base).send({ ...FULL, scope: { ...FULL.scope, seasons: ['2024-25'] } }).expect(201)).body as ExportView;
+    const files = filesOf(t, view.id);
+    expect(files.map((f) => path.basename(f).replace(/-[0-9a-f]{24}-/, '-KEY-')).sort()).toEqual(
+      [`export-${view.id}-KEY-csv.gz`, `export-${view.id}-KEY-dictionary.gz`, `export-${view.id}-KEY-json.gz`],
+    );
+    // Nothing of the files is left in the database.
+    const columns = (t.ctx.sqlite.prepare('pragma table_info(research_exports)').all() as { name: string }[]).map((c) => c.name);
+    expect(columns).not.toContain('csv');
+    const onDisk = files.reduce((sum, f) => sum + fs.statSync(f).size, 0);
+    expect(view.storedBytes).toBe(onDisk);
+    for (const file of ['csv', 'json', 'dictionary'] as const) {
+      const gzipped = fs.readFileSync(files.find((f) => f.endsWith(`-${file}.gz`))!);
+      const text = zlib.gunzipSync(gzipped).toString('utf8');
+      // Downloaded (supertest asks for gzip and unpacks it) equals the file unpacked.
+      expect(await download(researcher, view, file)).toBe(text);
+      if (file !== 'dictionary') expect(gzipped.length).toBeLessThan(text.length / 4);
+    }
+    const gz = await researcher.get(`/api${view.files.csv}`).set('accept-encoding', 'gzip').expect(200);
+    expect(gz.headers['content-encoding']).toBe('gzip');
+    const plain = await researcher
+      .get(`/api${view.files.csv}`)
+      .set('accept-encoding', 'identity')
+      .buffer(true)
+      .parse((res, cb) => {
+        const chunks: Buffer[] = [];
+        res.on('data', (c: Buffer) => chunks.push(c));
+        res.on('end', () => cb(null, Buffer.concat(chunks)));
+      })
+      .expect(200);
+    expect(plain.headers['content-encoding']).toBeUndefined();
+    expect((plain.body as Buffer).toString('utf8')).toBe(zlib.gunzipSync(fs.readFileSync(files.find((f) => f.endsWith('-csv.gz'))!)).toString('utf8'));
+  });
+
+  it('removes the files of expired exports in the scheduled job, keeping the rows; and left-over files of an interrupted build', async () => {
+    const view = (await researcher.post(base).send({ ...FULL, scope: { ...FULL.scope, seasons: ['2023-24', '2024-25'] } }).expect(201)).body as ExportView;
+    const files = filesOf(t, view.id);
+    expect(files.length).toBe(3);
+    const orphan = path.join(exportsDirectory(t.ctx), `export-999999-${'ab'.repeat(12)}-csv.gz`);
+    fs.writeFileSync(orphan, zlib.gzipSync('left over'));
+    // Before expiry: nothing to remove (the left-over file is younger than an hour).
+    const early = await removeExpiredExports(t.ctx, new Date());
+    expect(early.orphanFiles).toBe(0);
+    for (const f of files) expect(fs.existsSync(f)).toBe(true);
+    // At expiry.
+    const removed = await removeExpiredExports(t.ctx, new Date(Date.parse(view.expiresAt)));
+    expect(removed.exports).toBeGreaterThanOrEqual(1);
+    expect(removed.orphanFiles).toBe(1);
+    for (const f of [...files, orphan]) expect(fs.existsSync(f)).toBe(false);
+    const row = t.ctx.sqlite.prepare('select storage_key, stored_bytes, removed_at, counts from research_exports where id = ?').get(view.id) as Record<string, string | number | null>;
+    expect(row.storage_key).toBeNull();
+    expect(row.stored_bytes).toBe(0);
+    expect(row.removed_at).toBe(view.expiresAt);
+    expect(JSON.parse(String(row.counts)).rows).toBe(view.counts.rows);
+    await researcher.get(`/api${view.files.csv}`).expect(410);
+    // Every export made earlier in this file expired at the same time or before: their files are gone too.
+    const left = t.ctx.sqlite.prepare('select count(*) as n from research_exports where storage_key is not null and expires_at <= ?').get(view.expiresAt) as { n: number };
+    expect(left.n).toBe(0);
+  });
+
+  it('holds each researcher to the lead’s quota: exports a day and megabytes kept, with a clear message', async () => {
+    const settings = (await lead.get(`${base}/settings`).expect(200)).body as { maxExportsPerDay: number; maxStoredMegabytes: number };
+    expect(settings).toMatchObject({ maxExportsPerDay: 20, maxStoredMegabytes: 1000 });
+    await lead.put(`${base}/settings`).send({ minAthletes: 5, maxExportsPerDay: 0 }).expect(400);
+    const userId = (t.ctx.sqlite.prepare("select id from users where email = 'researcher@demo.panelwise.test'").get() as { id: number }).id;
+    const narrow: ExportRequest = { ...FULL, scope: { ...FULL.scope, seasons: ['2022-23'] } };
+    try {
+      // Megabytes kept.
+      await lead.put(`${base}/settings`).send({ minAthletes: 5, maxExportsPerDay: 1000, maxStoredMegabytes: 1 }).expect(200);
+      const one = (await researcher.post(base).send(narrow).expect(201)).body as ExportView;
+      expect(one.storedBytes).toBeGreaterThan(0);
+      const rowsBefore = (t.ctx.sqlite.prepare('select count(*) as n from research_exports').get() as { n: number }).n;
+      const dirBefore = fs.readdirSync(exportsDirectory(t.ctx)).sort();
+      // Nearly at the limit: the new export's files are built, found too large, and removed again.
+      t.ctx.sqlite.prepare('update research_exports set stored_bytes = ? where id = ?').run(1024 * 1024 - 10, one.id);
+      const tooLarge = await researcher.post(base).send(narrow).expect(429);
+      expect(tooLarge.body.error.code).toBe('rate_limited');
+      expect(tooLarge.body.error.message).toMatch(/^This export takes [\d.]+ MB compressed; with the 1\.0 MB your exports already take, it would pass the 1 MB your federation's lead allows/);
+      expect(fs.readdirSync(exportsDirectory(t.ctx)).sort()).toEqual(dirBefore);
+      expect((t.ctx.sqlite.prepare('select count(*) as n from research_exports').get() as { n: number }).n).toBe(rowsBefore);
+      // At the limit: refused before anything is built.
+      t.ctx.sqlite.prepare('update research_exports set stored_bytes = ? where id = ?').run(2 * 1024 * 1024, one.id);
+      const full = await researcher.post(base).send(narrow).expect(429);
+      expect(full.body.error.message).toMatch(/^Your exports take 2\.0 MB of the 1 MB your federation's lead allows a researcher to keep\. Files are removed 7 days after/);
+      t.ctx.sqlite.prepare('update research_exports set stored_bytes = ? where id = ?').run(one.storedBytes, one.id);
+
+      // Exports in 24 hours.
+      const madeToday = (t.ctx.sqlite.prepare('select count(*) as n from research_exports where user_id = ? and created_at > ?').get(userId, new Date(Date.now() - 86_400_000).toISOString()) as { n: number }).n;
+      expect(madeToday).toBeGreaterThan(3);
+      await lead.put(`${base}/settings`).send({ minAthletes: 5, maxExportsPerDay: madeToday, maxStoredMegabytes: 1000 }).expect(200);
+      const perDay = await researcher.post(base).send(narrow).expect(429);
+      expect(perDay.body.error.code).toBe('rate_limited');
+      expect(perDay.body.error.message).toMatch(new RegExp(`^You have made ${madeToday} exports in the last 24 hours, .*\\(${madeToday} a day\\)\\. The next one is possible from \\d{2}:\\d{2} UTC`));
+      // Leads are not held to the researchers' quota.
+      await lead.post(base).send(narrow).expect(201);
+    } finally {
+      await lead.put(`${base}/settings`).send({ minAthletes: 5, maxExportsPerDay: 20, maxStoredMegabytes: 1000 }).expect(200);
+    }
   });
 
   it('answers every caller of every route as tests/api/access/exports.ts says (session callers)', async () => {

@@ -1,3 +1,7 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import zlib from 'node:zlib';
 import { describe, expect, it } from 'vitest';
 import { openDatabase } from '../../server/db/connection';
 import { migrateDownToNothing, migrateToLatest, migratorFor } from '../../server/db/migrate';
@@ -50,5 +54,33 @@ describe('migrations', () => {
     await db.destroy();
     const fs = await import('node:fs');
     for (const suffix of ['', '-wal', '-shm']) fs.rmSync(file + suffix, { force: true });
+  });
+
+  it('moves stored research export files out of the database into gzip files beside it, and back on the way down', async () => {
+    const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'panelwise-migrate-'));
+    try {
+      const { db, sqlite } = openDatabase(path.join(dir, 'panelwise.db'));
+      const migrator = migratorFor(db);
+      expect((await migrator.migrateTo('2026_12_02_0040_research_exports')).error).toBeUndefined();
+      sqlite.prepare("insert into federations (slug, name) values ('invented', 'Invented Federation')").run();
+      const insert = sqlite.prepare("insert into research_exports (federation_id, request, min_athletes, csv, json, dictionary, expires_at) values (1, '{}', 5, ?, ?, ?, '2099-01-01T00:00:00.000Z')");
+      insert.run('assessment,classifier\r\nasm-b,clf-c\r\n', '{"rows":[]}', '{"format":"d"}');
+      insert.run(null, null, null);
+      expect((await migrator.migrateTo('2026_12_04_0140_research_export_files')).error).toBeUndefined();
+      const rows = sqlite.prepare('select id, storage_key, stored_bytes, removed_at from research_exports order by id').all() as { id: number; storage_key: string | null; stored_bytes: number; removed_at: string | null }[];
+      expect(rows[0]!.storage_key).toMatch(/^[0-9a-f]{24}$/);
+      expect(rows[0]!.removed_at).toBeNull();
+      expect(rows[1]!.storage_key).toBeNull();
+      expect(rows[1]!.removed_at).not.toBeNull();
+      const csv = path.join(dir, 'exports', `export-1-${rows[0]!.storage_key}-csv.gz`);
+      expect(zlib.gunzipSync(fs.readFileSync(csv)).toString('utf8')).toBe('assessment,classifier\r\nasm-b,clf-c\r\n');
+      const onDisk = fs.readdirSync(path.join(dir, 'exports')).reduce((sum, f) => sum + fs.statSync(path.join(dir, 'exports', f)).size, 0);
+      expect(rows[0]!.stored_bytes).toBe(onDisk);
+      expect((await migrator.migrateTo('2026_12_02_0040_research_exports')).error).toBeUndefined();
+      expect(sqlite.prepare('select csv from research_exports where id = 1').get()).toEqual({ csv: 'assessment,classifier\r\nasm-b,clf-c\r\n' });
+      await db.destroy();
+    } finally {
+      fs.rmSync(dir, { recursive: true, force: true });
+    }
   });
 });

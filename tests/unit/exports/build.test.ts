@@ -1,6 +1,6 @@
 import Papa from 'papaparse';
 import { describe, expect, it } from 'vitest';
-import { buildExport, seasonOf, type SourceRating } from '../../../server/exports/build';
+import { renderExport, seasonOf, type SourceRating } from '../../../server/exports/build';
 import { suppressSmallCells, type SuppressibleAssessment } from '../../../server/exports/suppression';
 import { DEFAULT_SCALE } from '../../../shared/scale';
 import type { ExportRequest } from '../../../shared/schemas/exports';
@@ -39,7 +39,7 @@ function ratingsFor(categories: string[], eventLevel = 'national'): SourceRating
 }
 
 const build = (ratings: SourceRating[], k = 5) =>
-  buildExport({ federation: { name: 'Invented Federation', scale: DEFAULT_SCALE }, exportId: 1, exportedAt: '2026-12-02T10:00:00Z', request, k, key, salt: 's', study: null, ratings });
+  renderExport({ federation: { name: 'Invented Federation', scale: DEFAULT_SCALE }, exportId: 1, exportedAt: '2026-12-02T10:00:00Z', request, k, key, salt: 's', study: null, ratings });
 
 describe('research export files', () => {
   it('neutralise CSV cells that begin with =, +, -, @, a tab or a carriage return; the JSON keeps the text', () => {
@@ -67,7 +67,7 @@ describe('research export files', () => {
 
   it('writes day offsets from each athlete’s first assessment in the export', () => {
     const ratings = ratingsFor(['men']).map((r, i) => ({ ...r, assessmentKey: `KE-x${i}`, athleteKey: 'A1', assessedOn: i < 4 ? '2024-10-08' : '2024-12-03' }));
-    const built = buildExport({ federation: { name: 'F', scale: DEFAULT_SCALE }, exportId: 2, exportedAt: '2026-12-02T00:00:00Z', request: { ...request, fields: ['date'], dateMode: 'offset' }, k: 1 + 1, key, salt: 's', study: null, ratings });
+    const built = renderExport({ federation: { name: 'F', scale: DEFAULT_SCALE }, exportId: 2, exportedAt: '2026-12-02T00:00:00Z', request: { ...request, fields: ['date'], dateMode: 'offset' }, k: 1 + 1, key, salt: 's', study: null, ratings });
     const rows = Papa.parse<Record<string, string>>(built.csv, { header: true, skipEmptyLines: true }).data;
     expect(new Set(rows.map((r) => r.day_offset))).toEqual(new Set(['0', '56']));
   });

@@ -1,18 +1,28 @@
 import { useId } from 'react';
 import { ASSESSMENT_KIND_LABELS } from '../../../../shared/schemas/common';
 import { DEFAULT_MIN_SHARED } from '../../../../shared/schemas/analytics';
+import { useFederation } from '../../../app/use-federation';
 import { useFilterOptions } from '../api/get-filter-options';
 import type { AnalyticsFiltersState } from './use-analytics-filters';
 
+/** The calendar quarters of a season starting in July of `year`: Q3 and Q4 of the year, Q1 and Q2 of the next. */
+function quartersOfSeason(year: number): string[] {
+  return [`${year}-Q3`, `${year}-Q4`, `${year + 1}-Q1`, `${year + 1}-Q2`];
+}
+
 /**
- * The filters of every dashboard view: season or date range, event, competition category,
- * assessment kind and, where pairs are shown, the minimum shared assessments. Changes go to the
- * URL at once.
+ * The filters of every dashboard view: season, quarter or (not for researchers) date range,
+ * event (leads and classifiers), competition category, assessment kind and, where pairs are
+ * shown, the minimum shared assessments. Researchers filter by whole seasons and quarters only:
+ * the server refuses dates and events from them (docs/decisions/0007-research-export.md).
+ * Changes go to the URL at once.
  */
 export function FilterBar({ federation, state, showMinShared = false }: { federation: string; state: AnalyticsFiltersState; showMinShared?: boolean }) {
   const options = useFilterOptions(federation);
+  const research = useFederation()?.role === 'researcher';
   const id = useId();
   const { filters, set, clear, problems } = state;
+  const quarters = (options.data?.seasons ?? []).filter((s) => !filters.season || String(s.year) === filters.season).flatMap((s) => quartersOfSeason(s.year));
   const events = (options.data?.events ?? []).filter((e) => {
     if (!filters.season) return true;
     const season = options.data?.seasons.find((s) => String(s.year) === filters.season);
@@ -22,10 +32,10 @@ export function FilterBar({ federation, state, showMinShared = false }: { federa
 
   return (
     <section aria-label="Filters" className="card py-4">
-      <form className="grid grid-cols-2 gap-3 sm:grid-cols-3 lg:grid-cols-7" onSubmit={(e) => e.preventDefault()}>
+      <form className="grid grid-cols-2 gap-3 sm:grid-cols-3 lg:grid-cols-8" onSubmit={(e) => e.preventDefault()}>
         <div className="field">
           <label htmlFor={`${id}-season`}>Season</label>
-          <select id={`${id}-season`} className="input" value={filters.season ?? ''} onChange={(e) => set({ season: e.target.value, event: undefined })}>
+          <select id={`${id}-season`} className="input" value={filters.season ?? ''} onChange={(e) => set({ season: e.target.value, event: undefined, quarter: undefined })}>
             <option value="">All seasons</option>
             {options.data?.seasons.map((s) => (
               <option key={s.year} value={String(s.year)}>
@@ -35,13 +45,28 @@ export function FilterBar({ federation, state, showMinShared = false }: { federa
           </select>
         </div>
         <div className="field">
-          <label htmlFor={`${id}-from`}>From</label>
-          <input id={`${id}-from`} className="input" type="date" value={filters.from ?? ''} onChange={(e) => set({ from: e.target.value })} />
+          <label htmlFor={`${id}-quarter`}>Quarter</label>
+          <select id={`${id}-quarter`} className="input" value={filters.quarter ?? ''} onChange={(e) => set({ quarter: e.target.value })}>
+            <option value="">All quarters</option>
+            {quarters.map((q) => (
+              <option key={q} value={q}>
+                {q}
+              </option>
+            ))}
+          </select>
         </div>
-        <div className="field">
-          <label htmlFor={`${id}-to`}>To</label>
-          <input id={`${id}-to`} className="input" type="date" value={filters.to ?? ''} onChange={(e) => set({ to: e.target.value })} />
-        </div>
+        {research ? null : (
+          <>
+            <div className="field">
+              <label htmlFor={`${id}-from`}>From</label>
+              <input id={`${id}-from`} className="input" type="date" value={filters.from ?? ''} onChange={(e) => set({ from: e.target.value })} />
+            </div>
+            <div className="field">
+              <label htmlFor={`${id}-to`}>To</label>
+              <input id={`${id}-to`} className="input" type="date" value={filters.to ?? ''} onChange={(e) => set({ to: e.target.value })} />
+            </div>
+          </>
+        )}
         {options.data && options.data.events.length > 0 ? (
         <div className="field">
           <label htmlFor={`${id}-event`}>Event</label>
@@ -104,7 +129,11 @@ export function FilterBar({ federation, state, showMinShared = false }: { federa
             Clear filters
           </button>
         ) : (
-          <span className="text-muted">Showing all of the federation’s assessments.</span>
+          <span className="text-muted">
+            {research
+              ? 'Showing the federation’s assessments without the groups (quarter, kind and category) of too few athletes to be shown.'
+              : 'Showing all of the federation’s assessments.'}
+          </span>
         )}
       </div>
     </section>

@@ -19,35 +19,52 @@ function ServerError({ error }: { error: unknown }) {
   );
 }
 
+type SettingsField = 'minAthletes' | 'maxExportsPerDay' | 'maxStoredMegabytes';
+
+const SETTINGS_FIELDS: { name: SettingsField; label: string; short: string; min: number; max: number }[] = [
+  { name: 'minAthletes', label: 'Fewest athletes a cell (quarter × kind × category), an exported category or a combination may describe', short: 'k', min: 2, max: 100 },
+  { name: 'maxExportsPerDay', label: 'Exports each researcher may make in any 24 hours', short: 'Exports a day', min: 1, max: 1000 },
+  { name: 'maxStoredMegabytes', label: 'Megabytes of compressed files each researcher may keep at once', short: 'Megabytes kept', min: 1, max: 100000 },
+];
+
 function KForm({ federation, initial }: { federation: string; initial: ExportSettingsView }) {
   const id = useId();
   const save = useSaveExportSettings(federation);
-  const form = useForm<ExportSettings>({ resolver: zodResolver(exportSettingsSchema), defaultValues: { minAthletes: initial.minAthletes } });
-  const error = form.formState.errors.minAthletes;
+  const valuesOf = (v: ExportSettingsView): ExportSettings => ({ minAthletes: v.minAthletes, maxExportsPerDay: v.maxExportsPerDay, maxStoredMegabytes: v.maxStoredMegabytes });
+  const form = useForm<ExportSettings>({ resolver: zodResolver(exportSettingsSchema), defaultValues: valuesOf(initial) });
   return (
-    <form noValidate className="space-y-3" aria-labelledby={`${id}-title`} onSubmit={form.handleSubmit((values) => save.mutate(values, { onSuccess: (saved) => form.reset({ minAthletes: saved.minAthletes }) }))}>
-      <h3 id={`${id}-title`}>Smallest cell (k)</h3>
-      <div className="field">
-        <label htmlFor={`${id}-k`}>Fewest athletes an exported category or combination may describe</label>
-        <input
-          id={`${id}-k`}
-          type="number"
-          min={2}
-          max={100}
-          className="input w-32"
-          aria-invalid={error ? 'true' : undefined}
-          aria-describedby={error ? `${id}-k-error` : undefined}
-          {...form.register('minAthletes', { valueAsNumber: true })}
-        />
-        {error ? (
-          <span id={`${id}-k-error`} className="field-error" role="alert">
-            k: {error.message}
-          </span>
-        ) : null}
-      </div>
+    <form noValidate className="space-y-3" aria-labelledby={`${id}-title`} onSubmit={form.handleSubmit((values) => save.mutate(values, { onSuccess: (saved) => form.reset(valuesOf(saved)) }))}>
+      <h3 id={`${id}-title`}>Smallest cell (k) and each researcher’s quota</h3>
+      <p className="text-sm text-muted">
+        Researchers’ dashboards and every export leave out the cells held by fewer than k athletes, and an export that differs from an earlier one by fewer
+        than k athletes is refused.
+      </p>
+      {SETTINGS_FIELDS.map((f) => {
+        const error = form.formState.errors[f.name];
+        return (
+          <div className="field" key={f.name}>
+            <label htmlFor={`${id}-${f.name}`}>{f.label}</label>
+            <input
+              id={`${id}-${f.name}`}
+              type="number"
+              min={f.min}
+              max={f.max}
+              className="input w-32"
+              aria-invalid={error ? 'true' : undefined}
+              aria-describedby={error ? `${id}-${f.name}-error` : undefined}
+              {...form.register(f.name, { valueAsNumber: true })}
+            />
+            {error ? (
+              <span id={`${id}-${f.name}-error`} className="field-error" role="alert">
+                {f.short}: {error.message}
+              </span>
+            ) : null}
+          </div>
+        );
+      })}
       <ServerError error={save.error} />
       <button type="submit" className="btn btn-primary" disabled={save.isPending}>
-        {save.isPending ? 'Saving…' : 'Save k'}
+        {save.isPending ? 'Saving…' : 'Save settings'}
       </button>
       {save.isSuccess && !form.formState.isDirty ? <span className="ml-3 text-sm text-ok" role="status">Saved.</span> : null}
     </form>
@@ -84,14 +101,14 @@ function StudyForm({ federation }: { federation: string }) {
   );
 }
 
-/** Lead-only: k and the studies that allow a stable key. */
+/** Lead-only: k, the researchers' quota and the studies that allow a stable key. */
 export function ExportSettingsPanel({ federation }: { federation: string }) {
   const settings = useExportSettings(federation);
   const close = useCloseStudy(federation);
   return (
     <section className="card space-y-6" aria-labelledby="export-settings-title">
       <h2 id="export-settings-title">Export settings (leads only)</h2>
-      {settings.isPending ? <Loading /> : settings.error ? <ErrorNotice error={settings.error} /> : <KForm key={settings.data.minAthletes} federation={federation} initial={settings.data} />}
+      {settings.isPending ? <Loading /> : settings.error ? <ErrorNotice error={settings.error} /> : <KForm key={`${settings.data.minAthletes}-${settings.data.maxExportsPerDay}-${settings.data.maxStoredMegabytes}`} federation={federation} initial={settings.data} />}
       <StudyForm federation={federation} />
       {settings.data && settings.data.studies.length > 0 ? (
         <div className="space-y-2">

@@ -14,6 +14,7 @@ const COLUMNS: DataTableColumn<Row>[] = [
   { key: 'scopeText', header: 'Scope' },
   { key: 'studyName', header: 'Study' },
   { key: 'rows', header: 'Rows', align: 'right', cell: (r) => r.rows.toLocaleString('en') },
+  { key: 'storedBytes', header: 'Kept (compressed)', align: 'right', cell: (r) => (r.expired ? '—' : `${(r.storedBytes / 1024 / 1024).toFixed(1)} MB`) },
   { key: 'expiresAt', header: 'Available until', cell: (r) => (r.expired ? 'Expired' : when(r.expiresAt)) },
   { key: 'files', header: 'Download', sortable: false, cell: (r) => <ExportFiles view={r} /> },
 ];
@@ -32,7 +33,10 @@ export function MyExports({ federation }: { federation: string }) {
   return (
     <section className="space-y-3" aria-labelledby="my-exports-title">
       <h2 id="my-exports-title">My exports</h2>
-      <p className="text-sm text-muted">Each export can be downloaded again, by you only, for seven days after it was built.</p>
+      <p className="text-sm text-muted">
+        Each export can be downloaded again, by you only, for seven days after it was built; its files then leave the server. The lead sets how many exports a
+        researcher may make a day and how many megabytes of files they may keep.
+      </p>
       <DataTable caption="My exports" rows={rows} columns={COLUMNS} rowKey={(r) => String(r.id)} emptyText="You have not built an export yet." initialSort={[{ id: 'id', desc: true }]} pageSize={10} />
     </section>
   );
