@@ -9,6 +9,7 @@ import { migrateToLatest } from './db/migrate';
 import { isEmpty, seedDemo } from './demo/seed';
 import { createLogger } from './logger';
 import { startMailer } from './mail/mailer';
+import { createExerciseScheduler } from './services/exercise-scheduler';
 
 /**
  * Starts Panelwise: builds the client when it is missing (with --build-if-missing), applies
@@ -34,6 +35,9 @@ async function main() {
   const mailer = await startMailer({ config, db, logger });
   const ctx: AppContext = { db, sqlite, config, logger, mailer };
   const app = createApp(ctx);
+  // Closes exercises past their close date and sends the reminders due (each run awaited).
+  const exerciseScheduler = createExerciseScheduler(ctx);
+  exerciseScheduler.start();
   const server = app.listen(config.port, (error?: Error) => {
     // Express 5 hands a listen error (such as a port in use) to this callback instead of throwing.
     if (error) {
@@ -45,7 +49,9 @@ async function main() {
 
   const stop = () => {
     server.close(() => {
-      void mailer.close().finally(() => db.destroy().then(() => process.exit(0)));
+      void exerciseScheduler
+        .stop()
+        .then(() => mailer.close()).finally(() => db.destroy().then(() => process.exit(0)));
     });
     setTimeout(() => process.exit(0), 3000).unref();
   };

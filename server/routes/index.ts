@@ -2,6 +2,7 @@ import { Router } from 'express';
 import type { AppContext } from '../context';
 import { accessLinksRouter } from './access-links';
 import { analyticsRouter } from './analytics';
+import { exercisesRouter } from './exercises';
 import { exportsRouter } from './exports';
 import { federationsRouter } from './federations';
 import { healthRouter } from './health';
@@ -25,6 +26,7 @@ export function apiRouter(ctx: AppContext): Router {
   router.use(federationsRouter(ctx));
   router.use(exportsRouter(ctx));
   router.use(analyticsRouter(ctx));
+  router.use(exercisesRouter(ctx));
   router.use(importsRouter(ctx));
   router.use(openApiRouter(ctx));
   return router;
