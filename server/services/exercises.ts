@@ -126,7 +126,7 @@ export async function listExercises(ctx: AppContext, access: FederationAccess): 
     .select(['e.id', 'e.federation_id', 'e.title', 'e.status', 'e.opens_on', 'e.closes_on', 'e.source_kind', 'e.source_ref', 'e.opened_at', 'e.closed_at'])
     .where('e.federation_id', '=', access.federation.id);
   if (access.role !== 'lead') {
-    if (access.classifierId === null) return { exercises: [] };
+    if (access.classifierId === null) return { exercises: [], scale: { min: access.federation.scaleMin, max: access.federation.scaleMax } };
     q = q
       .innerJoin('exercise_assignments as x', 'x.exercise_id', 'e.id')
       .where('x.classifier_id', '=', access.classifierId)
@@ -143,7 +143,7 @@ export async function listExercises(ctx: AppContext, access: FederationAccess): 
     }
     out.push(summaryOf(row, c.get(row.id)!, mine));
   }
-  return { exercises: out };
+  return { exercises: out, scale: { min: access.federation.scaleMin, max: access.federation.scaleMax } };
 }
 
 interface CaseRow {
@@ -340,6 +340,7 @@ export async function exerciseDetail(ctx: AppContext, access: FederationAccess, 
     : [];
   return {
     ...summaryOf(row, c, mine),
+    scale: { min: access.federation.scaleMin, max: access.federation.scaleMax },
     source: row.source_kind && row.source_ref ? { kind: row.source_kind, ref: row.source_ref } : null,
     openedAt: row.opened_at,
     closedAt: row.closed_at,

@@ -105,7 +105,10 @@ export const exerciseSummarySchema = z.object({
 });
 export type ExerciseSummary = z.infer<typeof exerciseSummarySchema>;
 
-export const exerciseListSchema = z.object({ exercises: z.array(exerciseSummarySchema) });
+/** The federation's class scale in half points (the classes a case or an answer may take). */
+export const scaleSchema = z.object({ min: z.number(), max: z.number() });
+
+export const exerciseListSchema = z.object({ exercises: z.array(exerciseSummarySchema), scale: scaleSchema });
 export type ExerciseList = z.infer<typeof exerciseListSchema>;
 
 export const exerciseCaseViewSchema = z.object({
@@ -210,6 +213,7 @@ export const exerciseResultsSchema = z.object({
 export type ExerciseResults = z.infer<typeof exerciseResultsSchema>;
 
 export const exerciseDetailSchema = exerciseSummarySchema.extend({
+  scale: scaleSchema,
   source: exerciseSourceSchema.nullable(),
   openedAt: z.string().nullable(),
   closedAt: z.string().nullable(),

@@ -1,7 +1,6 @@
 import type { AccessEntry } from './types';
 
 const none = { anonymous: 401, lead: 403, classifier: 403, researcher: 403, outsider: 403, readToken: 403, importToken: 403 };
-const leadOnly = { ...none, lead: 200 };
 const leadOrClassifier = { ...none, lead: 200, classifier: 200 };
 const base = '/api/federations/:federation/exercises';
 
