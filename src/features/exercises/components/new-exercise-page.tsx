@@ -74,7 +74,7 @@ export function NewExercisePage() {
       cases: cases.map((c) => ({ description: c.description, videoUrl: c.videoUrl.trim() === '' ? null : c.videoUrl.trim(), skills: c.skills, referenceClass: c.referenceClass })),
       source: source === null ? null : 'flag' in source ? { kind: 'flag', ref: String(source.flag) } : { kind: 'boundary', ref: String(source.boundary) },
     };
-    create.mutate(input, { onSuccess: (detail) => void navigate(`../exercises/${detail.id}`, { relative: 'path' }) });
+    create.mutate(input, { onSuccess: (detail) => void navigate(`../${detail.id}`, { relative: 'path' }) });
   };
 
   const activeFlags = (flags.data?.flags ?? []).filter((f) => f.status !== 'closed');
