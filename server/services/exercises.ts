@@ -663,6 +663,14 @@ export async function closeDueExercises(ctx: AppContext, now: Date): Promise<{ c
 export async function closeFlagWithExercise(ctx: AppContext, federation: Federation, id: number, flagId: number, userId: number | null, note: string) {
   const row = await exerciseRow(ctx, federation.id, id);
   if (row.status !== 'closed') throw new HttpError(409, 'conflict', 'Link a flag to an exercise once the exercise has closed and its results are known');
+  const assigned = await ctx.db
+    .selectFrom('calibration_flags as f')
+    .innerJoin('exercise_assignments as x', (j) => j.onRef('x.classifier_id', '=', 'f.classifier_id').on('x.exercise_id', '=', id))
+    .select('f.id')
+    .where('f.id', '=', flagId)
+    .where('f.federation_id', '=', federation.id)
+    .executeTakeFirst();
+  if (!assigned) throw notFound('A flag of a classifier assigned to this exercise');
   const flag = await updateFlag(ctx, federation.id, flagId, userId, { status: 'closed', note: `${note} (calibration exercise #${id}: ${row.title})` });
   await ctx.db
     .insertInto('exercise_flag_links')

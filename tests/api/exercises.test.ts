@@ -223,3 +223,24 @@ describe('calibration exercises', () => {
     await signedInAgent(t.app, 'researcher@demo.panelwise.test').then((r) => r.get(base).expect(403));
   });
 });
+
+describe('the exercises scheduler', () => {
+  it('repeats its pass while started, and after stop() (which waits for a run in progress) runs no more', async () => {
+    let calls = 0;
+    const scheduler = createExerciseScheduler(t.ctx, {
+      intervalMs: 5,
+      clock: () => {
+        calls++;
+        return new Date(Date.parse('2020-01-01T00:00:00Z'));
+      },
+    });
+    scheduler.start();
+    const deadline = Date.now() + 15_000;
+    while (calls < 3 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 20));
+    await scheduler.stop();
+    const after = calls;
+    await new Promise((r) => setTimeout(r, 100));
+    expect(after).toBeGreaterThanOrEqual(3);
+    expect(calls, 'no run after stop()').toBe(after);
+  });
+});

@@ -1,5 +1,5 @@
 import AxeBuilder from '@axe-core/playwright';
-import { expect, test, type Browser, type Page } from '@playwright/test';
+import { expect as baseExpect, test, type Browser, type Page } from '@playwright/test';
 
 /**
  * A calibration exercise end to end in the browser: the lead starts one from the demo
@@ -7,6 +7,8 @@ import { expect, test, type Browser, type Page } from '@playwright/test';
  * both blind (no reference class on the page); the lead closes it and sees the scores and the
  * before/after chart. Pages are saved at 1366 px and 390 px wide in test-results/e2e/screens/.
  */
+// Two shared cores: pages may take a while to load under other work.
+const expect = baseExpect.configure({ timeout: 20_000 });
 const WIDE = { width: 1366, height: 900 };
 const NARROW = { width: 390, height: 844 };
 
@@ -46,7 +48,7 @@ async function check(page: Page, name: string) {
 }
 
 test('a lead creates an exercise from a flag, the classifier completes it blind, the lead closes it and sees scores and the before/after chart', async ({ browser }) => {
-  test.setTimeout(180_000);
+  test.setTimeout(600_000);
   const lead = await signIn(browser, 'lead');
   await lead.getByRole('link', { name: 'Exercises' }).first().click();
   await expect(lead.getByRole('heading', { name: 'Calibration exercises' })).toBeVisible();
@@ -114,6 +116,10 @@ test('a lead creates an exercise from a flag, the classifier completes it blind,
   await expect(chart.locator('svg').first()).toBeVisible();
   await expect(lead.getByText('No live-panel rating since the exercise closed yet', { exact: false })).toBeVisible();
   await check(lead, 'exercises-lead-results');
+  await lead.setViewportSize(NARROW);
+  await chart.scrollIntoViewIfNeeded();
+  await chart.screenshot({ path: 'test-results/e2e/screens/exercises-lead-chart-390.png' });
+  await lead.setViewportSize(WIDE);
 
   // The classifier now sees the reference classes and their own scores.
   await classifier.reload();
