@@ -210,7 +210,7 @@ function AnswerForm({ federation, exerciseId, theCase: c, saved, scale }: { fede
       </div>
       <fieldset>
         <legend className="text-sm font-semibold">Skills that decided it</legend>
-        <div className="grid gap-1 sm:grid-cols-2 lg:grid-cols-4">
+        <div className="grid grid-cols-2 gap-1 lg:grid-cols-4">
           {SKILLS.map((s) => (
             <label key={s} className="flex min-h-9 items-center gap-2 text-sm">
               <input type="checkbox" checked={skills.includes(s)} onChange={(ev) => setSkills((all) => (ev.target.checked ? SKILLS.filter((x) => x === s || all.includes(x)) : all.filter((x) => x !== s)))} />

@@ -211,7 +211,7 @@ export function NewExercisePage() {
               </div>
               <fieldset>
                 <legend className="text-sm font-semibold">Skills to watch</legend>
-                <div className="grid gap-1 sm:grid-cols-2 lg:grid-cols-4">
+                <div className="grid grid-cols-2 gap-1 lg:grid-cols-4">
                   {SKILLS.map((s) => (
                     <label key={s} className="flex min-h-9 items-center gap-2 text-sm">
                       <input
