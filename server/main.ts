@@ -10,6 +10,7 @@ import { isEmpty, seedDemo } from './demo/seed';
 import { createLogger } from './logger';
 import { startMailer } from './mail/mailer';
 import { scheduleExportCleanup } from './exports/storage';
+import { createExerciseScheduler } from './services/exercise-scheduler';
 
 /**
  * Starts Panelwise: builds the client when it is missing (with --build-if-missing), applies
@@ -37,6 +38,9 @@ async function main() {
   // Removes the files of expired research exports now and every hour.
   const exportCleanup = scheduleExportCleanup(ctx);
   const app = createApp(ctx);
+  // Closes exercises past their close date and sends the reminders due (each run awaited).
+  const exerciseScheduler = createExerciseScheduler(ctx);
+  exerciseScheduler.start();
   const server = app.listen(config.port, (error?: Error) => {
     // Express 5 hands a listen error (such as a port in use) to this callback instead of throwing.
     if (error) {
@@ -48,8 +52,7 @@ async function main() {
 
   const stop = () => {
     server.close(() => {
-      void exportCleanup
-        .stop()
+      void Promise.all([exportCleanup.stop(), exerciseScheduler.stop()])
         .then(() => mailer.close())
         .finally(() => db.destroy().then(() => process.exit(0)));
     });

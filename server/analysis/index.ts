@@ -58,3 +58,7 @@ export { SEASON_START_MONTH, classDistributionBySeason, dayToSeasonYear, isoDate
 export type { SeasonDistribution } from './seasons';
 export { classifierBoundarySplits } from './classifier-boundaries';
 export type { ClassifierBoundarySplit } from './classifier-boundaries';
+export { caseSpreads, raterScores } from './exercise-scores';
+export type { CaseSpreadResult, RaterScore, ScoredAnswer, ScoredCase, SideSkills } from './exercise-scores';
+export { panelBeforeAfter } from './panel-before-after';
+export type { BeforeAfterResult, PanelWindowFigures, QuarterFigure } from './panel-before-after';

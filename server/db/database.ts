@@ -285,6 +285,64 @@ export interface OutboxMessageTable {
   received_at: CreatedAt;
 }
 
+export type ExerciseStatus = 'draft' | 'open' | 'closed';
+
+/** A calibration exercise: practice cases with reference classes, answered blind by the classifiers assigned. */
+export interface ExerciseTable {
+  id: Generated<number>;
+  federation_id: number;
+  title: string;
+  status: ColumnType<ExerciseStatus, ExerciseStatus | undefined, ExerciseStatus>;
+  opens_on: string;
+  closes_on: string;
+  source_kind: 'flag' | 'boundary' | null;
+  source_ref: string | null;
+  created_by: number | null;
+  created_at: CreatedAt;
+  opened_at: string | null;
+  closed_at: string | null;
+}
+
+export interface ExerciseCaseTable {
+  id: Generated<number>;
+  exercise_id: number;
+  position: number;
+  description: string;
+  video_url: string | null;
+  /** JSON array of skill keys. */
+  skills: ColumnType<string, string | undefined, string>;
+  /** Half points; never sent to a classifier before the close. */
+  reference_class: number;
+}
+
+export interface ExerciseAssignmentTable {
+  exercise_id: number;
+  classifier_id: number;
+  flag_id: number | null;
+  had_open_flag: ColumnType<number, number | undefined, number>;
+  finished_at: string | null;
+  invited_at: string | null;
+  reminded_at: string | null;
+  results_sent_at: string | null;
+}
+
+export interface ExerciseAnswerTable {
+  id: Generated<number>;
+  case_id: number;
+  classifier_id: number;
+  sport_class: number;
+  skills: ColumnType<string, string | undefined, string>;
+  reason: string | null;
+  updated_at: ColumnType<string, string | undefined, string>;
+}
+
+export interface ExerciseFlagLinkTable {
+  flag_id: number;
+  exercise_id: number;
+  linked_by: number | null;
+  linked_at: ColumnType<string, string | undefined, string>;
+}
+
 export interface Database {
   federations: FederationTable;
   users: UserTable;
@@ -309,6 +367,11 @@ export interface Database {
   research_export_assessments: ResearchExportAssessmentTable;
   import_changes: ImportChangeTable;
   import_mappings: ImportMappingTable;
+  exercises: ExerciseTable;
+  exercise_cases: ExerciseCaseTable;
+  exercise_assignments: ExerciseAssignmentTable;
+  exercise_answers: ExerciseAnswerTable;
+  exercise_flag_links: ExerciseFlagLinkTable;
 }
 
 export type Federation = Selectable<FederationTable>;

@@ -1,6 +1,7 @@
 import type { Db } from '../db/connection';
 import type BetterSqlite3 from 'better-sqlite3';
 import { hashPassword } from '../auth/password';
+import { seedDemoExercises } from './exercises';
 import { DEMO_SCENARIO, generateScenario, SECOND_DEMO_SCENARIO, type Scenario } from './generator';
 
 export const DEMO_PASSWORD = 'panelwise-demo';
@@ -82,14 +83,17 @@ export async function seedDemo(db: Db, sqlite: BetterSqlite3.Database): Promise<
   const ownerId = await ensureUser(db, DEMO_OWNER.email, DEMO_OWNER.displayName, passwordHash, true);
   const federationId = writeScenario(sqlite, generateScenario(DEMO_SCENARIO), ownerId);
   const secondId = writeScenario(sqlite, generateScenario(SECOND_DEMO_SCENARIO), ownerId);
+  let leadUserId: number | null = null;
   for (const account of DEMO_ACCOUNTS) {
     const userId = await ensureUser(db, account.email, account.displayName, passwordHash);
     await db.insertInto('memberships').values({ user_id: userId, federation_id: federationId, role: account.role }).execute();
     if (account.role === 'classifier') {
       await db.updateTable('classifiers').set({ user_id: userId }).where('federation_id', '=', federationId).where('code', '=', account.classifierCode).execute();
     }
+    if (account.role === 'lead') leadUserId = userId;
     // The lead also reads the second federation's figures, to show membership of several federations.
     if (account.role === 'lead') await db.insertInto('memberships').values({ user_id: userId, federation_id: secondId, role: 'researcher' }).execute();
   }
+  await seedDemoExercises(db, federationId, leadUserId);
   return { federationId };
 }

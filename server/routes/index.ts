@@ -3,11 +3,13 @@ import type { AppContext } from '../context';
 import { ApiDescription, type RouteDoc } from '../openapi/registry';
 import { accessRouteDocs } from './access.openapi';
 import { analyticsRouteDocs } from './analytics.openapi';
+import { exercisesRouteDocs } from './exercises.openapi';
 import { exportsRouteDocs } from './exports.openapi';
 import { foundationRouteDocs } from './foundation.openapi';
 import { importsRouteDocs } from './imports.openapi';
 import { accessLinksRouter } from './access-links';
 import { analyticsRouter } from './analytics';
+import { exercisesRouter } from './exercises';
 import { exportsRouter } from './exports';
 import { federationsRouter } from './federations';
 import { healthRouter } from './health';
@@ -18,7 +20,7 @@ import { ownerRouter } from './owner';
 import { sessionRouter } from './session';
 
 /** Every route's OpenAPI description, one list per feature (`<feature>.openapi.ts`). */
-export const apiRouteDocs: readonly RouteDoc[] = [...foundationRouteDocs, ...accessRouteDocs, ...exportsRouteDocs, ...analyticsRouteDocs, ...importsRouteDocs];
+export const apiRouteDocs: readonly RouteDoc[] = [...foundationRouteDocs, ...accessRouteDocs, ...exportsRouteDocs, ...analyticsRouteDocs, ...importsRouteDocs, ...exercisesRouteDocs];
 
 /**
  * Every API router, mounted under /api. Add a feature's router here and its descriptions to
@@ -35,6 +37,7 @@ export function apiRouter(ctx: AppContext, description = new ApiDescription(apiR
   router.use(federationsRouter(ctx));
   router.use(exportsRouter(ctx));
   router.use(analyticsRouter(ctx));
+  router.use(exercisesRouter(ctx));
   router.use(importsRouter(ctx));
   router.use(openApiRouter(ctx, description));
   return router;

@@ -19,6 +19,7 @@ export const NAV_ITEMS: NavItem[] = [
   { path: 'boundaries', label: 'Class boundaries', roles: ['lead', 'classifier', 'researcher'] },
   { path: 'drift', label: 'Drift', roles: ['lead', 'classifier', 'researcher'] },
   { path: 'flags', label: 'Calibration flags', roles: ['lead'] },
+  { path: 'exercises', label: 'Exercises', roles: ['lead', 'classifier'] },
   { path: 'members', label: 'Members', roles: ['lead'] },
   { path: 'exports', label: 'Research export', roles: ['lead', 'researcher'] },
   { path: 'imports', label: 'Imports', roles: ['lead'] },

@@ -1,5 +1,6 @@
 import { createBrowserRouter, type RouteObject } from 'react-router';
 import { dashboardRoutes, overviewRoute } from '../features/dashboards/routes';
+import { exerciseRoutes } from '../features/exercises/routes';
 import { memberRoutes, ownerRoute } from '../features/members/routes';
 import { accessLinkRoutes } from '../features/session/routes';
 import { SignInPage } from '../features/session/components/sign-in-page';
@@ -14,6 +15,7 @@ export const federationRoutes: RouteObject[] = [
   overviewRoute,
   ...dashboardRoutes,
   ...memberRoutes,
+  ...exerciseRoutes,
   { path: 'exports', lazy: () => import('../features/exports/components/exports-page').then((m) => ({ Component: m.ExportsPage })) },
   { path: 'imports', lazy: () => import('../features/imports/components/imports-page').then((m) => ({ Component: m.ImportsPage })) },
 ];
