@@ -58,3 +58,17 @@ export { SEASON_START_MONTH, classDistributionBySeason, dayToSeasonYear, isoDate
 export type { SeasonDistribution } from './seasons';
 export { classifierBoundarySplits } from './classifier-boundaries';
 export type { ClassifierBoundarySplit } from './classifier-boundaries';
+export {
+  DRIFT_MIN_SEGMENT,
+  DRIFT_PERMUTATIONS,
+  DRIFT_STOP_AFTER,
+  benjaminiHochberg,
+  changePointStatistic,
+  changePointTest,
+  evaluateCalibration,
+  hashSeed,
+  meanTest,
+} from './calibration-rules';
+export type { AgreementVerdict, BiasVerdict, CalibrationOptions, CalibrationThresholds, ChangePoint, ClassifierCalibration, DriftVerdict } from './calibration-rules';
+export { pointsApart, pointsAtStake, twoRaterCoefficients, twoRaterTable } from './points-at-stake';
+export type { PointsAtStake } from './points-at-stake';
