@@ -92,11 +92,12 @@ test.describe('agreement dashboards', () => {
   });
 
   test('the overview shows same-class agreement and points at stake before any weighted coefficient', async ({ page }) => {
+    test.setTimeout(120_000);
     await signIn(page, 'lead');
     await page.goto('/f/kestrel-coast');
     const unanimous = page.getByTestId('same-class-unanimous');
     const stake = page.getByTestId('points-at-stake');
-    await expect(unanimous).toHaveText(/^\d+ %$/);
+    await expect(unanimous).toHaveText(/^\d+ %$/, { timeout: 60_000 });
     await expect(page.getByTestId('same-class-pairwise')).toHaveText(/^\d+ %$/);
     await expect(stake).toHaveText(/^\d+$/);
     await expect(page.getByTestId('boundary-splits')).toContainText('2.5/3.0');
