@@ -171,7 +171,6 @@ function facetGrid(data: { quarter: string; boundary: string; value: number }[],
   ];
 }
 
-/** The two one-sided CUSUM sums over a classifier's ratings, with the decision interval h. */
 /** A classifier's chronological deviations (dots) and the levels before and after the strongest change (lines). */
 export function LevelChangeChart({
   points,

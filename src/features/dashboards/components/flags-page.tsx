@@ -95,7 +95,7 @@ export function FlagsPage() {
       </section>
       <QueryState query={settings}>{(th) => <FlagSettingsForm federation={federation.slug} initial={th} />}</QueryState>
       <p className="text-sm text-muted">
-        Defaults and the reasoning behind them: docs/dashboards.md. The change detector is the CUSUM of decision record 0002.
+        Defaults, the tests behind the rules and their simulated false-flag rates and power: decision record 0008 (docs/decisions/0008-calibration-flag-rules.md).
       </p>
     </PageFrame>
   );
