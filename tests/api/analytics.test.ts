@@ -26,8 +26,10 @@ import {
   filterRatingSet,
   hashSeed,
   landisKochLabel,
+  pointsApart,
   pointsAtStake,
   subsetRatingSet,
+  twoRaterCoefficients,
   type RatingRow,
   type RatingSet,
 } from '../../server/analysis';
@@ -229,6 +231,13 @@ describe('agreement dashboards API', () => {
     expect(detail.body.confusion.counts).toEqual(confusionBetween(set, 'C02', 'C01').counts);
     const pair = expected.find((p) => p.a === 'C01' && p.b === 'C02')!;
     close(detail.body.stats.quadraticKappa.value, pair.quadraticKappa.value);
+    // The pair's headline: points apart and splits from its confusion matrix, AC1 from the same table.
+    const cm = confusionBetween(set, 'C02', 'C01');
+    const two = twoRaterCoefficients(cm.counts);
+    close(detail.body.stats.ac1.value, two.ac1.value);
+    close(detail.body.stats.kappa.value, two.kappa.value);
+    close(detail.body.stats.pointsApart.meanAbs.value, pointsApart(cm.counts).meanAbs.value);
+    expect(detail.body.stats.splits.map((x: { splitRate: number | null }) => x.splitRate)).toEqual(classifierBoundarySplits(cm).map((x) => x.splitRate));
   });
 
   it('boundaries: split rates and the quarterly trend equal classBoundaries', async () => {
