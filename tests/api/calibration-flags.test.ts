@@ -146,6 +146,14 @@ describe('calibration flags on the demo, and after data or thresholds change', (
     }
     const overview = (await lead.get(`${base}/overview`)).body.openFlags as CalibrationFlag[];
     for (const f of lowered) expect(overview.find((g) => g.id === f.id)?.stillMet).toBe(false);
+    // The leads hear of it by e-mail too (the fake SMTP server keeps messages in outbox_messages).
+    let mail: { subject: string; text_body: string } | undefined;
+    for (let i = 0; i < 100 && !mail; i++) {
+      mail = t.ctx.sqlite.prepare("select subject, text_body from outbox_messages where subject like '%no longer met%' order by id desc").get() as typeof mail;
+      if (!mail) await new Promise((r) => setTimeout(r, 50));
+    }
+    expect(mail?.subject).toMatch(/calibration flags? no longer met in Kestrel Coast/);
+    expect(mail?.text_body).toContain(lowered[0]!.classifierCode);
     expect(restored.filter((f) => f.stillMet).map((f) => f.id).sort()).toEqual([...before].sort());
 
     await lead.put(`${base}/flag-settings`).send({ ...DEFAULT_FLAG_THRESHOLDS, biasMin: 0.05, agreementGap: 0.02 });
