@@ -51,7 +51,7 @@ test.describe('agreement dashboards', () => {
     await expect(page.getByTestId('filtered-assessments')).not.toHaveText('1,933');
     const filtered = await page.getByTestId('filtered-assessments').innerText();
     await page.goto('/f/kestrel-coast?season=2024');
-    await expect(page.getByTestId('filtered-assessments')).toHaveText(filtered);
+    await expect(page.getByTestId('filtered-assessments')).toHaveText(filtered, { timeout: 30_000 });
 
     await page.goto('/f/kestrel-coast/classifiers');
     await expect(page.getByRole('table', { name: 'Classifiers against the panel' })).toBeVisible();
