@@ -62,3 +62,17 @@ export { caseSpreads, raterScores } from './exercise-scores';
 export type { CaseSpreadResult, RaterScore, ScoredAnswer, ScoredCase, SideSkills } from './exercise-scores';
 export { panelBeforeAfter } from './panel-before-after';
 export type { BeforeAfterResult, PanelWindowFigures, QuarterFigure } from './panel-before-after';
+export {
+  DRIFT_MIN_SEGMENT,
+  DRIFT_PERMUTATIONS,
+  DRIFT_STOP_AFTER,
+  benjaminiHochberg,
+  changePointStatistic,
+  changePointTest,
+  evaluateCalibration,
+  hashSeed,
+  meanTest,
+} from './calibration-rules';
+export type { AgreementVerdict, BiasVerdict, CalibrationOptions, CalibrationThresholds, ChangePoint, ClassifierCalibration, DriftVerdict } from './calibration-rules';
+export { pointsApart, pointsAtStake, twoRaterCoefficients, twoRaterTable } from './points-at-stake';
+export type { PointsAtStake } from './points-at-stake';

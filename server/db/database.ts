@@ -166,7 +166,7 @@ export interface CalibrationFlagTable {
   id: Generated<number>;
   federation_id: number;
   classifier_id: number;
-  rule: 'kappa' | 'bias' | 'drift';
+  rule: 'bias' | 'drift' | 'agreement';
   status: ColumnType<'open' | 'acknowledged' | 'closed', 'open' | 'acknowledged' | 'closed' | undefined, 'open' | 'acknowledged' | 'closed'>;
   note: string | null;
   evidence: string;
@@ -176,6 +176,9 @@ export interface CalibrationFlagTable {
   opened_at: ColumnType<string, string | undefined, string>;
   updated_at: ColumnType<string, string | undefined, string>;
   evaluated_at: ColumnType<string, string | undefined, string>;
+  /** When the last evaluation found the condition no longer met, and why (null while met). */
+  lapsed_at: string | null;
+  lapse_reason: string | null;
 }
 
 export interface ResearchExportSettingsTable {

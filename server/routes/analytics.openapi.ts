@@ -45,7 +45,7 @@ route({ method: 'get', path: `${base}/classifiers`, summary: 'Each classifier ag
 route({
   method: 'get',
   path: `${base}/classifiers/:code`,
-  summary: 'One classifier: confusion matrix with the panel, bias by quarter, boundaries, CUSUM, flags (leads; a classifier for their own code only)',
+  summary: 'One classifier: confusion matrix with the panel, bias by quarter, boundaries, the change of level, points at stake, flags (leads; a classifier for their own code only)',
   security: session,
   params: { code: 'Classifier code' },
   query: analyticsFiltersSchema,
@@ -63,7 +63,7 @@ route({
   responses: { 200: { description: 'The pair', schema: pairDetailSchema }, ...invalid, 404: { description: 'No such classifier', schema: apiErrorSchema } },
 }),
 route({ method: 'get', path: `${base}/boundaries`, summary: 'Split rate of each class boundary, overall and by quarter', security: everyone, query: analyticsFiltersSchema, responses: { 200: { description: 'Boundaries', schema: boundariesResponseSchema }, ...invalid } }),
-route({ method: 'get', path: `${base}/drift/raters`, summary: 'Each classifier’s bias by quarter and the CUSUM signals (leads)', security: session, query: analyticsFiltersSchema, responses: { 200: { description: 'Rater drift', schema: raterDriftSchema }, ...invalid } }),
+route({ method: 'get', path: `${base}/drift/raters`, summary: 'Each classifier’s bias by quarter and the drift rule’s change of level (leads)', security: session, query: analyticsFiltersSchema, responses: { 200: { description: 'Rater drift', schema: raterDriftSchema }, ...invalid } }),
 route({
   method: 'get',
   path: `${base}/drift/classes`,

@@ -191,7 +191,7 @@ export function analyticsRouter(ctx: AppContext): Router {
 
   router.post(`${base}/flags/evaluate`, leadOnly, async (req, res) => {
     const access = accessOf(req);
-    res.json(await evaluateFlags(ctx, access.federation.id));
+    res.json(await evaluateFlags(ctx, access.federation.id, { cause: 'an evaluation on demand' }));
   });
 
   router.patch(`${base}/flags/:id`, leadOnly, async (req, res) => {
@@ -211,8 +211,8 @@ export function analyticsRouter(ctx: AppContext): Router {
     const access = accessOf(req);
     const thresholds = parseWith(flagThresholdsSchema, req.body);
     await saveThresholds(ctx, access.federation.id, access.userId, thresholds);
-    // New thresholds apply at once.
-    await evaluateFlags(ctx, access.federation.id);
+    // New thresholds apply at once; flags they no longer meet say so.
+    await evaluateFlags(ctx, access.federation.id, { cause: 'the thresholds were changed' });
     res.json(thresholds);
   });
 

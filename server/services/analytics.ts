@@ -14,20 +14,28 @@ import {
   classPoints,
   classTransitions,
   classifierBoundarySplits,
-  classifierDrift,
+  changePointTest,
+  classifierDeviations,
   classifierPairs,
   classifiersVsPanel,
   compressPatterns,
   confusionBetween,
   confusionWithPanel,
   countTable,
-  dayToQuarter,
+  dayToIsoDate,
   deviationByQuarter,
+  evaluateCalibration,
+  hashSeed,
   isoDateToDay,
   krippendorffAlphaValue,
   landisKochLabel,
   othersMedian,
+  pointsApart,
+  pointsAtStake,
   seriesByQuarter,
+  twoRaterCoefficients,
+  type AgreementReport,
+  type PointsAtStake,
   type RatingSet,
   type StatResult,
 } from '../analysis';
@@ -46,6 +54,8 @@ import type {
   PairsResponse,
   QuarterStat,
   RaterDrift,
+  Coefficient,
+  PointsAtStakeFigures,
   Stat,
 } from '../../shared/schemas/analytics';
 import { cached, federationData, filteredSet, filterKey, minSharedOf, requireClassifier, type FederationData } from './analytics-data';
@@ -102,6 +112,7 @@ export function overviewFigures(ctx: AppContext, federation: FederationRef, filt
       for (let i = 0; i < table.rows; i++) if (table.totals[i]! >= 2) units += table.weights[i]!;
       return { quarter: '', n: units, value, ci95: boot?.ci95 ?? null };
     }).map((p) => ({ ...p.result, quarter: p.quarter }));
+    const lk = (r: StatResult & { ciMethod?: string | null }) => ({ ...stat(r), label: landisKochLabel(r.value), ciMethod: r.ci95 ? (r.ciMethod ?? null) : null });
     return {
       counts: {
         assessments: report.counts.assessments,
@@ -111,21 +122,102 @@ export function overviewFigures(ctx: AppContext, federation: FederationRef, filt
         events: report.counts.events,
         analysable: report.counts.analysable,
       },
-      alpha: {
-        ...stat(alpha),
-        name: "Krippendorff's alpha (ordinal)",
-        label: landisKochLabel(alpha.value),
-        ciMethod: alpha.ciMethod,
-        note: alpha.note,
+      headline: {
+        panelsUnanimous: stat(report.exactAgreement.unanimous),
+        pairwiseSameClass: stat(report.exactAgreement.pairwiseMean),
+        splits: report.boundaries.map((b) => ({ ...stat(b), lower: b.lower, upper: b.upper, splitRate: b.splitRate, splits: b.splits })),
+        pointsAtStake: stakeFigures(pointsAtStake(set).federation),
       },
+      // Alpha has its own published rule (Krippendorff 2004); Landis & Koch's bands are for kappa.
+      alpha: { ...stat(alpha), name: "Krippendorff's alpha (ordinal)", label: null, ciMethod: alpha.ciMethod, note: alpha.note },
       fleissKappa: { ...stat(fk), name: FLEISS_KAPPA_NAME, label: landisKochLabel(fk.value), ciMethod: fk.ciMethod },
+      gwet: { ac1: lk(report.gwet.ac1), ac2Linear: lk(report.gwet.ac2Linear), ac2Quadratic: lk(report.gwet.ac2Quadratic) },
       exact: stat(report.exactAgreement.unanimous),
       withinHalfClass: stat(report.withinHalfClassAgreement.unanimous),
+      coefficients: coefficientsTable(report),
       trend,
       bootstrap: { ...OVERVIEW_BOOTSTRAP },
       sources: { landisKoch: INTERPRETATION_SOURCES.landisKoch, krippendorff: INTERPRETATION_SOURCES.krippendorff },
     };
   });
+}
+
+export function stakeFigures(p: PointsAtStake): PointsAtStakeFigures {
+  return { n: p.n, meanAbs: stat(p.meanAbs), offByHalf: stat(p.offByHalf), per100: p.per100 };
+}
+
+const KRIPPENDORFF_WORDS = { reliable: 'α ≥ .800: rely on the data', tentative: '.667 ≤ α < .800: tentative conclusions only', unreliable: 'α < .667: do not rely on the data' };
+
+/**
+ * Every coefficient the engine computes for the federation, in the order the overview reads
+ * them: observed shares, chance-corrected unweighted coefficients, then the weighted ones with
+ * what they forgive. Interpretations only where the coefficient has its own published one.
+ */
+export function coefficientsTable(report: AgreementReport): Coefficient[] {
+  const boot = report.bootstrap?.results ?? {};
+  const lkSource = INTERPRETATION_SOURCES.landisKoch;
+  const kSource = INTERPRETATION_SOURCES.krippendorff;
+  const row = (
+    id: string,
+    name: string,
+    family: Coefficient['family'],
+    r: StatResult,
+    ciMethod: string | null,
+    measures: string,
+    forgives: string | null,
+    reading: 'landis-koch' | 'krippendorff' | null,
+  ): Coefficient => {
+    let interpretation: Coefficient['interpretation'] = null;
+    if (reading === 'landis-koch' && r.value !== null) interpretation = { label: landisKochLabel(r.value)!, source: lkSource };
+    if (reading === 'krippendorff' && r.value !== null) {
+      const note = (r as { note?: keyof typeof KRIPPENDORFF_WORDS | null }).note;
+      if (note) interpretation = { label: KRIPPENDORFF_WORDS[note], source: kSource };
+    }
+    const out: Coefficient = { id, name, family, value: r.value, ci95: r.ci95, n: r.n, ciMethod: r.ci95 ? ciMethod : null, measures, forgives, interpretation };
+    if (r.reason !== undefined) out.reason = r.reason;
+    return out;
+  };
+  const withBoot = (r: StatResult, key: string, fallback: string | null): [StatResult, string | null] => {
+    const b = boot[key];
+    return b && b.ci95 && r.value !== null ? [{ ...r, ci95: b.ci95 }, 'bootstrap-percentile'] : [r, fallback];
+  };
+  const ex = report.exactAgreement;
+  const wi = report.withinHalfClassAgreement;
+  const a = report.krippendorffAlpha;
+  const g = report.gwet;
+  const out: Coefficient[] = [
+    row('exact.unanimous', 'Panels unanimous (same class)', 'observed', ...withBoot(ex.unanimous, 'exactUnanimous', 'wilson'),
+      'Share of assessments where every member gave the same class.', null, null),
+    row('exact.pairwiseMean', 'Same class, pairwise (mean over assessments)', 'observed', ex.pairwiseMean, 'wald',
+      'Share of pairs of members giving the same class, averaged over assessments (Fleiss’ P̄).', null, null),
+    row('exact.pooledPairs', 'Same class, pooled pairs', 'observed', ex.pooledPairs, null,
+      'Agreeing pairs of members over all pairs, pooled over assessments (larger panels weigh more).', null, null),
+    row('fleissKappa', 'Fleiss’ kappa (unweighted)', 'chance-corrected', report.fleissKappa, report.fleissKappa.ciMethod,
+      'Same-class agreement beyond what the class shares would give by chance.', null, 'landis-koch'),
+    ...Object.entries(report.fleissKappaByClass).map(([cls, r]) =>
+      row(`fleissKappa.${cls}`, `Fleiss’ kappa, class ${cls}`, 'chance-corrected', r, 'wald-null-se',
+        `How well panels agree on whether an athlete is class ${cls}, beyond chance.`, null, 'landis-koch'),
+    ),
+    row('gwet.ac1', 'Gwet’s AC1', 'chance-corrected', g.ac1, g.ac1.ciMethod,
+      'Same-class agreement beyond chance, with a chance term that uneven class shares do not inflate.', null, 'landis-koch'),
+    row('withinHalfClass.unanimous', 'Panels within half a class', 'weighted', ...withBoot(wi.unanimous, 'withinHalfClassUnanimous', 'wilson'),
+      'Share of assessments whose highest and lowest ratings are at most half a class apart.', 'counts a half-class miss as agreement', null),
+    row('withinHalfClass.pairwiseMean', 'Within half a class, pairwise', 'weighted', wi.pairwiseMean, 'wald',
+      'Share of pairs at most half a class apart, averaged over assessments.', 'counts a half-class miss as agreement', null),
+    row('gwet.ac2Linear', 'Gwet’s AC2, linear weights', 'weighted', g.ac2Linear, g.ac2Linear.ciMethod,
+      'AC1 with partial credit falling linearly with the distance between classes.', 'counts a half-class miss as 6/7 of an agreement', 'landis-koch'),
+    row('gwet.ac2Quadratic', 'Gwet’s AC2, quadratic weights', 'weighted', g.ac2Quadratic, g.ac2Quadratic.ciMethod,
+      'AC1 with partial credit falling with the squared distance between classes.', 'counts a half-class miss as near agreement (48/49)', 'landis-koch'),
+    row('alpha.nominal', 'Krippendorff’s alpha, nominal', 'chance-corrected', a.nominal, a.nominal.ciMethod,
+      'Disagreement observed against disagreement expected by chance, any two different classes counting alike.', null, 'krippendorff'),
+    row('alpha.ordinal', 'Krippendorff’s alpha, ordinal', 'weighted', a.ordinal, a.ordinal.ciMethod,
+      'As nominal, but a miss costs by how many ratings lie between the two classes.', 'counts a miss between neighbouring, rarely used classes as small', 'krippendorff'),
+    row('alpha.interval', 'Krippendorff’s alpha, interval', 'weighted', a.interval, a.interval.ciMethod,
+      'As nominal, but a miss costs the squared distance in points.', 'counts a half-class miss as 1/49 of a 1.0-against-4.5 miss', 'krippendorff'),
+    row('alpha.ratio', 'Krippendorff’s alpha, ratio', 'weighted', a.ratio, a.ratio.ciMethod,
+      'As interval, with distances relative to the size of the classes.', 'counts a half-class miss among high classes as smaller still', 'krippendorff'),
+  ];
+  return out;
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -137,6 +229,7 @@ function classifierFigures(ctx: AppContext, federation: FederationRef, filters: 
   const { data, set } = load(ctx, federation, filters);
   return cached(ctx, federation.id, `classifiers|${filterKey(filters)}`, () => {
     const medians = othersMedian(set);
+    const stake = pointsAtStake(set).classifiers;
     return classifiersVsPanel(set, medians).map((c) => ({
       code: c.code,
       name: data.classifiers.get(c.code)?.name ?? null,
@@ -146,6 +239,7 @@ function classifierFigures(ctx: AppContext, federation: FederationRef, filters: 
       withinHalfWithPanel: stat(c.withinHalfWithPanel),
       bias: stat(c.meanDeviation),
       quadraticKappa: stat(c.quadraticKappaWithPanel),
+      pointsAtStake: stakeFigures(stake.get(c.code) ?? pointsApart([])),
       trend: quarterStats(deviationByQuarter(set, c.code)),
     }));
   });
@@ -162,7 +256,50 @@ export async function classifierRows(ctx: AppContext, federation: FederationRef,
 
 function emptyRow(code: string, name: string | null): ClassifierFigures {
   const none: Stat = { value: null, se: null, ci95: null, n: 0, reason: 'no rating in these filters' };
-  return { code, name, n: 0, ratings: 0, exactWithPanel: none, withinHalfWithPanel: none, bias: none, quadraticKappa: none, trend: [] };
+  return {
+    code,
+    name,
+    n: 0,
+    ratings: 0,
+    exactWithPanel: none,
+    withinHalfWithPanel: none,
+    bias: none,
+    quadraticKappa: none,
+    pointsAtStake: stakeFigures(pointsApart([])),
+    trend: [],
+  };
+}
+
+export const DRIFT_METHOD =
+  'Least-squares single change-point statistic on the deviations from the rest of the panel, permutation null (Besag & Clifford 1991 sequential Monte Carlo); decision record 0008';
+
+/** A classifier's deviation series and its strongest change of level under the filters. */
+export function driftSeries(set: RatingSet, code: string): ClassifierDetail['drift'] {
+  const series = classifierDeviations(set, code);
+  const cp = changePointTest(series.deviation, hashSeed(code, 1));
+  const at = (i: number) => dayToIsoDate(series.day[i]!);
+  let change: ClassifierDetail['drift']['change'] = null;
+  if (cp) {
+    const last = series.day[cp.k - 1]!;
+    const first = series.day[cp.k]!;
+    change = {
+      index: cp.k + 1,
+      changeDate: dayToIsoDate(Math.floor((last + first) / 2)),
+      between: [at(cp.k - 1), at(cp.k)],
+      direction: cp.meanAfter > cp.meanBefore ? 'up' : cp.meanAfter < cp.meanBefore ? 'down' : null,
+      sizeBefore: cp.meanBefore,
+      sizeAfter: cp.meanAfter,
+      nBefore: cp.k,
+      nAfter: cp.n - cp.k,
+      p: cp.p,
+    };
+  }
+  return {
+    n: series.deviation.length,
+    method: DRIFT_METHOD,
+    points: Array.from(series.deviation, (deviation, i) => ({ index: i + 1, date: at(i), deviation })),
+    change,
+  };
 }
 
 export async function classifierDetail(
@@ -170,31 +307,29 @@ export async function classifierDetail(
   federation: FederationRef,
   filters: AnalyticsFilters,
   code: string,
-  thresholds: FlagThresholds,
+  _thresholds: FlagThresholds,
 ): Promise<ClassifierDetail> {
   const { data, set } = load(ctx, federation, filters);
   const roster = requireClassifier(data, code);
-  const figures = cached(ctx, federation.id, `classifier|${code}|${thresholds.driftK}|${thresholds.driftH}|${filterKey(filters)}`, () => {
+  const figures = cached(ctx, federation.id, `classifier|${code}|${filterKey(filters)}`, () => {
     const row = classifierFigures(ctx, federation, filters).find((c) => c.code === code) ?? emptyRow(code, roster.name);
     const confusion = confusionWithPanel(set, code);
-    const drift = classifierDrift(set, code, { k: thresholds.driftK, h: thresholds.driftH });
-    const quarterAt = (i: number) => {
-      const day = isoDateToDay(drift.dates[i]!);
-      return day === null ? '' : dayToQuarter(day);
-    };
+    const two = twoRaterCoefficients(confusion.counts);
+    const lk = (r: StatResult, ciMethod: string) => ({ ...stat(r), label: landisKochLabel(r.value), ciMethod: r.ci95 ? ciMethod : null });
     return {
       row,
+      headline: {
+        sameAsFinal: stat(classifiersVsPanel(set).find((c) => c.code === code)?.withFinalClass.exact ?? { value: null, se: null, ci95: null, n: 0, reason: 'no rating in these filters' }),
+        sameAsOthers: row.exactWithPanel,
+        pointsAtStake: row.pointsAtStake,
+        kappa: lk(two.kappa, 'wald'),
+        ac1: lk(two.ac1, 'wald'),
+        quadraticKappa: { ...row.quadraticKappa, label: landisKochLabel(row.quadraticKappa.value), ciMethod: row.quadraticKappa.ci95 ? 'wald' : null },
+      },
       confusion: { ...confusion, rowsAre: code, columnsAre: 'panel final class' },
       biasByQuarter: row.trend,
       boundaries: classifierBoundarySplits(confusion).map((b) => ({ ...stat(b), lower: b.lower, upper: b.upper, splitRate: b.splitRate, touching: b.touching, above: b.above, below: b.below })),
-      drift: {
-        n: drift.n,
-        k: drift.k,
-        h: drift.h,
-        sigma: drift.sigma,
-        points: Array.from({ length: drift.n }, (_, i) => ({ index: i + 1, upper: drift.upper[i]!, lower: drift.lower[i]!, deviation: drift.deviations[i]! })),
-        alarms: drift.alarms.map((a) => ({ index: a.index + 1, direction: a.direction, quarter: quarterAt(a.index) })),
-      },
+      drift: driftSeries(set, code),
     };
   });
   const flags = (await flagsOf(ctx, federation.id, { activeOnly: false })).filter((f) => f.classifierCode === code);
@@ -262,6 +397,7 @@ export function pairDetail(ctx: AppContext, federation: FederationRef, filters: 
   const n = found?.n ?? 0;
   const tooFew = n < minShared;
   const confusion = confusionBetween(set, a, b);
+  const two = twoRaterCoefficients(confusion.counts);
   return {
     a,
     b,
@@ -273,7 +409,18 @@ export function pairDetail(ctx: AppContext, federation: FederationRef, filters: 
         ? {
             exact: stat(found.exact),
             withinHalfClass: stat(found.withinHalfClass),
+            pointsApart: stakeFigures(pointsApart(confusion.counts)),
+            splits: classifierBoundarySplits(confusion).map((s) => ({
+              ...stat(s),
+              lower: s.lower,
+              upper: s.upper,
+              splitRate: s.splitRate,
+              touching: s.touching,
+              above: s.above,
+              below: s.below,
+            })),
             kappa: stat(found.kappa),
+            ac1: stat(two.ac1),
             linearKappa: stat(found.linearKappa),
             quadraticKappa: stat(found.quadraticKappa),
           }
@@ -304,23 +451,24 @@ export function boundaries(ctx: AppContext, federation: FederationRef, filters: 
 
 export function raterDrift(ctx: AppContext, federation: FederationRef, filters: AnalyticsFilters, thresholds: FlagThresholds): RaterDrift {
   const { data, set } = load(ctx, federation, filters);
-  return cached(ctx, federation.id, `rater-drift|${thresholds.driftK}|${thresholds.driftH}|${filterKey(filters)}`, () => {
-    let sigma = 0;
+  return cached(ctx, federation.id, `rater-drift|${thresholds.falseDiscoveryRate}|${thresholds.driftMin}|${filterKey(filters)}`, () => {
+    const verdicts = new Map(evaluateCalibration(set, thresholds).map((v) => [v.code, v.drift]));
     const classifiers = classifiersVsPanel(set).map((c) => {
-      const drift = classifierDrift(set, c.code, { k: thresholds.driftK, h: thresholds.driftH });
-      sigma = drift.sigma;
-      const last = drift.alarms[drift.alarms.length - 1];
-      const lastDay = last ? isoDateToDay(drift.dates[last.index]!) : null;
+      const d = verdicts.get(c.code);
+      const has = d && d.meanBefore !== null && d.meanAfter !== null && d.changeDate !== null && d.lastBefore !== null;
+      const mid = has ? Math.floor((isoDateToDay(d.lastBefore!)! + isoDateToDay(d.changeDate!)!) / 2) : null;
       return {
         code: c.code,
         name: data.classifiers.get(c.code)?.name ?? null,
-        n: drift.n,
+        n: c.n,
         byQuarter: quarterStats(deviationByQuarter(set, c.code)),
-        alarms: drift.alarms.length,
-        lastAlarm: last && lastDay !== null ? { quarter: dayToQuarter(lastDay), direction: last.direction } : null,
+        change:
+          has && mid !== null
+            ? { changeDate: dayToIsoDate(mid), direction: d.direction, size: d.meanAfter! - d.meanBefore!, pAdjusted: d.pAdjusted, met: d.met }
+            : null,
       };
     });
-    return { parameters: { k: thresholds.driftK, h: thresholds.driftH, sigma }, classifiers };
+    return { parameters: { method: DRIFT_METHOD, falseDiscoveryRate: thresholds.falseDiscoveryRate, driftMin: thresholds.driftMin }, classifiers };
   });
 }
 

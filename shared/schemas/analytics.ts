@@ -106,12 +106,13 @@ export type Confusion = z.infer<typeof confusionSchema>;
 // ---------------------------------------------------------------------------------------------
 // Flags
 
-export const flagRuleSchema = z.enum(['kappa', 'bias', 'drift']);
+export const FLAG_RULES = ['bias', 'drift', 'agreement'] as const;
+export const flagRuleSchema = z.enum(FLAG_RULES);
 export type FlagRule = z.infer<typeof flagRuleSchema>;
 export const FLAG_RULE_LABELS: Record<FlagRule, string> = {
-  kappa: 'Low weighted kappa with the panel',
-  bias: 'Leaning away from the panel',
-  drift: 'Drift alarm',
+  bias: 'Persistent lean away from the panel',
+  drift: 'Change in own level (drift)',
+  agreement: 'Same-class agreement below the federation',
 };
 
 /** Our own status names: a flag is open, then acknowledged (being looked at), then closed with a note. */
@@ -120,16 +121,37 @@ export type FlagStatus = z.infer<typeof flagStatusSchema>;
 export const FLAG_STATUS_LABELS: Record<FlagStatus, string> = { open: 'Open', acknowledged: 'Acknowledged', closed: 'Closed' };
 
 export const flagEvidenceSchema = z.object({
-  /** What was measured, in words. */
+  /** What was measured, in words (for leads). */
   summary: z.string(),
+  /** The same in plain words, for the classifier's own page. */
+  plain: z.string().optional(),
+  /** Bias: mean deviation (points); agreement: the classifier's same-class rate; drift: after − before (points). */
   value: z.number().nullable(),
   ci95: intervalSchema.nullable(),
+  /** The lead's minimum size for the rule (points, or a share for agreement). */
   threshold: z.number(),
-  /** Ratings the figure rests on. */
+  /** Ratings the figure rests on, and the first and last of their dates. */
   n: z.number(),
   from: z.string().nullable(),
   to: z.string().nullable(),
   direction: z.enum(['up', 'down']).nullable(),
+  /** The classifier's ratings in panels of two or more at the evaluation (all dates). */
+  total: z.number().optional(),
+  /** The test's p-value and its Benjamini–Hochberg adjustment across the roster. */
+  p: z.number().nullable().optional(),
+  pAdjusted: z.number().nullable().optional(),
+  falseDiscoveryRate: z.number().optional(),
+  /** Drift: estimated start of the change (midway between the last rating before it and the first after). */
+  changeDate: z.string().nullable().optional(),
+  /** Drift: the last rating date before and the first after the estimated change. */
+  changeBetween: z.tuple([z.string(), z.string()]).nullable().optional(),
+  /** Drift: mean deviation (points) before and after the change, and ratings on each side. */
+  sizeBefore: z.number().nullable().optional(),
+  sizeAfter: z.number().nullable().optional(),
+  nBefore: z.number().optional(),
+  nAfter: z.number().optional(),
+  /** Agreement: the other classifiers' pooled same-class rate over the same dates. */
+  othersRate: z.number().nullable().optional(),
 });
 export type FlagEvidence = z.infer<typeof flagEvidenceSchema>;
 
@@ -140,9 +162,13 @@ export const flagSchema = z.object({
   rule: flagRuleSchema,
   status: flagStatusSchema,
   note: z.string().nullable(),
+  /** The latest evaluation's figures (when the condition no longer holds: today's figures, not the old ones). */
   evidence: flagEvidenceSchema,
   /** Whether the last evaluation still found the condition. */
   stillMet: z.boolean(),
+  /** When and why the condition stopped holding (null while it holds). */
+  lapsedAt: z.string().nullable(),
+  lapseReason: z.string().nullable(),
   openedAt: z.string(),
   updatedAt: z.string(),
   evaluatedAt: z.string(),
@@ -163,35 +189,46 @@ export const flagUpdateSchema = z
   });
 export type FlagUpdate = z.infer<typeof flagUpdateSchema>;
 
-export const evaluateResponseSchema = z.object({ opened: z.number(), updated: z.number(), evaluatedAt: z.string() });
+export const evaluateResponseSchema = z.object({ opened: z.number(), updated: z.number(), lapsed: z.number(), evaluatedAt: z.string() });
 export type EvaluateResponse = z.infer<typeof evaluateResponseSchema>;
 
-/** Thresholds of the calibration flags, set by the lead. Defaults in docs/dashboards.md. */
+/** Thresholds of the calibration flags, set by the lead. Defaults and their simulated rates: decision record 0008. */
+const whole = (min: number, max: number, unit: string) =>
+  z.coerce
+    .number({ message: 'Enter a whole number' })
+    .int({ message: 'Enter a whole number' })
+    .min(min, { message: `At least ${min} ${unit}` })
+    .max(max, { message: `At most ${max.toLocaleString('en')} ${unit}` });
+const number = (min: number, max: number, unit: string) =>
+  z.coerce.number({ message: 'Enter a number' }).min(min, { message: `At least ${min} ${unit}` }).max(max, { message: `At most ${max} ${unit}` });
+
 export const flagThresholdsSchema = z.object({
-  kappaMin: z.coerce.number({ message: 'Enter a number' }).min(0, { message: 'At least 0' }).max(1, { message: 'At most 1' }),
-  kappaWindow: z.coerce.number({ message: 'Enter a whole number' }).int({ message: 'Enter a whole number' }).min(10, { message: 'At least 10 ratings' }).max(10000, { message: 'At most 10,000 ratings' }),
-  biasMax: z.coerce.number({ message: 'Enter a number' }).min(0.05, { message: 'At least 0.05 class' }).max(2, { message: 'At most 2 classes' }),
-  biasWindow: z.coerce.number({ message: 'Enter a whole number' }).int({ message: 'Enter a whole number' }).min(5, { message: 'At least 5 ratings' }).max(10000, { message: 'At most 10,000 ratings' }),
-  minRatings: z.coerce.number({ message: 'Enter a whole number' }).int({ message: 'Enter a whole number' }).min(1, { message: 'At least 1' }).max(10000, { message: 'At most 10,000' }),
+  /** Benjamini–Hochberg false-discovery rate per rule across the roster. */
+  falseDiscoveryRate: number(0.001, 0.2, '(a share)'),
+  /** bias: smallest lean (points) worth a flag. */
+  biasMin: number(0.05, 2, 'points'),
+  biasWindow: whole(20, 10000, 'ratings'),
+  /** agreement: smallest shortfall of the same-class rate below the other classifiers'. */
+  agreementGap: number(0.01, 1, '(a share)'),
+  agreementWindow: whole(20, 10000, 'ratings'),
+  /** drift: smallest change of level (points) worth a flag. */
+  driftMin: number(0.05, 2, 'points'),
   driftEnabled: z.boolean(),
-  driftK: z.coerce.number({ message: 'Enter a number' }).min(0, { message: 'At least 0' }).max(5, { message: 'At most 5' }),
-  driftH: z.coerce.number({ message: 'Enter a number' }).min(1, { message: 'At least 1' }).max(50, { message: 'At most 50' }),
-  driftWindow: z.coerce.number({ message: 'Enter a whole number' }).int({ message: 'Enter a whole number' }).min(5, { message: 'At least 5 ratings' }).max(10000, { message: 'At most 10,000 ratings' }),
+  minRatings: whole(10, 10000, 'ratings'),
   notifyLead: z.boolean(),
 });
 export type FlagThresholds = z.infer<typeof flagThresholdsSchema>;
 export type FlagThresholdsInput = z.input<typeof flagThresholdsSchema>;
 
 export const DEFAULT_FLAG_THRESHOLDS: FlagThresholds = {
-  kappaMin: 0.8,
-  kappaWindow: 100,
-  biasMax: 0.25,
-  biasWindow: 30,
-  minRatings: 20,
+  falseDiscoveryRate: 0.05,
+  biasMin: 0.15,
+  biasWindow: 150,
+  agreementGap: 0.1,
+  agreementWindow: 150,
+  driftMin: 0.2,
   driftEnabled: true,
-  driftK: 0.5,
-  driftH: 5,
-  driftWindow: 100,
+  minRatings: 30,
   notifyLead: true,
 };
 
@@ -203,6 +240,41 @@ const labelledStatSchema = statSchema.extend({
   ciMethod: z.string().nullable(),
 });
 
+/** Points at stake (our own figure): distance from the panel's final class, in points. */
+export const pointsAtStakeSchema = z.object({
+  n: z.number(),
+  /** Mean |own class − final class| in points. */
+  meanAbs: statSchema,
+  /** Share of ratings half a class or more from the final class. */
+  offByHalf: statSchema,
+  /** meanAbs × 100. */
+  per100: z.number().nullable(),
+});
+export type PointsAtStakeFigures = z.infer<typeof pointsAtStakeSchema>;
+
+/** One row of the coefficients table: every coefficient the engine computes for the federation. */
+export const coefficientSchema = z.object({
+  id: z.string(),
+  name: z.string(),
+  /** observed: raw shares; chance-corrected: unweighted coefficients; weighted: partial credit for near misses. */
+  family: z.enum(['observed', 'chance-corrected', 'weighted']),
+  value: z.number().nullable(),
+  ci95: intervalSchema.nullable(),
+  n: z.number(),
+  /** How the interval was computed (bootstrap-percentile, wilson, wald, wald-null-se), null without one. */
+  ciMethod: z.string().nullable(),
+  /** What it measures, in one line. */
+  measures: z.string(),
+  /** For weighted figures: what they forgive. */
+  forgives: z.string().nullable(),
+  /** The coefficient's own published reading, only where one exists. */
+  interpretation: z.object({ label: z.string(), source: z.string() }).nullable(),
+  reason: z.string().optional(),
+});
+export type Coefficient = z.infer<typeof coefficientSchema>;
+
+export const splitSchema = statSchema.extend({ lower: z.string(), upper: z.string(), splitRate: z.number().nullable(), splits: z.number() });
+
 export const overviewSchema = z.object({
   counts: z.object({
     assessments: z.number(),
@@ -212,10 +284,21 @@ export const overviewSchema = z.object({
     events: z.number(),
     analysable: z.number(),
   }),
+  /** The headline, in the trade's terms: same class, half-point splits, points at stake. */
+  headline: z.object({
+    panelsUnanimous: statSchema,
+    pairwiseSameClass: statSchema,
+    splits: z.array(splitSchema),
+    pointsAtStake: pointsAtStakeSchema,
+  }),
+  /** Ordinal alpha with Krippendorff's (2004) rule; no kappa bands (label is always null). */
   alpha: labelledStatSchema.extend({ name: z.string(), note: z.enum(['reliable', 'tentative', 'unreliable']).nullable() }),
+  /** Unweighted Fleiss' kappa with Landis & Koch's bands. */
   fleissKappa: labelledStatSchema.extend({ name: z.string() }),
+  gwet: z.object({ ac1: labelledStatSchema, ac2Linear: labelledStatSchema, ac2Quadratic: labelledStatSchema }),
   exact: statSchema,
   withinHalfClass: statSchema,
+  coefficients: z.array(coefficientSchema),
   trend: z.array(quarterStatSchema),
   bootstrap: z.object({ B: z.number(), seed: z.number() }),
   sources: z.object({ landisKoch: z.string(), krippendorff: z.string() }),
@@ -234,6 +317,8 @@ export const classifierRowSchema = z.object({
   /** Mean signed deviation from the other panel members, in points (0.5 = one class). */
   bias: statSchema,
   quadraticKappa: statSchema,
+  /** Distance from the panel's final class, in points. */
+  pointsAtStake: pointsAtStakeSchema,
   /** Mean signed deviation by quarter (the sparkline). */
   trend: z.array(quarterStatSchema),
   flags: z.array(z.object({ id: z.number(), rule: flagRuleSchema, status: flagStatusSchema })),
@@ -251,20 +336,46 @@ export const boundarySplitSchema = statSchema.extend({
   below: z.number(),
 });
 
+/** The classifier's deviation series and its strongest change of level (decision record 0008). */
 export const driftSeriesSchema = z.object({
   n: z.number(),
-  k: z.number(),
-  h: z.number(),
-  sigma: z.number(),
-  /** Chronological CUSUM sums (upper: rating higher, lower: rating lower), one per rating. */
-  points: z.array(z.object({ index: z.number(), upper: z.number(), lower: z.number(), deviation: z.number() })),
-  alarms: z.array(z.object({ index: z.number(), direction: z.enum(['up', 'down']), quarter: z.string() })),
+  method: z.string(),
+  /** Chronological deviations from the rest of the panel (points), one per rating. */
+  points: z.array(z.object({ index: z.number(), date: z.string(), deviation: z.number() })),
+  /** The strongest change under these filters (raw permutation p; flags use the roster-wide adjustment). */
+  change: z
+    .object({
+      index: z.number(),
+      changeDate: z.string(),
+      between: z.tuple([z.string(), z.string()]),
+      direction: z.enum(['up', 'down']).nullable(),
+      sizeBefore: z.number(),
+      sizeAfter: z.number(),
+      nBefore: z.number(),
+      nAfter: z.number(),
+      p: z.number(),
+    })
+    .nullable(),
+});
+
+/** The headline of a classifier's page: same class, points at stake, then the coefficients. */
+export const classifierHeadlineSchema = z.object({
+  /** Same class as the panel's final class. */
+  sameAsFinal: statSchema,
+  /** Same class as the median of the other members. */
+  sameAsOthers: statSchema,
+  pointsAtStake: pointsAtStakeSchema,
+  /** Against the panel's final class: unweighted Cohen's kappa and Gwet's AC1, then the weighted kappa. */
+  kappa: labelledStatSchema,
+  ac1: labelledStatSchema,
+  quadraticKappa: labelledStatSchema,
 });
 
 export const classifierDetailSchema = z.object({
   code: z.string(),
   name: z.string().nullable(),
   row: classifierRowSchema,
+  headline: classifierHeadlineSchema,
   confusion: confusionSchema,
   biasByQuarter: z.array(quarterStatSchema),
   boundaries: z.array(boundarySplitSchema),
@@ -299,7 +410,17 @@ export const pairDetailSchema = z.object({
   minShared: z.number(),
   tooFew: z.boolean(),
   stats: z
-    .object({ exact: statSchema, withinHalfClass: statSchema, kappa: statSchema, linearKappa: statSchema, quadraticKappa: statSchema })
+    .object({
+      exact: statSchema,
+      withinHalfClass: statSchema,
+      /** Points apart on shared assessments (mean |a − b| in points, share half a class or more apart). */
+      pointsApart: pointsAtStakeSchema,
+      splits: z.array(boundarySplitSchema),
+      kappa: statSchema,
+      ac1: statSchema,
+      linearKappa: statSchema,
+      quadraticKappa: statSchema,
+    })
     .nullable(),
   confusion: confusionSchema,
 });
@@ -312,15 +433,23 @@ export const boundariesResponseSchema = z.object({
 export type BoundariesResponse = z.infer<typeof boundariesResponseSchema>;
 
 export const raterDriftSchema = z.object({
-  parameters: z.object({ k: z.number(), h: z.number(), sigma: z.number() }),
+  parameters: z.object({ method: z.string(), falseDiscoveryRate: z.number(), driftMin: z.number() }),
   classifiers: z.array(
     z.object({
       code: z.string(),
       name: z.string().nullable(),
       n: z.number(),
       byQuarter: z.array(quarterStatSchema),
-      alarms: z.number(),
-      lastAlarm: z.object({ quarter: z.string(), direction: z.enum(['up', 'down']) }).nullable(),
+      /** The strongest change of level under these filters, and whether it passes the drift rule. */
+      change: z
+        .object({
+          changeDate: z.string(),
+          direction: z.enum(['up', 'down']).nullable(),
+          size: z.number(),
+          pAdjusted: z.number().nullable(),
+          met: z.boolean(),
+        })
+        .nullable(),
     }),
   ),
 });

@@ -12,8 +12,9 @@ import {
   classBoundaries,
   classDistributionBySeason,
   classTransitions,
+  changePointTest,
   classifierBoundarySplits,
-  classifierDrift,
+  classifierDeviations,
   classifierPairs,
   classifiersVsPanel,
   compressPatterns,
@@ -21,10 +22,14 @@ import {
   confusionWithPanel,
   countTable,
   deviationByQuarter,
+  evaluateCalibration,
   filterRatingSet,
+  hashSeed,
   landisKochLabel,
-  recentPanelComparison,
+  pointsApart,
+  pointsAtStake,
   subsetRatingSet,
+  twoRaterCoefficients,
   type RatingRow,
   type RatingSet,
 } from '../../server/analysis';
@@ -97,7 +102,40 @@ describe('agreement dashboards API', () => {
     close(res.body.alpha.value, report.krippendorffAlpha.ordinal.value);
     expect(res.body.alpha.ci95[0]).toBeCloseTo(report.krippendorffAlpha.ordinal.ci95![0], 10);
     expect(res.body.alpha.ci95[1]).toBeCloseTo(report.krippendorffAlpha.ordinal.ci95![1], 10);
-    expect(res.body.alpha.label).toBe(landisKochLabel(report.krippendorffAlpha.ordinal.value));
+    // Landis & Koch's bands are for kappa; alpha carries Krippendorff's (2004) rule only.
+    expect(res.body.alpha.label).toBeNull();
+    expect(res.body.alpha.note).toBe(report.krippendorffAlpha.ordinal.note);
+    for (const key of ['ac1', 'ac2Linear', 'ac2Quadratic'] as const) {
+      close(res.body.gwet[key].value, report.gwet[key].value);
+      expect(res.body.gwet[key].ci95).toEqual(report.gwet[key].ci95);
+      expect(res.body.gwet[key].label).toBe(landisKochLabel(report.gwet[key].value));
+    }
+    close(res.body.headline.panelsUnanimous.value, report.exactAgreement.unanimous.value);
+    close(res.body.headline.pairwiseSameClass.value, report.exactAgreement.pairwiseMean.value);
+    expect(res.body.headline.splits.map((b: { splits: number }) => b.splits)).toEqual(report.boundaries.map((b) => b.splits));
+    const stake = pointsAtStake(set).federation;
+    close(res.body.headline.pointsAtStake.meanAbs.value, stake.meanAbs.value);
+    close(res.body.headline.pointsAtStake.offByHalf.value, stake.offByHalf.value);
+    close(res.body.headline.pointsAtStake.per100, stake.per100);
+    // The coefficients table: every coefficient, with its interval method; bands only on kappa-type rows, Krippendorff's rule on alpha.
+    const rows = res.body.coefficients as { id: string; value: number | null; ciMethod: string | null; interpretation: { label: string; source: string } | null; measures: string }[];
+    const byId = new Map(rows.map((r) => [r.id, r]));
+    close(byId.get('fleissKappa')!.value, report.fleissKappa.value);
+    close(byId.get('gwet.ac1')!.value, report.gwet.ac1.value);
+    close(byId.get('gwet.ac2Linear')!.value, report.gwet.ac2Linear.value);
+    close(byId.get('gwet.ac2Quadratic')!.value, report.gwet.ac2Quadratic.value);
+    close(byId.get('exact.unanimous')!.value, report.exactAgreement.unanimous.value);
+    close(byId.get('exact.pooledPairs')!.value, report.exactAgreement.pooledPairs.value);
+    for (const m of ['nominal', 'ordinal', 'interval', 'ratio'] as const) {
+      const r = byId.get(`alpha.${m}`)!;
+      close(r.value, report.krippendorffAlpha[m].value);
+      expect(r.interpretation?.source ?? '').toMatch(/Krippendorff \(2004\)/);
+      expect(r.interpretation?.label ?? '').not.toMatch(/Poor|Slight|Fair|Moderate|Substantial|Almost Perfect/);
+    }
+    for (const cls of Object.keys(report.fleissKappaByClass)) close(byId.get(`fleissKappa.${cls}`)!.value, report.fleissKappaByClass[cls]!.value);
+    expect(byId.get('gwet.ac1')!.interpretation?.source).toMatch(/Landis & Koch/);
+    expect(byId.get('exact.unanimous')!.interpretation).toBeNull();
+    for (const r of rows) expect(r.measures.length).toBeGreaterThan(10);
     close(res.body.fleissKappa.value, report.fleissKappa.value);
     expect(res.body.fleissKappa.ci95).toEqual(report.fleissKappa.ci95);
     expect(res.body.fleissKappa.name).toBe(report.fleissKappa.name);
@@ -156,16 +194,20 @@ describe('agreement dashboards API', () => {
     }
   });
 
-  it('a classifier’s page: confusion matrix with the panel, bias by quarter, boundaries and CUSUM as the engine computes them', async () => {
+  it('a classifier’s page: confusion matrix with the panel, bias by quarter, boundaries, points at stake and the change of level as the engine computes them', async () => {
     const res = await lead.get(`${base}/classifiers/C05`);
     expect(res.status).toBe(200);
     const confusion = confusionWithPanel(set, 'C05');
     expect(res.body.confusion.counts).toEqual(confusion.counts);
     expect(res.body.biasByQuarter.map((q: { value: number }) => q.value)).toEqual(deviationByQuarter(set, 'C05').map((q) => q.result.value));
     expect(res.body.boundaries.map((b: { splitRate: number | null }) => b.splitRate)).toEqual(classifierBoundarySplits(confusion).map((b) => b.splitRate));
-    const drift = classifierDrift(set, 'C05', { k: DEFAULT_FLAG_THRESHOLDS.driftK, h: DEFAULT_FLAG_THRESHOLDS.driftH });
-    expect(res.body.drift.alarms.length).toBe(drift.alarms.length);
-    expect(res.body.drift.points.at(-1).upper).toBeCloseTo(drift.upper[drift.n - 1]!, 10);
+    const series = classifierDeviations(set, 'C05');
+    const cp = changePointTest(series.deviation, hashSeed('C05', 1))!;
+    expect(res.body.drift.n).toBe(series.deviation.length);
+    expect(res.body.drift.change).toMatchObject({ nBefore: cp.k, nAfter: cp.n - cp.k, direction: 'up' });
+    close(res.body.drift.change.sizeAfter, cp.meanAfter);
+    expect(res.body.drift.change.changeDate >= '2024-06-01' && res.body.drift.change.changeDate <= '2024-10-31').toBe(true);
+    close(res.body.headline.pointsAtStake.meanAbs.value, pointsAtStake(set).classifiers.get('C05')!.meanAbs.value);
     expect(res.body.name).toBe(generateScenario(DEMO_SCENARIO).classifiers.find((c) => c.code === 'C05')!.displayName);
     expect((await lead.get(`${base}/classifiers/C99`)).status).toBe(404);
   });
@@ -189,6 +231,13 @@ describe('agreement dashboards API', () => {
     expect(detail.body.confusion.counts).toEqual(confusionBetween(set, 'C02', 'C01').counts);
     const pair = expected.find((p) => p.a === 'C01' && p.b === 'C02')!;
     close(detail.body.stats.quadraticKappa.value, pair.quadraticKappa.value);
+    // The pair's headline: points apart and splits from its confusion matrix, AC1 from the same table.
+    const cm = confusionBetween(set, 'C02', 'C01');
+    const two = twoRaterCoefficients(cm.counts);
+    close(detail.body.stats.ac1.value, two.ac1.value);
+    close(detail.body.stats.kappa.value, two.kappa.value);
+    close(detail.body.stats.pointsApart.meanAbs.value, pointsApart(cm.counts).meanAbs.value);
+    expect(detail.body.stats.splits.map((x: { splitRate: number | null }) => x.splitRate)).toEqual(classifierBoundarySplits(cm).map((x) => x.splitRate));
   });
 
   it('boundaries: split rates and the quarterly trend equal classBoundaries', async () => {
@@ -198,11 +247,14 @@ describe('agreement dashboards API', () => {
     expect(res.body.trend.length).toBeGreaterThan(7 * 8);
   });
 
-  it('drift: rater drift by quarter with the CUSUM alarms; class drift as transitions and the distribution by season', async () => {
+  it('drift: rater drift by quarter with the change-of-level test; class drift as transitions and the distribution by season', async () => {
     const raters = await lead.get(`${base}/drift/raters`);
+    const verdicts = evaluateCalibration(set, DEFAULT_FLAG_THRESHOLDS);
+    for (const c of raters.body.classifiers as { code: string; change: { met: boolean } | null }[]) {
+      expect(c.change?.met ?? false).toBe(verdicts.find((v) => v.code === c.code)!.drift.met);
+    }
     const c05 = raters.body.classifiers.find((c: { code: string }) => c.code === 'C05');
-    expect(c05.alarms).toBe(classifierDrift(set, 'C05').alarms.length);
-    expect(c05.lastAlarm.direction).toBe('up');
+    expect(c05.change).toMatchObject({ met: true, direction: 'up' });
     const classes = await lead.get(`${base}/drift/classes`);
     const tr = classTransitions(set);
     expect(classes.body.transitions.counts).toEqual(tr.counts);
@@ -299,41 +351,46 @@ describe('agreement dashboards API', () => {
     (t.ctx as unknown as { mailer: unknown }).mailer = { send: async (m: { to: string; subject: string; text: string }) => void sent.push(m) };
     t.ctx.sqlite.prepare('delete from calibration_flags').run();
 
-    // Thresholds under which C05 (drifting upwards in the demo) leans away from the panel.
-    const thresholds = { ...DEFAULT_FLAG_THRESHOLDS, biasMax: 0.2, kappaMin: 0.5, driftEnabled: false };
-    const saved = await lead.put(`${base}/flag-settings`).send(thresholds);
+    // The default rules, evaluated by the engine directly on the rows read from the database.
+    const saved = await lead.put(`${base}/flag-settings`).send(DEFAULT_FLAG_THRESHOLDS);
     expect(saved.status).toBe(200);
-    const flags = (await lead.get(`${base}/flags`)).body.flags as { id: number; classifierCode: string; rule: string; status: string; evidence: { value: number; n: number } }[];
-    const expectedBias = classifiersVsPanel(set)
-      .map((c) => ({ code: c.code, w: recentPanelComparison(set, c.code, thresholds.biasWindow) }))
-      .filter(({ w }) => w.n >= 20 && Math.abs(w.comparison!.meanDeviation.value!) >= 0.2)
-      .map(({ code }) => code)
-      .sort();
-    expect(flags.filter((f) => f.rule === 'bias').map((f) => f.classifierCode).sort()).toEqual(expectedBias);
-    expect(expectedBias).toContain('C05');
-    const c05 = flags.find((f) => f.classifierCode === 'C05' && f.rule === 'bias')!;
-    close(c05.evidence.value, recentPanelComparison(set, 'C05', 30).comparison!.meanDeviation.value);
-    expect(c05.status).toBe('open');
+    const flags = (await lead.get(`${base}/flags`)).body.flags as {
+      id: number;
+      classifierCode: string;
+      rule: string;
+      status: string;
+      stillMet: boolean;
+      evidence: { value: number; n: number; total: number; from: string; to: string; changeDate?: string; direction: string | null };
+    }[];
+    const verdicts = evaluateCalibration(set, DEFAULT_FLAG_THRESHOLDS);
+    for (const rule of ['bias', 'drift', 'agreement'] as const) {
+      const expected = verdicts.filter((v) => v[rule].met).map((v) => v.code).sort();
+      expect(flags.filter((f) => f.rule === rule).map((f) => f.classifierCode).sort(), rule).toEqual(expected);
+    }
+    const c12 = flags.find((f) => f.classifierCode === 'C12' && f.rule === 'bias')!;
+    close(c12.evidence.value, verdicts.find((v) => v.code === 'C12')!.bias.mean);
+    expect(c12.evidence.direction).toBe('down');
+    expect(c12.status).toBe('open');
     expect(sent.length).toBe(1);
     expect(sent[0]!.to).toBe('lead@demo.panelwise.test');
-    expect(sent[0]!.text).toContain('C05');
+    expect(sent[0]!.text).toContain('C12');
 
-    expect((await lead.patch(`${base}/flags/${c05.id}`).send({ status: 'closed' })).status).toBe(400);
-    expect((await lead.patch(`${base}/flags/${c05.id}`).send({ status: 'acknowledged' })).body.status).toBe('acknowledged');
-    const closed = await lead.patch(`${base}/flags/${c05.id}`).send({ status: 'closed', note: 'Talked it through at the spring calibration day.' });
+    expect((await lead.patch(`${base}/flags/${c12.id}`).send({ status: 'closed' })).status).toBe(400);
+    expect((await lead.patch(`${base}/flags/${c12.id}`).send({ status: 'acknowledged' })).body.status).toBe('acknowledged');
+    const closed = await lead.patch(`${base}/flags/${c12.id}`).send({ status: 'closed', note: 'Talked it through at the spring calibration day.' });
     expect(closed.body).toMatchObject({ status: 'closed', note: 'Talked it through at the spring calibration day.' });
 
     const again = await lead.post(`${base}/flags/evaluate`);
     expect(again.body.opened).toBe(0);
     expect(sent.length).toBe(1);
     const after = (await lead.get(`${base}/flags`)).body.flags as { id: number; status: string }[];
-    expect(after.find((f) => f.id === c05.id)!.status).toBe('closed');
-    expect((await lead.patch(`${base}/flags/${c05.id}`).send({ status: 'open' })).status).toBe(409);
+    expect(after.find((f) => f.id === c12.id)!.status).toBe('closed');
+    expect((await lead.patch(`${base}/flags/${c12.id}`).send({ status: 'open' })).status).toBe(409);
     expect((await lead.patch(`${base}/flags/999999`).send({ status: 'acknowledged' })).status).toBe(404);
 
-    const bad = await lead.put(`${base}/flag-settings`).send({ ...thresholds, kappaMin: 2 });
+    const bad = await lead.put(`${base}/flag-settings`).send({ ...DEFAULT_FLAG_THRESHOLDS, biasMin: 5 });
     expect(bad.status).toBe(400);
-    expect(bad.body.error.details[0].path).toBe('kappaMin');
+    expect(bad.body.error.details[0].path).toBe('biasMin');
     await lead.put(`${base}/flag-settings`).send(DEFAULT_FLAG_THRESHOLDS);
   });
 

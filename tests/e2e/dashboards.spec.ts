@@ -51,7 +51,7 @@ test.describe('agreement dashboards', () => {
     await expect(page.getByTestId('filtered-assessments')).not.toHaveText('1,933');
     const filtered = await page.getByTestId('filtered-assessments').innerText();
     await page.goto('/f/kestrel-coast?season=2024');
-    await expect(page.getByTestId('filtered-assessments')).toHaveText(filtered);
+    await expect(page.getByTestId('filtered-assessments')).toHaveText(filtered, { timeout: 30_000 });
 
     await page.goto('/f/kestrel-coast/classifiers');
     await expect(page.getByRole('table', { name: 'Classifiers against the panel' })).toBeVisible();
@@ -83,12 +83,45 @@ test.describe('agreement dashboards', () => {
     await page.goto('/f/kestrel-coast/flags');
     await expect(page.getByRole('table', { name: 'Calibration flags' })).toBeVisible();
     await expect(page.getByRole('heading', { name: 'Thresholds' })).toBeVisible();
-    const kappa = page.getByLabel('Lowest quadratic kappa with the panel');
-    await kappa.fill('3');
+    const lean = page.getByLabel('Smallest lean worth a flag (points)');
+    await lean.fill('3');
     await page.getByRole('button', { name: 'Save thresholds' }).click();
-    await expect(page.getByText('Lowest quadratic kappa with the panel: At most 1')).toBeVisible();
-    await kappa.fill('0.8');
+    await expect(page.getByText('Smallest lean worth a flag (points): At most 2 points')).toBeVisible();
+    await lean.fill('0.15');
     await check(page, 'dashboards-lead-flags');
+  });
+
+  test('the overview shows same-class agreement and points at stake before any weighted coefficient', async ({ page }) => {
+    test.setTimeout(120_000);
+    await signIn(page, 'lead');
+    await page.goto('/f/kestrel-coast');
+    const unanimous = page.getByTestId('same-class-unanimous');
+    const stake = page.getByTestId('points-at-stake');
+    await expect(unanimous).toHaveText(/^\d+ %$/, { timeout: 60_000 });
+    await expect(page.getByTestId('same-class-pairwise')).toHaveText(/^\d+ %$/);
+    await expect(stake).toHaveText(/^\d+$/);
+    await expect(page.getByTestId('boundary-splits')).toContainText('2.5/3.0');
+    // Document order and position on the page: the trade's figures first, every weighted figure after.
+    const weighted = [page.getByTestId('alpha-value'), page.getByText(/Gwet’s AC2, quadratic/).first(), page.getByText(/Panels within half a class/).first()];
+    const firstWeighted = Math.min(...(await Promise.all(weighted.map(async (w) => (await w.boundingBox())!.y))));
+    expect((await unanimous.boundingBox())!.y).toBeLessThan(firstWeighted);
+    expect((await stake.boundingBox())!.y).toBeLessThan(firstWeighted);
+    const order = await page.evaluate(() => {
+      const text = document.querySelector('main')!.innerText;
+      return { unanimous: text.indexOf('Panels unanimous'), stake: text.indexOf('Points at stake'), alpha: text.indexOf('Krippendorff’s alpha'), quadratic: text.search(/quadratic/i) };
+    });
+    expect(order.unanimous).toBeGreaterThanOrEqual(0);
+    expect(order.stake).toBeLessThan(order.alpha);
+    expect(order.unanimous).toBeLessThan(order.alpha);
+    expect(order.stake).toBeLessThan(order.quadratic);
+    // The coefficients table: Gwet's AC1 and AC2, alpha with Krippendorff's rule, not Landis & Koch's bands.
+    const table = page.getByRole('table', { name: 'Every coefficient, with its interval and what it measures' });
+    await expect(table).toBeVisible();
+    const alphaRow = table.getByRole('row').filter({ hasText: 'Krippendorff’s alpha, ordinal' });
+    await expect(alphaRow).toContainText('Krippendorff (2004)');
+    await expect(alphaRow).not.toContainText(/Almost Perfect|Substantial|Moderate/);
+    await expect(table.getByRole('row').filter({ hasText: 'Gwet’s AC1' })).toContainText('Landis & Koch');
+    await check(page, 'dashboards-lead-overview-headline');
   });
 
   test('a classifier sees only their own figures', async ({ page }) => {
@@ -96,6 +129,9 @@ test.describe('agreement dashboards', () => {
     await expect(page).toHaveURL(/\/f\/kestrel-coast\/me/);
     await expect(page.getByRole('heading', { name: 'My agreement' })).toBeVisible();
     await expect(page.getByRole('heading', { name: 'You among the federation’s classifiers' })).toBeVisible();
+    await expect(page.getByTestId('plain-words')).toContainText('In plain words');
+    await expect(page.getByText(/CUSUM/)).toHaveCount(0);
+    await expect(page.getByText('How this is computed').first()).toBeVisible();
     await check(page, 'dashboards-classifier-me');
     const text = await pageText(page);
     expect(text).not.toMatch(OTHER_CODES);

@@ -33,5 +33,5 @@ export const entries: AccessEntry[] = [
     note: 'the body is refused by validation',
   },
   { method: 'get', path: `${base}/flag-settings`, expect: leadOnly },
-  { method: 'put', path: `${base}/flag-settings`, body: { kappaMin: 'high' }, expect: { ...leadOnly, lead: 400 }, note: 'the body is refused by validation' },
+  { method: 'put', path: `${base}/flag-settings`, body: { biasMin: 'high' }, expect: { ...leadOnly, lead: 400 }, note: 'the body is refused by validation' },
 ];

@@ -171,44 +171,53 @@ function facetGrid(data: { quarter: string; boundary: string; value: number }[],
   ];
 }
 
-/** The two one-sided CUSUM sums over a classifier's ratings, with the decision interval h. */
-export function CusumChart({
+/** A classifier's chronological deviations (dots) and the levels before and after the strongest change (lines). */
+export function LevelChangeChart({
   points,
-  h,
+  change,
   title,
   fileName,
   summary,
 }: {
-  points: { index: number; upper: number; lower: number }[];
-  h: number;
+  points: { index: number; deviation: number }[];
+  change: { index: number; sizeBefore: number; sizeAfter: number } | null;
   title: string;
   fileName: string;
   summary: string;
 }) {
-  const data = points.flatMap((p) => [
-    { index: p.index, value: p.upper, side: 'Rating higher (S⁺)' },
-    { index: p.index, value: -p.lower, side: 'Rating lower (−S⁻)' },
-  ]);
+  const n = points.length;
+  const levels = change
+    ? [
+        { x1: 1, x2: change.index - 1, y: change.sizeBefore },
+        { x1: change.index, x2: n, y: change.sizeAfter },
+      ]
+    : [];
   return (
     <PlotFigure
       title={title}
       summary={summary}
       fileName={fileName}
-      deps={[points, h]}
+      deps={[points, change]}
       height={260}
       build={() => ({
         marginLeft: 56,
         x: { label: 'Rating number (chronological)', grid: false },
-        y: { label: 'Cumulative sum (σ units)', grid: true, domain: [-(h + 2), h + 2] },
-        color: { domain: ['Rating higher (S⁺)', 'Rating lower (−S⁻)'], range: [CHART_COLORS[1], CHART_COLORS[0]] },
+        y: { label: 'Deviation from the panel (points)', grid: true },
         marks: [
-          Plot.ruleY([h, -h], { stroke: '#a63d2f', strokeDasharray: '5 4' }),
           Plot.ruleY([0], { stroke: MUTED }),
-          Plot.lineY(data, { x: 'index', y: 'value', stroke: 'side', strokeWidth: 1.5 }),
+          Plot.dot(points, { x: 'index', y: 'deviation', r: 1.5, fill: CHART_COLORS[0], fillOpacity: 0.35 }),
+          Plot.link(levels, { x1: 'x1', x2: 'x2', y1: 'y', y2: 'y', stroke: CHART_COLORS[1], strokeWidth: 3 }),
+          ...(change ? [Plot.ruleX([change.index - 0.5], { stroke: '#a63d2f', strokeDasharray: '5 4' })] : []),
         ],
       })}
     >
-      <Legend items={[{ label: 'Rating higher than the panel (S⁺)', color: CHART_COLORS[1] }, { label: 'Rating lower than the panel (−S⁻)', color: CHART_COLORS[0] }, { label: `Decision interval ±h = ±${h}`, color: '#a63d2f', dashed: true }]} />
+      <Legend
+        items={[
+          { label: 'One rating’s deviation', color: CHART_COLORS[0] },
+          { label: 'Mean level before and after the change', color: CHART_COLORS[1] },
+          { label: 'Estimated change', color: '#a63d2f', dashed: true },
+        ]}
+      />
     </PlotFigure>
   );
 }

@@ -1,6 +1,7 @@
 import type { ClassifierDetail, MyAgreement } from '../../../../shared/schemas/analytics';
 import { FLAG_RULE_LABELS, FLAG_STATUS_LABELS } from '../../../../shared/schemas/analytics';
-import { BoundaryBars, ConfusionChart, CusumChart, DistributionChart, TrendChart } from './charts';
+import { BoundaryBars, ConfusionChart, DistributionChart, LevelChangeChart, TrendChart } from './charts';
+import { FlagLapse } from './flag-lapse';
 import { integer, num, pct, signed, withInterval } from './format';
 
 function StatCard({ label, value, detail, testId }: { label: string; value: string; detail?: string; testId?: string }) {
@@ -28,22 +29,59 @@ export function ClassifierFigures({ detail, who, fileStem }: { detail: Classifie
   const biasWord = row.bias.value === null ? '' : row.bias.value > 0 ? 'higher than' : row.bias.value < 0 ? 'lower than' : 'level with';
   const lastQuarter = detail.biasByQuarter.at(-1);
   const whose = who === 'you' ? 'Your' : `${who}’s`;
+  const h = detail.headline;
+  const own = who === 'you';
+  const stake = h.pointsAtStake;
   return (
     <div className="space-y-6">
       <section aria-labelledby="headline-title">
         <h2 id="headline-title" className="mb-3">
-          Against the panel
+          Same class as the panel
         </h2>
+        {own ? (
+          <p className="mb-3 max-w-3xl" data-testid="plain-words">
+            In plain words: in {integer.format(h.sameAsFinal.n)} of your ratings with a recorded final class, you gave the panel’s final class{' '}
+            {pct(h.sameAsFinal.value)} of the time. On average your class was {num(stake.meanAbs.value)} point from the final class — about{' '}
+            {num(stake.per100, 0)} points per 100 ratings — and {pct(stake.offByHalf.value)} of your ratings were half a class or more away.{' '}
+            {row.bias.value !== null && Math.abs(row.bias.value) >= 0.05
+              ? `You tend to rate ${row.bias.value > 0 ? 'higher' : 'lower'} than the other members of your panels, by ${num(Math.abs(row.bias.value))} point on average.`
+              : 'You rate neither higher nor lower than the other members of your panels on average.'}{' '}
+            These figures describe how consistent ratings are, not whether any class is right.
+          </p>
+        ) : null}
         <dl className="grid grid-cols-2 gap-3 lg:grid-cols-4">
-          <StatCard label="Ratings in panels of two or more" value={integer.format(row.n)} detail={`${integer.format(row.ratings)} ratings in all`} testId="classifier-n" />
-          <StatCard label="Same class as the rest of the panel" value={pct(row.exactWithPanel.value)} detail={`within half a class: ${pct(row.withinHalfWithPanel.value)}`} />
-          <StatCard label="Bias (points, + = higher)" value={signed(row.bias.value)} detail={row.bias.ci95 ? `95 % CI ${signed(row.bias.ci95[0])} to ${signed(row.bias.ci95[1])}` : undefined} />
-          <StatCard label="Quadratic kappa with the panel" value={num(row.quadraticKappa.value)} detail={row.quadraticKappa.ci95 ? `95 % CI ${num(row.quadraticKappa.ci95[0])} to ${num(row.quadraticKappa.ci95[1])}` : row.quadraticKappa.reason} />
+          <StatCard label="Same class as the panel’s final class" value={pct(h.sameAsFinal.value)} detail={`${integer.format(h.sameAsFinal.n)} ratings with a final class`} testId="classifier-same-final" />
+          <StatCard label="Same class as the other members" value={pct(row.exactWithPanel.value)} detail={`${integer.format(row.n)} ratings in panels of two or more`} testId="classifier-n" />
+          <StatCard
+            label="Points at stake (per 100 ratings)"
+            value={num(stake.per100, 0)}
+            detail={`mean ${num(stake.meanAbs.value)} point from the final class; ${pct(stake.offByHalf.value)} off by half a class or more`}
+            testId="classifier-points-at-stake"
+          />
+          <StatCard label="Lean (points, + = higher)" value={signed(row.bias.value)} detail={row.bias.ci95 ? `95 % CI ${signed(row.bias.ci95[0])} to ${signed(row.bias.ci95[1])}` : undefined} />
         </dl>
         <p className="mt-2 text-sm text-muted">
-          Bias is the mean of (rating − median of the other panel members) in sport-class points; 0.5 is one class step. The kappa is Cohen’s quadratically weighted kappa
-          against the panel’s final class where recorded (decision record 0003).
+          Half-point splits from the panel: {top.length ? top.map((b) => `${b.lower}/${b.upper} ${pct(b.splitRate)} of ${b.touching}`).join(' · ') : 'too few ratings near any boundary'}.
+          Points at stake is our own figure: the mean distance from the panel’s final class in sport-class points, ×100.
         </p>
+        <h3 className="mt-4 mb-2 text-base">Beyond chance, then with partial credit</h3>
+        <dl className="grid grid-cols-1 gap-3 sm:grid-cols-3">
+          <StatCard label="Cohen’s kappa, unweighted (vs final class)" value={num(h.kappa.value)} detail={`${h.kappa.label ?? ''}${h.kappa.ci95 ? ` · 95 % CI ${num(h.kappa.ci95[0])} to ${num(h.kappa.ci95[1])}` : ''}`} />
+          <StatCard label="Gwet’s AC1 (vs final class)" value={num(h.ac1.value)} detail={`${h.ac1.label ?? ''}${h.ac1.ci95 ? ` · 95 % CI ${num(h.ac1.ci95[0])} to ${num(h.ac1.ci95[1])}` : ''}`} />
+          <StatCard
+            label="Quadratically weighted kappa — counts a half-class miss as near agreement"
+            value={num(h.quadraticKappa.value)}
+            detail={h.quadraticKappa.ci95 ? `95 % CI ${num(h.quadraticKappa.ci95[0])} to ${num(h.quadraticKappa.ci95[1])}` : h.quadraticKappa.reason}
+          />
+        </dl>
+        <details className="mt-2 text-sm text-muted">
+          <summary className="cursor-pointer font-semibold">How this is computed</summary>
+          <p className="mt-1">
+            The lean is the mean of (rating − median of the other panel members) in sport-class points; 0.5 is one class step. Kappa and AC1 compare the classifier’s class
+            with the panel’s final class (Cohen 1960; Gwet 2008), with Landis & Koch’s (1977) words beside them; the weighted kappa is Cohen’s quadratically weighted kappa
+            against the panel’s final class where recorded (decision record 0003). The change of level is tested on the deviations in chronological order: {detail.drift.method}.
+          </p>
+        </details>
       </section>
 
       {'distribution' in detail ? <Distribution detail={detail} /> : null}
@@ -85,19 +123,20 @@ export function ClassifierFigures({ detail, who, fileStem }: { detail: Classifie
               : 'Too few ratings near any boundary in these filters.'
           }
         />
-        <CusumChart
+        <LevelChangeChart
           points={detail.drift.points}
-          h={detail.drift.h}
-          title={`${whose} change detector (CUSUM)`}
-          fileName={`${fileStem}-cusum`}
-          summary={`Two one-sided cumulative sums of standardised deviations from the panel (k = ${num(detail.drift.k)}, h = ${num(detail.drift.h, 1)}, σ = ${num(
-            detail.drift.sigma,
-            3,
-          )} point; decision record 0002). ${
-            detail.drift.alarms.length
-              ? `${detail.drift.alarms.length} signal${detail.drift.alarms.length === 1 ? '' : 's'}, the last in ${detail.drift.alarms.at(-1)!.quarter} towards rating ${detail.drift.alarms.at(-1)!.direction === 'up' ? 'higher' : 'lower'}.`
-              : 'No signal.'
-          }`}
+          change={detail.drift.change}
+          title={`${whose} level over time`}
+          fileName={`${fileStem}-level-change`}
+          summary={
+            detail.drift.change
+              ? `${own ? 'Your' : `${who}’s`} strongest change of level in these filters is around ${detail.drift.change.changeDate} (between ${detail.drift.change.between[0]} and ${
+                  detail.drift.change.between[1]
+                }): ${signed(detail.drift.change.sizeBefore)} point from the panel on average over ${detail.drift.change.nBefore} ratings before, ${signed(
+                  detail.drift.change.sizeAfter,
+                )} over ${detail.drift.change.nAfter} after (permutation p = ${num(detail.drift.change.p, 3)} for this classifier alone; flags adjust for the whole roster).`
+              : 'Too few ratings in panels of two or more to look for a change.'
+          }
         />
       </div>
 
@@ -112,14 +151,24 @@ export function ClassifierFigures({ detail, who, fileStem }: { detail: Classifie
                 <p className="font-semibold">
                   {FLAG_RULE_LABELS[f.rule]} · <span className="text-muted">{FLAG_STATUS_LABELS[f.status]}</span>
                 </p>
-                <p className="text-sm">{f.evidence.summary}</p>
+                <FlagLapse flag={f} />
+                <p className="text-sm">{own && f.evidence.plain ? f.evidence.plain : f.evidence.summary}</p>
+                {own && f.evidence.plain ? (
+                  <details className="text-sm text-muted">
+                    <summary className="cursor-pointer">How this is computed</summary>
+                    <p className="mt-1">{f.evidence.summary}</p>
+                  </details>
+                ) : null}
                 {f.note ? <p className="text-sm text-muted">Note: {f.note}</p> : null}
               </li>
             ))}
           </ul>
         )}
       </section>
-      <p className="text-sm text-muted">Quadratic kappa with the panel: {withInterval(row.quadraticKappa)}.</p>
+      <p className="text-sm text-muted">
+        Quadratic kappa with the panel: {withInterval(row.quadraticKappa)}. A flag is a prompt to look at the ratings, not a finding; decisions belong to the
+        federation’s rules and licensed classifiers.
+      </p>
     </div>
   );
 }

@@ -14,6 +14,7 @@ interface TableRow {
   n: number;
   exact: number | null;
   within: number | null;
+  stake: number | null;
   bias: number | null;
   biasCi: string;
   kappa: number | null;
@@ -44,6 +45,7 @@ export function ClassifiersPage() {
     { key: 'name', header: 'Name' },
     { key: 'n', header: 'Ratings (n)', align: 'right' },
     { key: 'exact', header: 'Same class as panel', align: 'right', cell: (r) => pct(r.exact) },
+    { key: 'stake', header: 'Points at stake per 100 ratings', align: 'right', cell: (r) => num(r.stake, 0) },
     { key: 'within', header: 'Within half a class', align: 'right', cell: (r) => pct(r.within) },
     {
       key: 'bias',
@@ -108,6 +110,7 @@ export function ClassifiersPage() {
               n: c.n,
               exact: c.exactWithPanel.value,
               within: c.withinHalfWithPanel.value,
+              stake: c.pointsAtStake.per100,
               bias: c.bias.value,
               biasCi: ci(c.bias.ci95),
               kappa: c.quadraticKappa.value,

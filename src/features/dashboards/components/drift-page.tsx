@@ -19,7 +19,7 @@ export function DriftPage() {
       title="Drift over time"
       intro={
         role === 'lead'
-          ? 'Rater drift: each classifier’s mean deviation from the panel by quarter, with the change detector’s signals. Class drift: how athletes’ classes move between successive assessments, and the class distribution by season.'
+          ? 'Rater drift: each classifier’s mean deviation from the panel by quarter, with the test for a change in each classifier’s own level. Class drift: how athletes’ classes move between successive assessments, and the class distribution by season.'
           : 'Class drift: how athletes’ classes move between successive assessments, how often reviews and protests changed a class, and the class distribution by season.'
       }
       federation={federation.slug}
@@ -38,8 +38,8 @@ function RaterDrift({ federation, filters }: { federation: string; filters: Anal
       <h2 id="rater-drift-title">Rater drift</h2>
       <QueryState query={query}>
         {(data) => {
-          const alarmed = data.classifiers.filter((c) => c.lastAlarm).sort((a, b) => (b.lastAlarm!.quarter < a.lastAlarm!.quarter ? -1 : 1));
-          const highlight = alarmed.slice(0, 4).map((c) => c.code);
+          const changed = data.classifiers.filter((c) => c.change?.met).sort((a, b) => (b.change!.changeDate < a.change!.changeDate ? -1 : 1));
+          const highlight = changed.slice(0, 4).map((c) => c.code);
           return (
             <>
               <MultiLineChart
@@ -48,17 +48,20 @@ function RaterDrift({ federation, filters }: { federation: string; filters: Anal
                 title="Each classifier’s mean deviation from the panel by quarter"
                 yLabel="Mean deviation (points, + = higher)"
                 fileName={`${federation}-rater-drift`}
-                summary={`${data.classifiers.length} classifiers. The change detector (CUSUM, k = ${num(data.parameters.k)}, h = ${num(data.parameters.h, 1)}, σ = ${num(
-                  data.parameters.sigma,
-                  3,
-                )} point) signalled for ${alarmed.length}${highlight.length ? `; most recently ${highlight.join(', ')} (in colour)` : ''}.`}
+                summary={`${data.classifiers.length} classifiers. A change in a classifier’s own level (change of at least ${num(data.parameters.driftMin)} point, false-discovery rate ${pct(
+                  data.parameters.falseDiscoveryRate,
+                )} across the roster) under these filters for ${changed.length}${highlight.length ? `: ${highlight.join(', ')} (in colour)` : ''}.`}
               />
+              <details className="text-sm text-muted">
+                <summary className="cursor-pointer font-semibold">How this is computed</summary>
+                <p className="mt-1">{data.parameters.method}. A steady lean does not count as a change; the lean has its own rule.</p>
+              </details>
               <DataTable
-                caption="Change detector by classifier"
+                caption="Strongest change of level by classifier"
                 filterable
                 csvFileName={`${federation}-rater-drift.csv`}
                 rowKey={(r) => r.code}
-                initialSort={[{ id: 'alarms', desc: true }]}
+                initialSort={[{ id: 'size', desc: true }]}
                 columns={[
                   {
                     key: 'code',
@@ -71,16 +74,20 @@ function RaterDrift({ federation, filters }: { federation: string; filters: Anal
                   },
                   { key: 'name', header: 'Name' },
                   { key: 'n', header: 'Ratings (n)', align: 'right' },
-                  { key: 'alarms', header: 'Signals', align: 'right' },
-                  { key: 'last', header: 'Last signal' },
+                  { key: 'date', header: 'Around' },
+                  { key: 'size', header: 'Change (points)', align: 'right', cell: (r) => num(r.size) },
+                  { key: 'p', header: 'Adjusted p', align: 'right', cell: (r) => num(r.p, 3) },
+                  { key: 'met', header: 'Drift rule' },
                   { key: 'latest', header: 'Latest quarter’s deviation (points)', align: 'right', cell: (r) => num(r.latest) },
                 ]}
                 rows={data.classifiers.map((c) => ({
                   code: c.code,
                   name: c.name ?? '',
                   n: c.n,
-                  alarms: c.alarms,
-                  last: c.lastAlarm ? `${c.lastAlarm.quarter}, rating ${c.lastAlarm.direction === 'up' ? 'higher' : 'lower'}` : '',
+                  date: c.change ? `${c.change.changeDate}, ${c.change.direction === 'up' ? 'higher' : c.change.direction === 'down' ? 'lower' : 'level'}` : '',
+                  size: c.change ? Math.abs(c.change.size) : null,
+                  p: c.change?.pAdjusted ?? null,
+                  met: c.change?.met ? 'met' : '',
                   latest: c.byQuarter.at(-1)?.value ?? null,
                 }))}
               />

@@ -8,14 +8,18 @@ import { useSaveFlagSettings } from '../api/save-flag-settings';
 type NumberField = Exclude<keyof FlagThresholds, 'driftEnabled' | 'notifyLead'>;
 
 const FIELDS: { name: NumberField; label: string; hint: string; step: string }[] = [
-  { name: 'kappaMin', label: 'Lowest quadratic kappa with the panel', hint: 'A flag opens below this value.', step: '0.01' },
-  { name: 'kappaWindow', label: 'Ratings for the kappa', hint: 'The classifier’s most recent ratings in panels of two or more.', step: '1' },
-  { name: 'biasMax', label: 'Largest bias (points)', hint: 'A flag opens at this mean deviation or more, up or down; 0.5 is one class step.', step: '0.01' },
-  { name: 'biasWindow', label: 'Ratings for the bias', hint: 'The most recent ratings the bias is averaged over.', step: '1' },
-  { name: 'minRatings', label: 'Fewest ratings to judge', hint: 'Kappa and bias flags need at least this many ratings in their window.', step: '1' },
-  { name: 'driftK', label: 'Change detector allowance k (σ)', hint: 'Half the shift to detect, in standard deviations.', step: '0.1' },
-  { name: 'driftH', label: 'Change detector threshold h (σ)', hint: 'A signal when a cumulative sum passes it.', step: '0.5' },
-  { name: 'driftWindow', label: 'Recent ratings for a drift signal', hint: 'A drift flag opens when the last signal falls within these ratings.', step: '1' },
+  {
+    name: 'falseDiscoveryRate',
+    label: 'False-discovery rate per rule',
+    hint: 'Benjamini–Hochberg control across the roster: 0.05 keeps chance flags to about 1 federation evaluation in 20 or fewer (decision record 0008).',
+    step: '0.01',
+  },
+  { name: 'biasMin', label: 'Smallest lean worth a flag (points)', hint: 'Mean deviation from the rest of the panel, up or down; 0.25 is a quarter class, 0.5 a class step.', step: '0.01' },
+  { name: 'biasWindow', label: 'Ratings for the lean', hint: 'The classifier’s most recent ratings in panels of two or more.', step: '1' },
+  { name: 'agreementGap', label: 'Smallest shortfall in same-class agreement', hint: 'Below the other classifiers’ rate by at least this share (0.10 = 10 percentage points).', step: '0.01' },
+  { name: 'agreementWindow', label: 'Ratings for the agreement', hint: 'The classifier’s most recent ratings in panels of two or more.', step: '1' },
+  { name: 'driftMin', label: 'Smallest change of level worth a flag (points)', hint: 'After − before, compared with the classifier’s own earlier ratings.', step: '0.01' },
+  { name: 'minRatings', label: 'Fewest ratings to judge', hint: 'Lean and agreement flags need at least this many ratings in their window.', step: '1' },
 ];
 
 /** The lead's thresholds of the calibration flags (react-hook-form with the shared zod schema). */
@@ -64,7 +68,7 @@ export function FlagSettingsForm({ federation, initial }: { federation: string; 
           <input type="checkbox" className="h-5 w-5" {...form.register('driftEnabled')} /> Raise drift flags
         </label>
         <label className="flex items-center gap-2 font-semibold">
-          <input type="checkbox" className="h-5 w-5" {...form.register('notifyLead')} /> E-mail the leads when new flags open
+          <input type="checkbox" className="h-5 w-5" {...form.register('notifyLead')} /> E-mail the leads when flags open or stop holding
         </label>
       </div>
       {serverError ? (

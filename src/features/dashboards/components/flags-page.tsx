@@ -8,6 +8,7 @@ import { useEvaluateFlags } from '../api/evaluate-flags';
 import { useFlagSettings } from '../api/get-flag-settings';
 import { useFlags } from '../api/get-flags';
 import { useUpdateFlag } from '../api/update-flag';
+import { FlagLapse } from './flag-lapse';
 import { FlagSettingsForm } from './flag-settings-form';
 import { PageFrame, QueryState } from './page-frame';
 
@@ -21,7 +22,7 @@ export function FlagsPage() {
   return (
     <PageFrame
       title="Calibration flags"
-      intro="Classifiers whose recent ratings cross the thresholds below, with the evidence behind each flag. A flag stays until you close it with a note; it is a prompt to look and talk, not a finding."
+      intro="Classifiers whose ratings meet one of three tested rules — a persistent lean, a change in their own level (drift), same-class agreement below the federation’s — with the evidence behind each flag. Each rule controls chance flags across the roster (decision record 0008). A flag stays until you close it with a note; when its condition stops holding it says so, with today’s figures. It is a prompt to look and talk, not a finding."
       federation={federation.slug}
       filters={null}
     >
@@ -94,7 +95,7 @@ export function FlagsPage() {
       </section>
       <QueryState query={settings}>{(th) => <FlagSettingsForm federation={federation.slug} initial={th} />}</QueryState>
       <p className="text-sm text-muted">
-        Defaults and the reasoning behind them: docs/dashboards.md. The change detector is the CUSUM of decision record 0002.
+        Defaults, the tests behind the rules and their simulated false-flag rates and power: decision record 0008 (docs/decisions/0008-calibration-flag-rules.md).
       </p>
     </PageFrame>
   );
@@ -107,7 +108,9 @@ function EvidenceCell({ flag }: { flag: CalibrationFlag }) {
       <p>{e.summary}</p>
       <p className="text-xs text-muted">
         {e.ci95 ? `95 % CI ${e.ci95[0].toFixed(2)} to ${e.ci95[1].toFixed(2)} · ` : ''}
-        {e.n} ratings{e.from ? `, ${e.from} to ${e.to}` : ''}
+        {e.n} ratings{e.total !== undefined && e.total !== e.n ? ` of ${e.total}` : ''}
+        {e.from ? `, ${e.from} to ${e.to}` : ''}
+        {e.changeDate ? ` · change around ${e.changeDate}, ${e.direction === 'up' ? 'up' : 'down'}` : ''}
       </p>
     </div>
   );
@@ -118,7 +121,7 @@ function StatusBadge({ flag }: { flag: CalibrationFlag }) {
   return (
     <div className="space-y-1">
       <span className={`inline-block rounded-full px-2 py-0.5 text-xs font-semibold text-ink ${tone}`}>{FLAG_STATUS_LABELS[flag.status]}</span>
-      {!flag.stillMet && flag.status !== 'closed' ? <p className="text-xs text-muted">No longer met at the last evaluation</p> : null}
+      <FlagLapse flag={flag} />
       {flag.note ? <p className="text-xs text-muted">Note: {flag.note}</p> : null}
     </div>
   );

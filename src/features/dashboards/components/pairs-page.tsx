@@ -172,25 +172,47 @@ function PairPanel({ federation, filters, a, b }: { federation: string; filters:
                   Too few shared assessments ({p.n}, minimum {p.minShared}) for an agreement value.
                 </p>
               ) : (
-                <dl className="space-y-1 text-sm">
+                <dl className="space-y-1 text-sm" data-testid="pair-headline">
                   <div>
                     <dt className="inline font-semibold">Same class: </dt>
                     <dd className="inline">{withInterval(p.stats.exact)}</dd>
                   </div>
                   <div>
-                    <dt className="inline font-semibold">Within half a class: </dt>
-                    <dd className="inline">{withInterval(p.stats.withinHalfClass)}</dd>
+                    <dt className="inline font-semibold">Points apart per 100 shared assessments: </dt>
+                    <dd className="inline">
+                      {num(p.stats.pointsApart.per100, 0)} (mean {num(p.stats.pointsApart.meanAbs.value)} point; {pct(p.stats.pointsApart.offByHalf.value)} half a class or more
+                      apart)
+                    </dd>
                   </div>
                   <div>
-                    <dt className="inline font-semibold">Cohen’s kappa: </dt>
+                    <dt className="inline font-semibold">Half-point splits: </dt>
+                    <dd className="inline">
+                      {p.stats.splits
+                        .filter((s) => s.touching >= 5 && (s.splitRate ?? 0) > 0)
+                        .sort((x, y) => (y.splitRate ?? 0) - (x.splitRate ?? 0))
+                        .slice(0, 3)
+                        .map((s) => `${s.lower}/${s.upper} ${pct(s.splitRate)} of ${s.touching}`)
+                        .join(' · ') || 'none near any boundary'}
+                    </dd>
+                  </div>
+                  <div>
+                    <dt className="inline font-semibold">Cohen’s kappa (unweighted): </dt>
                     <dd className="inline">{withInterval(p.stats.kappa)}</dd>
                   </div>
                   <div>
-                    <dt className="inline font-semibold">Linearly weighted kappa: </dt>
+                    <dt className="inline font-semibold">Gwet’s AC1: </dt>
+                    <dd className="inline">{withInterval(p.stats.ac1)}</dd>
+                  </div>
+                  <div>
+                    <dt className="inline font-semibold">Within half a class (counts a half-class miss as agreement): </dt>
+                    <dd className="inline">{withInterval(p.stats.withinHalfClass)}</dd>
+                  </div>
+                  <div>
+                    <dt className="inline font-semibold">Linearly weighted kappa (counts a half-class miss as 6/7 of an agreement): </dt>
                     <dd className="inline">{withInterval(p.stats.linearKappa)}</dd>
                   </div>
                   <div>
-                    <dt className="inline font-semibold">Quadratically weighted kappa: </dt>
+                    <dt className="inline font-semibold">Quadratically weighted kappa (counts a half-class miss as near agreement): </dt>
                     <dd className="inline">{withInterval(p.stats.quadraticKappa)}</dd>
                   </div>
                 </dl>

@@ -1,7 +1,9 @@
 import { Link } from 'react-router';
-import { FLAG_RULE_LABELS, FLAG_STATUS_LABELS, type Overview } from '../../../../shared/schemas/analytics';
+import { FLAG_RULE_LABELS, FLAG_STATUS_LABELS, type Coefficient, type Overview } from '../../../../shared/schemas/analytics';
 import { useCurrentFederation } from '../../../app/use-federation';
+import { DataTable } from '../../../components/data-table';
 import { TrendChart } from '../../dashboards/components/charts';
+import { FlagLapse } from '../../dashboards/components/flag-lapse';
 import { integer, num, pct } from '../../dashboards/components/format';
 import { PageFrame, QueryState } from '../../dashboards/components/page-frame';
 import { useAnalyticsFilters } from '../../dashboards/components/use-analytics-filters';
@@ -9,8 +11,11 @@ import { useOverview } from '../api/get-overview';
 import { SummaryCounts } from './summary-counts';
 
 const NOTE_WORDS = { reliable: 'reliable (α ≥ 0.800)', tentative: 'tentative conclusions only (0.667 ≤ α < 0.800)', unreliable: 'not to be relied on (α < 0.667)' } as const;
+const CI_WORDS: Record<string, string> = { 'bootstrap-percentile': 'bootstrap percentile', 'wald-null-se': 'Wald, null SE', wald: 'Wald', wilson: 'Wilson' };
 
-function Coefficient({ heading, stat, testId }: { heading: string; stat: Overview['alpha'] | Overview['fleissKappa']; testId: string }) {
+type Labelled = Overview['fleissKappa'] | Overview['gwet']['ac1'];
+
+function ChanceCorrected({ heading, stat, testId, note }: { heading: string; stat: Labelled; testId: string; note: string }) {
   return (
     <div className="card space-y-1">
       <h3 className="text-sm font-semibold text-muted">{heading}</h3>
@@ -21,7 +26,7 @@ function Coefficient({ heading, stat, testId }: { heading: string; stat: Overvie
         {stat.ci95 ? (
           <>
             95 % CI {num(stat.ci95[0], 3)} to {num(stat.ci95[1], 3)}
-            <span className="text-muted"> ({stat.ciMethod === 'bootstrap-percentile' ? 'bootstrap percentile' : stat.ciMethod === 'wald-null-se' ? 'Wald, null SE' : stat.ciMethod})</span>
+            <span className="text-muted"> ({CI_WORDS[stat.ciMethod ?? ''] ?? stat.ciMethod})</span>
           </>
         ) : (
           <span className="text-muted">{stat.reason ?? 'no interval'}</span>
@@ -30,8 +35,105 @@ function Coefficient({ heading, stat, testId }: { heading: string; stat: Overvie
       <p className="text-sm">
         Band: <strong>{stat.label ?? '—'}</strong> <span className="text-muted">(Landis &amp; Koch 1977)</span>
       </p>
-      {'note' in stat && stat.note ? <p className="text-sm text-muted">Krippendorff (2004): {NOTE_WORDS[stat.note]}</p> : null}
+      <p className="text-sm text-muted">{note}</p>
     </div>
+  );
+}
+
+function Headline({ o }: { o: Overview }) {
+  const h = o.headline;
+  const splits = [...h.splits].filter((b) => b.splitRate !== null && b.n >= 5).sort((a, b) => (b.splitRate ?? 0) - (a.splitRate ?? 0));
+  const stake = h.pointsAtStake;
+  return (
+    <section aria-labelledby="headline-title" className="space-y-3" data-testid="headline">
+      <h2 id="headline-title">Same class, half-point splits and points at stake</h2>
+      <dl className="grid grid-cols-2 gap-3 lg:grid-cols-4">
+        <div className="card py-4">
+          <dt className="text-sm text-muted">Panels unanimous (same class)</dt>
+          <dd className="stat-value" data-testid="same-class-unanimous">
+            {pct(h.panelsUnanimous.value)}
+          </dd>
+          <dd className="text-sm text-muted">
+            of {integer.format(h.panelsUnanimous.n)} assessments with two or more ratings
+            {h.panelsUnanimous.ci95 ? ` · 95 % CI ${pct(h.panelsUnanimous.ci95[0])} to ${pct(h.panelsUnanimous.ci95[1])}` : ''}
+          </dd>
+        </div>
+        <div className="card py-4">
+          <dt className="text-sm text-muted">Same class, pairs of members</dt>
+          <dd className="stat-value" data-testid="same-class-pairwise">
+            {pct(h.pairwiseSameClass.value)}
+          </dd>
+          <dd className="text-sm text-muted">share of pairs in a panel giving the same class, averaged over assessments</dd>
+        </div>
+        <div className="card py-4">
+          <dt className="text-sm text-muted">Points at stake per 100 ratings</dt>
+          <dd className="stat-value" data-testid="points-at-stake">
+            {num(stake.per100, 0)}
+          </dd>
+          <dd className="text-sm text-muted">
+            mean {num(stake.meanAbs.value)} point from the panel’s final class over {integer.format(stake.n)} ratings
+          </dd>
+        </div>
+        <div className="card py-4">
+          <dt className="text-sm text-muted">Ratings off by half a class or more</dt>
+          <dd className="stat-value" data-testid="off-by-half">
+            {pct(stake.offByHalf.value, 1)}
+          </dd>
+          <dd className="text-sm text-muted">{stake.offByHalf.ci95 ? `95 % CI ${pct(stake.offByHalf.ci95[0], 1)} to ${pct(stake.offByHalf.ci95[1], 1)}` : ''}</dd>
+        </div>
+      </dl>
+      <div className="card">
+        <h3 className="text-base">Half-point splits by class boundary</h3>
+        <p className="text-sm text-muted">Share of assessments touching either class whose panel had ratings on both sides of the boundary.</p>
+        <ul className="mt-2 grid grid-cols-2 gap-x-6 gap-y-1 text-sm sm:grid-cols-4" data-testid="boundary-splits">
+          {h.splits.map((b) => (
+            <li key={b.lower}>
+              <strong>
+                {b.lower}/{b.upper}
+              </strong>{' '}
+              {pct(b.splitRate)} <span className="text-muted">({integer.format(b.splits)} of {integer.format(b.n)})</span>
+            </li>
+          ))}
+        </ul>
+        {splits.length ? <p className="mt-2 text-sm">Most often split: {splits.slice(0, 2).map((b) => `${b.lower}/${b.upper}`).join(' and ')}.</p> : null}
+      </div>
+      <p className="text-sm text-muted">
+        In this sport half a class changes who may play under a team’s point limit, so these figures come first. Points at stake is our own figure: the mean distance of a
+        rating from the panel’s final class in sport-class points, ×100. They describe consistency between classifiers, not whether any athlete’s class is right.
+      </p>
+    </section>
+  );
+}
+
+function CoefficientsTable({ rows, federation }: { rows: Coefficient[]; federation: string }) {
+  return (
+    <DataTable
+      caption="Every coefficient, with its interval and what it measures"
+      csvFileName={`${federation}-coefficients.csv`}
+      rowKey={(r) => r.id}
+      columns={[
+        { key: 'name', header: 'Coefficient' },
+        { key: 'value', header: 'Value', align: 'right', cell: (r) => num(r.value, 3) },
+        { key: 'ci', header: '95 % interval', cell: (r) => (r.ci ? r.ci : <span className="text-muted">{r.reason ?? '—'}</span>) },
+        { key: 'n', header: 'n', align: 'right' },
+        { key: 'method', header: 'Interval method' },
+        { key: 'measures', header: 'What it measures' },
+        { key: 'forgives', header: 'What it forgives' },
+        { key: 'reading', header: 'Published reading' },
+      ]}
+      rows={rows.map((r) => ({
+        id: r.id,
+        name: r.name,
+        value: r.value,
+        ci: r.ci95 ? `${num(r.ci95[0], 3)} to ${num(r.ci95[1], 3)}` : '',
+        reason: r.reason ?? null,
+        n: r.n,
+        method: r.ciMethod ? (CI_WORDS[r.ciMethod] ?? r.ciMethod) : '',
+        measures: r.measures,
+        forgives: r.forgives ?? '',
+        reading: r.interpretation ? `${r.interpretation.label} (${r.interpretation.source.split(',')[0]})` : '',
+      }))}
+    />
   );
 }
 
@@ -42,7 +144,7 @@ export function OverviewPage() {
   return (
     <PageFrame
       title={federation.name}
-      intro="How consistently the federation’s panels classify: the headline reliability, agreement, its trend by quarter and the open calibration flags."
+      intro="How consistently the federation’s panels classify: same-class agreement and points at stake first, then the coefficients, the trend by quarter and the open calibration flags."
       federation={federation.slug}
       filters={filters}
     >
@@ -50,23 +152,42 @@ export function OverviewPage() {
       <QueryState query={overview}>
         {(o) => (
           <div className="space-y-6">
+            <Headline o={o} />
             <section aria-labelledby="reliability-title" className="space-y-3">
-              <h2 id="reliability-title">Reliability of the panels</h2>
+              <h2 id="reliability-title">Beyond chance (unweighted)</h2>
               <div className="grid gap-3 md:grid-cols-2">
-                <Coefficient heading={o.alpha.name} stat={o.alpha} testId="alpha-value" />
-                <Coefficient heading={o.fleissKappa.name} stat={o.fleissKappa} testId="fleiss-value" />
+                <ChanceCorrected heading={o.fleissKappa.name} stat={o.fleissKappa} testId="fleiss-value" note="Same-class agreement beyond what the class shares would give by chance." />
+                <ChanceCorrected
+                  heading="Gwet’s AC1"
+                  stat={o.gwet.ac1}
+                  testId="ac1-value"
+                  note="Like kappa, with a chance term that uneven class shares (many 1.0s, few 2.0s) do not inflate."
+                />
               </div>
-              <dl className="grid grid-cols-2 gap-3 lg:grid-cols-4">
+              <h2 id="weighted-title">With partial credit for near misses (weighted)</h2>
+              <dl className="grid grid-cols-1 gap-3 md:grid-cols-3">
                 <div className="card py-4">
-                  <dt className="text-sm text-muted">Panels unanimous</dt>
-                  <dd className="stat-value">{pct(o.exact.value)}</dd>
-                  <dd className="text-sm text-muted">{o.exact.ci95 ? `95 % CI ${pct(o.exact.ci95[0])} to ${pct(o.exact.ci95[1])}` : ''}</dd>
+                  <dt className="text-sm text-muted">Krippendorff’s alpha (ordinal) — counts a miss between neighbouring classes as small</dt>
+                  <dd className="stat-value" data-testid="alpha-value">
+                    {num(o.alpha.value, 3)}
+                  </dd>
+                  <dd className="text-sm text-muted">
+                    {o.alpha.ci95 ? `95 % CI ${num(o.alpha.ci95[0], 3)} to ${num(o.alpha.ci95[1], 3)} (${CI_WORDS[o.alpha.ciMethod ?? ''] ?? o.alpha.ciMethod}). ` : ''}
+                    {o.alpha.note ? `Krippendorff (2004): ${NOTE_WORDS[o.alpha.note]}.` : ''}
+                  </dd>
                 </div>
                 <div className="card py-4">
-                  <dt className="text-sm text-muted">Panels within half a class</dt>
+                  <dt className="text-sm text-muted">Gwet’s AC2, quadratic — counts a half-class miss as near agreement</dt>
+                  <dd className="stat-value">{num(o.gwet.ac2Quadratic.value, 3)}</dd>
+                  <dd className="text-sm text-muted">Linear weights (a half-class miss counts 6/7): {num(o.gwet.ac2Linear.value, 3)}</dd>
+                </div>
+                <div className="card py-4">
+                  <dt className="text-sm text-muted">Panels within half a class — counts a half-class miss as agreement</dt>
                   <dd className="stat-value">{pct(o.withinHalfClass.value)}</dd>
                   <dd className="text-sm text-muted">{o.withinHalfClass.ci95 ? `95 % CI ${pct(o.withinHalfClass.ci95[0])} to ${pct(o.withinHalfClass.ci95[1])}` : ''}</dd>
                 </div>
+              </dl>
+              <dl className="grid grid-cols-2 gap-3">
                 <div className="card py-4">
                   <dt className="text-sm text-muted">Assessments in these filters</dt>
                   <dd className="stat-value" data-testid="filtered-assessments">
@@ -82,10 +203,18 @@ export function OverviewPage() {
                   </dd>
                 </div>
               </dl>
-              <p className="text-sm text-muted">
-                Bands: {o.sources.landisKoch}. Alpha’s interval: {o.bootstrap.B} bootstrap resamples of assessments (seed {o.bootstrap.seed}). Rule of thumb for alpha:{' '}
-                {o.sources.krippendorff}.
-              </p>
+            </section>
+            <section aria-labelledby="coefficients-title" className="space-y-2">
+              <h2 id="coefficients-title">Coefficients</h2>
+              <CoefficientsTable rows={o.coefficients} federation={federation.slug} />
+              <details className="text-sm text-muted">
+                <summary className="cursor-pointer font-semibold">How this is computed</summary>
+                <p className="mt-1">
+                  Intervals: {o.bootstrap.B} bootstrap resamples of assessments (seed {o.bootstrap.seed}) where the method says bootstrap; otherwise the coefficient’s own
+                  large-sample interval. Readings are given only where the coefficient has its own published one: {o.sources.landisKoch} for kappa-type coefficients;{' '}
+                  {o.sources.krippendorff} for alpha. The authors call their bands benchmarks, not tests.
+                </p>
+              </details>
             </section>
             <TrendChart
               points={o.trend}
@@ -119,7 +248,10 @@ export function OverviewPage() {
                           {f.classifierCode} {f.classifierName}
                         </Link>
                         <span>{FLAG_RULE_LABELS[f.rule]}</span>
-                        <span className="text-muted">{FLAG_STATUS_LABELS[f.status]}</span>
+                        <span className="text-muted">{f.stillMet ? FLAG_STATUS_LABELS[f.status] : `${FLAG_STATUS_LABELS[f.status]}, no longer met`}</span>
+                        <span className="w-full">
+                          <FlagLapse flag={f} />
+                        </span>
                         <span className="w-full text-sm text-muted">{f.evidence.summary}</span>
                       </li>
                     ))}
