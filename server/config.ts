@@ -105,28 +105,28 @@ export function envName(nodeEnv: string | undefined): Config['env'] {
 /** Every problem of the environment, one readable line each; empty when it is fine. */
 export function environmentProblems(source: NodeJS.ProcessEnv): string[] {
   const parsed = environmentSchema.safeParse(source);
-  if (!parsed.success) {
-    return parsed.error.issues.map((issue) => {
-      const name = String(issue.path[0] ?? 'environment');
-      return issue.message.includes(name) ? issue.message : `${name}: ${issue.message}`;
-    });
-  }
-  const env = parsed.data;
-  const problems: string[] = [];
-  const production = envName(env.NODE_ENV) === 'production';
-  if (env.SESSION_SECRET !== undefined) {
-    const bytes = Buffer.byteLength(env.SESSION_SECRET, 'utf8');
+  const problems = parsed.success
+    ? []
+    : parsed.error.issues.map((issue) => {
+        const name = String(issue.path[0] ?? 'environment');
+        return issue.message.includes(name) ? issue.message : `${name}: ${issue.message}`;
+      });
+  const value = (name: string) => (typeof source[name] === 'string' && source[name].trim() !== '' ? source[name] : undefined);
+  const production = envName(value('NODE_ENV')) === 'production';
+  const secret = value('SESSION_SECRET');
+  if (secret !== undefined) {
+    const bytes = Buffer.byteLength(secret, 'utf8');
     if (bytes < SESSION_SECRET_MIN_BYTES) {
       problems.push(`SESSION_SECRET is ${bytes} bytes long: use at least ${SESSION_SECRET_MIN_BYTES} random bytes (for example \`openssl rand -hex 32\`)`);
-    } else if (new Set(env.SESSION_SECRET).size < SESSION_SECRET_MIN_DISTINCT) {
+    } else if (new Set(secret).size < SESSION_SECRET_MIN_DISTINCT) {
       problems.push('SESSION_SECRET repeats a few characters: use random bytes (for example `openssl rand -hex 32`)');
     }
   } else if (production) {
     problems.push(`SESSION_SECRET must be set in production: at least ${SESSION_SECRET_MIN_BYTES} random bytes (for example \`openssl rand -hex 32\`)`);
   }
-  if (production && env.SMTP_URL === undefined) problems.push('SMTP_URL must be set in production: the relay that sends invitations and password resets');
-  if (production && env.PUBLIC_ORIGIN === undefined) problems.push('PUBLIC_ORIGIN must be set in production: the address people open, used in e-mailed links');
-  if (production && env.DATABASE_PATH === ':memory:') problems.push('DATABASE_PATH cannot be :memory: in production: everything would be lost at the next start');
+  if (production && value('SMTP_URL') === undefined) problems.push('SMTP_URL must be set in production: the relay that sends invitations and password resets');
+  if (production && value('PUBLIC_ORIGIN') === undefined) problems.push('PUBLIC_ORIGIN must be set in production: the address people open, used in e-mailed links');
+  if (production && value('DATABASE_PATH') === ':memory:') problems.push('DATABASE_PATH cannot be :memory: in production: everything would be lost at the next start');
   return problems;
 }
 
