@@ -14,6 +14,12 @@ import type { ZxcvbnFactory } from '@zxcvbn-ts/core';
 import { HttpError } from '../http/errors';
 
 export const MIN_SCORE = 3;
+/**
+ * zxcvbn gives each part of a password a floor of guesses, so a password made of the person's
+ * own words still reaches score 3 (10^8) by that floor alone. When the estimate uses the
+ * person's or the site's words, at least 10^10 guesses are required instead.
+ */
+export const MIN_GUESSES_LOG10_WITH_PERSONAL_WORDS = 10;
 
 /** Words anyone would try first against this site. */
 const SITE_WORDS = ['panelwise', 'classifier', 'classification', 'wheelchair', 'basketball', 'federation', 'demo'];
@@ -56,8 +62,11 @@ function personalWords(inputs: readonly string[]): string[] {
 export async function passwordStrength(password: string, personal: readonly string[] = []): Promise<StrengthVerdict> {
   const zxcvbn = await estimator();
   const result = zxcvbn.check(password, [...SITE_WORDS, ...personalWords(personal)]);
-  if (result.score >= MIN_SCORE) return { ok: true, score: result.score, message: '' };
-  const why = result.feedback.warning ? `${result.feedback.warning.replace(/\.?$/, '.')} ` : '';
+  const personalMatch = result.sequence.some((m) => m.pattern === 'dictionary' && 'dictionaryName' in m && m.dictionaryName === 'userInputs');
+  const leansOnPersonal = personalMatch && result.guessesLog10 < MIN_GUESSES_LOG10_WITH_PERSONAL_WORDS;
+  if (result.score >= MIN_SCORE && !leansOnPersonal) return { ok: true, score: result.score, message: '' };
+  const warning = result.feedback.warning ?? (leansOnPersonal ? 'It is built from your own name or e-mail, or from this site’s name.' : null);
+  const why = warning ? `${warning.replace(/\.?$/, '.')} ` : '';
   const tip = result.feedback.suggestions[0] ?? 'Add more words that are less common.';
   return {
     ok: false,
