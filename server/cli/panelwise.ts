@@ -8,7 +8,7 @@
  */
 import { pathToFileURL } from 'node:url';
 import { analyzeRatings, type AgreementReport, type StatResult } from '../analysis';
-import { OPS_COMMANDS, OPS_USAGE, runOpsCommand, type OpsCommand } from './ops-commands';
+import { OPS_COMMANDS, OPS_USAGE } from './ops-usage';
 import { readTidyCsv, TidyCsvError } from './read-tidy-csv';
 
 const USAGE = `usage: panelwise analyze FILE.csv [--format json|table] [--bootstrap B] [--seed S]
@@ -214,6 +214,9 @@ export function main(argv: string[]): number {
 const invokedDirectly = process.argv[1] !== undefined && import.meta.url === pathToFileURL(process.argv[1]).href;
 if (invokedDirectly) {
   const argv = process.argv.slice(2);
-  if ((OPS_COMMANDS as readonly string[]).includes(argv[0] ?? '')) process.exitCode = await runOpsCommand(argv[0] as OpsCommand, argv.slice(1));
-  else process.exitCode = main(argv);
+  if ((OPS_COMMANDS as readonly string[]).includes(argv[0] ?? '')) {
+    // Loaded only for the operator's commands: `analyze` stays free of the database and server code.
+    const { runOpsCommand } = await import('./ops-commands');
+    process.exitCode = await runOpsCommand(argv[0] as (typeof OPS_COMMANDS)[number], argv.slice(1));
+  } else process.exitCode = main(argv);
 }
