@@ -7,8 +7,11 @@
  * "score"). The check runs on the server only: its dictionaries (several MB) stay out of the
  * client bundle, whose form shows the server's message.
  *
- * Levenshtein matching is off: with it one check took 0.2–0.7 s of CPU, without it a few
- * milliseconds (measured on this project's machine for 10- to 23-character passwords).
+ * Levenshtein matching is off, the estimate covers the first 64 characters and tries at most 8
+ * l33t substitutions: with the library's defaults one hostile 200-character password took
+ * seconds of CPU on the event loop; with these bounds the worst of bench/password.bench.ts took
+ * 0.66 s (median 58 ms) on a heavily loaded machine where one scrypt hash took 1.3 s. The routes
+ * that check (invitation accept, password reset) need a valid e-mailed link and are rate limited.
  */
 import type { ZxcvbnFactory } from '@zxcvbn-ts/core';
 import { HttpError } from '../http/errors';
@@ -35,6 +38,11 @@ function estimator(): Promise<ZxcvbnFactory> {
         graphs: common.adjacencyGraphs,
         translations: en.translations,
         useLevenshteinDistance: false,
+        // Bounds on the work per check (the estimator runs on the event loop): the first 64
+        // characters are estimated (a longer password is strong by its length), and at most 8
+        // l33t substitutions are tried.
+        maxLength: 64,
+        l33tMaxSubstitutions: 8,
       }),
   );
   return factory;
