@@ -2,6 +2,7 @@ import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { clientDist, createApp } from './app';
+import { loadPasswordEstimator } from './auth/password-strength';
 import { ConfigError, loadConfig } from './config';
 import type { AppContext } from './context';
 import { openDatabase } from './db/connection';
@@ -55,6 +56,8 @@ async function main() {
   process.on('exit', () => lock.release());
   if (lock.replaced) logger.warn(`the lock file named another live server (pid ${lock.replaced.pid} on ${lock.replaced.host}): two servers share ${config.databasePath}`);
 
+  // The password estimator's dictionaries take a moment to load: before listening, not in a request.
+  await loadPasswordEstimator();
   const mailer = await startMailer({ config, db, logger });
   const ctx: AppContext = { db, sqlite, config, logger, mailer };
   const app = createApp(ctx);

@@ -48,6 +48,11 @@ function estimator(): Promise<ZxcvbnFactory> {
   return factory;
 }
 
+/** Loads the estimator now (the server does so before it listens, so no request waits for the dictionaries). */
+export async function loadPasswordEstimator(): Promise<void> {
+  await estimator();
+}
+
 export interface StrengthVerdict {
   ok: boolean;
   score: number;
