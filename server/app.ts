@@ -7,6 +7,7 @@ import { pinoHttp } from 'pino-http';
 import { authenticate, sameOriginWrites } from './auth/access';
 import type { AppContext } from './context';
 import { apiNotFound, errorHandler } from './http/errors';
+import { jsonBody } from './http/json-body';
 import { apiRouter } from './routes/index';
 
 export const clientDist = path.resolve(import.meta.dirname, '../dist');
@@ -53,9 +54,9 @@ export function createApp(ctx: AppContext, options: AppOptions = {}): Express {
   app.use(cookieParser());
 
   const api = express.Router();
-  api.use(express.json({ limit: '10mb' }));
   api.use(sameOriginWrites);
   api.use(authenticate(ctx));
+  api.use(jsonBody);
   api.use(apiRouter(ctx));
   api.use(apiNotFound);
   app.use('/api', api);

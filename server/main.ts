@@ -2,7 +2,8 @@ import { execFileSync } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { clientDist, createApp } from './app';
-import { loadConfig } from './config';
+import { loadPasswordEstimator } from './auth/password-strength';
+import { ConfigError, loadConfig } from './config';
 import type { AppContext } from './context';
 import { openDatabase } from './db/connection';
 import { migrateToLatest } from './db/migrate';
@@ -11,14 +12,25 @@ import { createLogger } from './logger';
 import { startMailer } from './mail/mailer';
 import { scheduleExportCleanup } from './exports/storage';
 import { createExerciseScheduler } from './services/exercise-scheduler';
+import { demoChoice, productionRefusal, siteOwnerCount } from './ops/demo-guard';
+import { acquireServerLock } from './ops/server-lock';
 
 /**
- * Starts Panelwise: builds the client when it is missing (with --build-if-missing), applies
- * migrations, seeds the demo into an empty database (unless SEED_DEMO=0), and serves the API
- * and the client on PORT (default 3000).
+ * Starts Panelwise: checks the environment (one line per problem, exit code 1), builds the
+ * client when it is missing (with --build-if-missing), applies migrations, seeds the demo into an
+ * empty database outside production (or with --demo / SEED_DEMO=1; never with SEED_DEMO=0),
+ * keeps a lock file beside the database, and serves the API and the client on PORT (default 3000).
  */
 async function main() {
-  const config = loadConfig();
+  let config: ReturnType<typeof loadConfig>;
+  try {
+    config = loadConfig();
+  } catch (error) {
+    if (!(error instanceof ConfigError)) throw error;
+    for (const problem of error.problems) process.stderr.write(`panelwise: ${problem}\n`);
+    process.stderr.write('panelwise: not started; see docs/operations.md for the environment\n');
+    process.exit(1);
+  }
   const logger = createLogger(config.env);
 
   if (process.argv.includes('--build-if-missing') && !fs.existsSync(path.join(clientDist, 'index.html'))) {
@@ -28,11 +40,26 @@ async function main() {
 
   const { db, sqlite } = openDatabase(config.databasePath);
   await migrateToLatest(db);
-  if (process.env.SEED_DEMO !== '0' && (await isEmpty(db))) {
+  const demo = demoChoice(config, process.argv, process.env.SEED_DEMO);
+  if (demo.seed && (await isEmpty(db))) {
     logger.info('empty database: seeding the demo federation');
     await seedDemo(db, sqlite);
   }
+  const refusal = await productionRefusal(db, config, demo);
+  if (refusal) {
+    logger.fatal(`not started: ${refusal}`);
+    await db.destroy();
+    process.exit(1);
+  }
+  if ((await siteOwnerCount(db)) === 0) {
+    logger.warn('no site owner yet: create the first one with `npx panelwise create-owner EMAIL` (it asks for the password, or reads it from standard input)');
+  }
+  const lock = acquireServerLock(config.databasePath);
+  process.on('exit', () => lock.release());
+  if (lock.replaced) logger.warn(`the lock file named another live server (pid ${lock.replaced.pid} on ${lock.replaced.host}): two servers share ${config.databasePath}`);
 
+  // The password estimator's dictionaries take a moment to load: before listening, not in a request.
+  await loadPasswordEstimator();
   const mailer = await startMailer({ config, db, logger });
   const ctx: AppContext = { db, sqlite, config, logger, mailer };
   // Removes the files of expired research exports now and every hour.

@@ -55,6 +55,12 @@ export function sessionCookieOptions(ctx: AppContext) {
   };
 }
 
+/** When a session that started at `createdAt` (ISO time) ends at the latest, in epoch milliseconds. */
+export function sessionEndsAt(ctx: AppContext, createdAt: string): number {
+  const started = Date.parse(createdAt);
+  return (Number.isFinite(started) ? started : 0) + ctx.config.sessionMaxDays * 24 * 3600 * 1000;
+}
+
 /** Resolves a bearer API token to its auth; set by the tokens module. */
 export type BearerResolver = (ctx: AppContext, token: string) => Promise<TokenAuth | null>;
 let bearerResolver: BearerResolver | null = null;
@@ -64,8 +70,8 @@ export function setBearerResolver(resolver: BearerResolver): void {
 
 /**
  * Reads the session cookie (or a bearer API token) and sets `req.auth`. A session whose row is
- * revoked, whose user's session version moved on, or that has no active membership left is
- * ignored. It never rejects by itself: routes say what they require.
+ * revoked, whose user's session version moved on, that is older than the absolute lifetime
+ * (sessionMaxDays), or that has no active membership left is ignored. It never rejects by itself: routes say what they require.
  */
 export function authenticate(ctx: AppContext): RequestHandler {
   return async (req, res, next) => {
@@ -84,10 +90,17 @@ export function authenticate(ctx: AppContext): RequestHandler {
     const row = await ctx.db
       .selectFrom('sessions')
       .innerJoin('users', 'users.id', 'sessions.user_id')
-      .select(['sessions.id as sid', 'sessions.revoked_at', 'users.id', 'users.email', 'users.display_name', 'users.is_owner', 'users.session_version'])
+      .select(['sessions.id as sid', 'sessions.revoked_at', 'sessions.created_at', 'users.id', 'users.email', 'users.display_name', 'users.is_owner', 'users.session_version'])
       .where('sessions.id', '=', claims.sid)
       .executeTakeFirst();
     if (!row || row.revoked_at || row.id !== claims.uid || row.session_version !== claims.sv) return next();
+    // The absolute lifetime: however active, a session ends sessionMaxDays after its sign-in.
+    const endsAt = sessionEndsAt(ctx, row.created_at);
+    if (endsAt <= Date.now()) {
+      res.clearCookie(SESSION_COOKIE, { path: '/' });
+      await ctx.db.updateTable('sessions').set({ revoked_at: new Date().toISOString() }).where('id', '=', row.sid).where('revoked_at', 'is', null).execute();
+      return next();
+    }
     req.auth = {
       kind: 'session',
       sessionId: row.sid,
@@ -95,8 +108,10 @@ export function authenticate(ctx: AppContext): RequestHandler {
     };
     const now = Math.floor(Date.now() / 1000);
     if (now - claims.iat > RENEW_AFTER_SECONDS) {
-      const fresh = await signSessionToken({ sid: claims.sid, uid: claims.uid, sv: claims.sv }, ctx.config.sessionSecret, ctx.config.sessionMinutes);
-      res.cookie(SESSION_COOKIE, fresh, sessionCookieOptions(ctx));
+      // Renewed for sessionMinutes more, but never past the session's absolute end.
+      const minutes = Math.max(1, Math.min(ctx.config.sessionMinutes, Math.floor((endsAt - Date.now()) / 60_000)));
+      const fresh = await signSessionToken({ sid: claims.sid, uid: claims.uid, sv: claims.sv }, ctx.config.sessionSecret, minutes);
+      res.cookie(SESSION_COOKIE, fresh, { ...sessionCookieOptions(ctx), maxAge: minutes * 60 * 1000 });
       await ctx.db.updateTable('sessions').set({ last_seen_at: new Date().toISOString() }).where('id', '=', claims.sid).execute();
     }
     next();

@@ -1,5 +1,6 @@
 /**
- * Command line: panelwise analyze FILE.csv [--format json|table] [--bootstrap B] [--seed S]
+ * Command line: panelwise analyze FILE.csv [--format json|table] [--bootstrap B] [--seed S],
+ * and the operator's commands create-owner, backup, restore, disable-demo (ops-commands.ts).
  *
  * Prints the agreement report of a tidy ratings CSV (see read-tidy-csv.ts) as JSON (default)
  * or as aligned text. On bad input: a message naming the file, row, column and value on
@@ -7,6 +8,7 @@
  */
 import { pathToFileURL } from 'node:url';
 import { analyzeRatings, type AgreementReport, type StatResult } from '../analysis';
+import { OPS_COMMANDS, OPS_USAGE } from './ops-usage';
 import { readTidyCsv, TidyCsvError } from './read-tidy-csv';
 
 const USAGE = `usage: panelwise analyze FILE.csv [--format json|table] [--bootstrap B] [--seed S]
@@ -15,7 +17,9 @@ const USAGE = `usage: panelwise analyze FILE.csv [--format json|table] [--bootst
                 classifier_code, sport_class [, panel_class, kind]
   --format      json (default) or table
   --bootstrap   resamples over assessments for percentile intervals (default 0 = none)
-  --seed        seed of the resampling (default 1; same seed, same intervals)`;
+  --seed        seed of the resampling (default 1; same seed, same intervals)
+
+${OPS_USAGE}`;
 
 class UsageError extends Error {}
 
@@ -208,4 +212,11 @@ export function main(argv: string[]): number {
 }
 
 const invokedDirectly = process.argv[1] !== undefined && import.meta.url === pathToFileURL(process.argv[1]).href;
-if (invokedDirectly) process.exitCode = main(process.argv.slice(2));
+if (invokedDirectly) {
+  const argv = process.argv.slice(2);
+  if ((OPS_COMMANDS as readonly string[]).includes(argv[0] ?? '')) {
+    // Loaded only for the operator's commands: `analyze` stays free of the database and server code.
+    const { runOpsCommand } = await import('./ops-commands');
+    process.exitCode = await runOpsCommand(argv[0] as (typeof OPS_COMMANDS)[number], argv.slice(1));
+  } else process.exitCode = main(argv);
+}

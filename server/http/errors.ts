@@ -11,6 +11,9 @@ export type ErrorCode =
   | 'payload_too_large'
   | 'rate_limited'
   | 'gone'
+  | 'unsupported_media_type'
+  | 'insufficient_storage'
+  | 'busy'
   | 'internal';
 
 /** An error with an HTTP status that the error middleware turns into {error: {code, message, details?}}. */
@@ -44,17 +47,51 @@ interface LoggerLike {
   error(obj: unknown, msg?: string): void;
 }
 
+export const DISK_FULL_MESSAGE = "The server's disk is full; nothing was written. Try again once space has been freed.";
+
+/**
+ * What an error that is not an HttpError means for the caller: a full disk (SQLite's
+ * SQLITE_FULL, or ENOSPC from a file write) is 507 with nothing written (the transaction rolled
+ * back); a locked database after the busy timeout is 503; the HTTP layer's own 4xx errors (body
+ * parser, malformed percent-encoding in a path) keep their status with a plain message.
+ */
+export function classifyError(err: unknown): HttpError | null {
+  const e = err as { code?: unknown; status?: unknown; type?: unknown; expose?: unknown; message?: unknown } | null;
+  if (!e || typeof e !== 'object') return null;
+  const code = typeof e.code === 'string' ? e.code : '';
+  if (code === 'SQLITE_FULL' || code === 'ENOSPC' || code === 'SQLITE_IOERR_WRITE' || code === 'EDQUOT') {
+    return new HttpError(507, 'insufficient_storage', DISK_FULL_MESSAGE);
+  }
+  if (code === 'SQLITE_BUSY' || code === 'SQLITE_LOCKED' || code.startsWith('SQLITE_BUSY_')) {
+    return new HttpError(503, 'busy', 'The database is busy with another write. Try again in a moment.');
+  }
+  if (e.type === 'entity.too.large' || code === 'LIMIT_FILE_SIZE') return new HttpError(413, 'payload_too_large', 'The request body is too large');
+  if (e.type === 'entity.parse.failed') return new HttpError(400, 'bad_request', 'The request body is not valid JSON');
+  const status = typeof e.status === 'number' ? e.status : NaN;
+  if (status >= 400 && status < 500) {
+    if (status === 415) return new HttpError(415, 'unsupported_media_type', 'The request body’s encoding or character set is not supported: send UTF-8 JSON');
+    if (status === 413) return new HttpError(413, 'payload_too_large', 'The request body is too large');
+    const message = e.expose === true && typeof e.message === 'string' && e.message.length < 200 ? e.message : 'The request is not valid';
+    return new HttpError(status, status === 404 ? 'not_found' : 'bad_request', message);
+  }
+  return null;
+}
+
 /** The one error middleware: a single JSON shape, and no stack traces outside development. */
 export function errorHandler(options: { exposeStacks: boolean; logger?: LoggerLike }): ErrorRequestHandler {
   return (err, _req, res, _next) => {
     let error: HttpError;
     if (err instanceof HttpError) error = err;
     else if (err instanceof ZodError) error = new HttpError(400, 'validation_failed', 'The request is not valid', zodDetails(err));
-    else if (err?.type === 'entity.too.large' || err?.code === 'LIMIT_FILE_SIZE') error = new HttpError(413, 'payload_too_large', 'The request body is too large');
-    else if (err?.type === 'entity.parse.failed') error = new HttpError(400, 'bad_request', 'The request body is not valid JSON');
     else {
-      options.logger?.error({ err }, 'unhandled error');
-      error = new HttpError(500, 'internal', 'Something went wrong on the server');
+      const classified = classifyError(err);
+      if (classified) {
+        if (classified.status >= 500) options.logger?.error({ err }, classified.message);
+        error = classified;
+      } else {
+        options.logger?.error({ err }, 'unhandled error');
+        error = new HttpError(500, 'internal', 'Something went wrong on the server');
+      }
     }
     const body: { error: { code: ErrorCode; message: string; details?: unknown; stack?: string } } = {
       error: { code: error.code, message: error.message },

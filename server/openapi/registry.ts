@@ -160,7 +160,14 @@ export function buildOpenApiDocument(routes: RouteDoc[], info: OpenApiInfo): Rec
   }
   return {
     openapi: '3.1.0',
-    info: { title: info.title, version: info.version, description: 'The Panelwise API. Federation-scoped routes check the caller’s federation and role on the server.' },
+    info: {
+      title: info.title,
+      version: info.version,
+      description:
+        'The Panelwise API. Federation-scoped routes check the caller’s federation and role on the server. ' +
+        'JSON bodies are limited to 16 kB for anonymous callers, 256 kB for signed-in users and API tokens and 10 MB on the batch API (413), ' +
+        'and to 20 levels of nesting (400). A full disk answers 507 with nothing written; a busy database 503.',
+    },
     jsonSchemaDialect: 'https://json-schema.org/draft/2020-12/schema',
     servers: [{ url: '/' }],
     components: {

@@ -3,6 +3,7 @@ import { acceptNewUserSchema, resetPasswordSchema, resetRequestSchema } from '..
 import type { AppContext } from '../context';
 import { forbidden, HttpError } from '../http/errors';
 import { parseWith } from '../http/validate';
+import { assertStrongPassword } from '../auth/password-strength';
 import { linkLimits, resetRequestLimits } from '../auth/rate-limits';
 import { acceptInvitation, previewInvitation } from '../services/invitations';
 import { completePasswordReset, previewPasswordReset, requestPasswordReset } from '../services/password-resets';
@@ -35,6 +36,7 @@ export function accessLinksRouter(ctx: AppContext): Router {
     const token = tokenParam(req.params.token);
     const preview = await previewInvitation(ctx, token);
     const newUser = preview.existingUser ? null : parseWith(acceptNewUserSchema, req.body);
+    if (newUser) await assertStrongPassword(newUser.password, [preview.email, newUser.displayName]);
     const result = await acceptInvitation(ctx, token, newUser);
     const signedInAsThem = req.auth?.kind === 'session' && req.auth.user.id === result.userId;
     if (result.created) await startSession(ctx, res, result.userId, result.sessionVersion);
@@ -55,6 +57,8 @@ export function accessLinksRouter(ctx: AppContext): Router {
   router.post('/password-resets/:token', noTokens, ...links, async (req, res) => {
     const token = tokenParam(req.params.token);
     const { password } = parseWith(resetPasswordSchema, req.body);
+    const reset = await previewPasswordReset(ctx, token);
+    await assertStrongPassword(password, [reset.email]);
     await completePasswordReset(ctx, token, password);
     res.status(204).end();
   });
