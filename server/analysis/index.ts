@@ -58,3 +58,5 @@ export { SEASON_START_MONTH, classDistributionBySeason, dayToSeasonYear, isoDate
 export type { SeasonDistribution } from './seasons';
 export { classifierBoundarySplits } from './classifier-boundaries';
 export type { ClassifierBoundarySplit } from './classifier-boundaries';
+export { MAX_SEVERITY_CLASSIFIERS, SEVERITY_CI_METHOD, SEVERITY_MODEL, classifierSeverity } from './severity';
+export type { ClassifierSeverity, PanelNetwork, PanelNetworkEdge, SeverityResult } from './severity';
