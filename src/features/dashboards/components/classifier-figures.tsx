@@ -34,14 +34,22 @@ export function ClassifierFigures({ detail, who, fileStem }: { detail: Classifie
         <h2 id="headline-title" className="mb-3">
           Against the panel
         </h2>
-        <dl className="grid grid-cols-2 gap-3 lg:grid-cols-4">
+        <dl className="grid grid-cols-2 gap-3 lg:grid-cols-5">
           <StatCard label="Ratings in panels of two or more" value={integer.format(row.n)} detail={`${integer.format(row.ratings)} ratings in all`} testId="classifier-n" />
           <StatCard label="Same class as the rest of the panel" value={pct(row.exactWithPanel.value)} detail={`within half a class: ${pct(row.withinHalfWithPanel.value)}`} />
           <StatCard label="Bias (points, + = higher)" value={signed(row.bias.value)} detail={row.bias.ci95 ? `95 % CI ${signed(row.bias.ci95[0])} to ${signed(row.bias.ci95[1])}` : undefined} />
+          <StatCard
+            label="Severity (points, + = higher)"
+            value={signed(row.severity.value)}
+            detail={row.severity.ci95 ? `95 % CI ${signed(row.severity.ci95[0])} to ${signed(row.severity.ci95[1])}; ${row.severity.links} linked classifiers` : row.severity.reason}
+            testId="classifier-severity"
+          />
           <StatCard label="Quadratic kappa with the panel" value={num(row.quadraticKappa.value)} detail={row.quadraticKappa.ci95 ? `95 % CI ${num(row.quadraticKappa.ci95[0])} to ${num(row.quadraticKappa.ci95[1])}` : row.quadraticKappa.reason} />
         </dl>
         <p className="mt-2 text-sm text-muted">
-          Bias is the mean of (rating − median of the other panel members) in sport-class points; 0.5 is one class step. The kappa is Cohen’s quadratically weighted kappa
+          Bias is the mean of (rating − median of the other panel members) in sport-class points; 0.5 is one class step. Severity is how much higher or lower{' '}
+          {who === 'you' ? 'you rate' : `${who} rates`} than the federation’s average classifier would for the same athlete, with whom one sat with taken out
+          (decision record 0009). The kappa is Cohen’s quadratically weighted kappa
           against the panel’s final class where recorded (decision record 0003).
         </p>
       </section>
