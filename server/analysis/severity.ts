@@ -305,6 +305,8 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
 
   // Links: union-find over panels of two or more; shared-assessment counts per pair.
   const uf = makeUnionFind(C);
+  // Shared assessments per pair: a dense C × C table for rosters of a realistic size, a map beyond.
+  const dense = C <= 4096 ? new Int32Array(C * C) : null;
   const pairShared = new Map<number, number>();
   const sharedOf = new Int32Array(C);
   const inPanel = new Uint8Array(C);
@@ -321,10 +323,12 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
       for (let r = p + 1; r < e; r++) {
         const j = ratingClassifier[r]!;
         const key = i < j ? i * C + j : j * C + i;
-        pairShared.set(key, (pairShared.get(key) ?? 0) + 1);
+        if (dense) dense[key]!++;
+        else pairShared.set(key, (pairShared.get(key) ?? 0) + 1);
       }
     }
   }
+  if (dense) for (let key = 0; key < C * C; key++) if (dense[key]! > 0) pairShared.set(key, dense[key]!);
   const linksOf = new Int32Array(C);
   const edges: PanelNetworkEdge[] = [];
   for (const [key, shared] of pairShared) {

@@ -25,6 +25,8 @@ export interface SimulationOptions {
   threeShare?: number;
   /** Range of the athletes' latent levels (points; default 1.0 to 4.5). */
   levels?: [number, number];
+  /** When set, athletes sit near a class instead: a class of the scale ± this jitter (points). */
+  classJitter?: number;
 }
 
 export interface SimulatedFederation {
@@ -64,7 +66,10 @@ export function simulateFederation(options: SimulationOptions): SimulatedFederat
   const pools = Array.from({ length: R }, (_, r) => codes.map((_, i) => i).filter((i) => region[i] === r));
 
   const [levelLo, levelHi] = options.levels ?? [1, 4.5];
-  const level = Array.from({ length: athletes }, () => levelLo + (levelHi - levelLo) * rng.next());
+  const jitter = options.classJitter;
+  const level = Array.from({ length: athletes }, () =>
+    jitter === undefined ? levelLo + (levelHi - levelLo) * rng.next() : 1 + rng.nextInt(8) / 2 + jitter * (2 * rng.next() - 1),
+  );
   const home = Array.from({ length: athletes }, () => rng.nextInt(R));
   const rows: RatingRow[] = [];
   const start = Date.UTC(2022, 6, 1) / 86_400_000;
