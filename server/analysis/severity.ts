@@ -336,7 +336,9 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
     const j = key % C;
     linksOf[i]!++;
     linksOf[j]!++;
-    const [x, y] = set.classifierCodes[i]! < set.classifierCodes[j]! ? [set.classifierCodes[i]!, set.classifierCodes[j]!] : [set.classifierCodes[j]!, set.classifierCodes[i]!];
+    const ci = set.classifierCodes[i]!;
+    const cj = set.classifierCodes[j]!;
+    const [x, y] = ci < cj ? [ci, cj] : [cj, ci];
     edges.push({ a: x, b: y, shared });
   }
   edges.sort((u, v) => (u.a < v.a ? -1 : u.a > v.a ? 1 : u.b < v.b ? -1 : u.b > v.b ? 1 : 0));
@@ -405,7 +407,8 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
   const unlinkedReason = (c: number): string => {
     if (!inPanel[c]) return 'never sat on a panel of two or more: no one to compare with';
     const comp = network.components[componentOf[c]!]!;
-    return `not linked to the main panel network: sat only with ${comp.classifiers.length - 1} classifier${comp.classifiers.length === 2 ? '' : 's'} who share no assessment with it`;
+    const group = comp.classifiers.length;
+    return `not linked to the main panel network: no chain of shared assessments leads to it (a separate group of ${group} classifier${group === 1 ? '' : 's'})`;
   };
   const sortedClassifiers = (rows: ClassifierSeverity[]) => rows.sort((x, y) => (x.code < y.code ? -1 : x.code > y.code ? 1 : 0));
 
