@@ -18,7 +18,7 @@ import { DEMO_SCENARIO, generateScenario } from '../server/demo/generator';
 import { DEFAULT_SCALE } from '../shared/scale';
 import { simulateFederation } from '../tests/factories/severity-simulation';
 
-const RUNS = Number(process.env.BENCH_RUNS ?? 5);
+const RUNS = Number(process.env.BENCH_RUNS ?? 7);
 
 function median(xs: number[]): number {
   const s = [...xs].sort((a, b) => a - b);
@@ -86,6 +86,8 @@ const results = sets.map(({ name, set, targetMs }) => {
     classifiers: set.classifierCodes.length,
     floorMs,
     medianMs: fitMs,
+    /** Fastest run: on a loaded machine the median carries the waits for a core. */
+    minMs: Math.min(...fit),
     ratioToFloor: fitMs / floorMs,
     targetMs,
     withinTarget: fitMs <= targetMs,
@@ -95,10 +97,20 @@ const results = sets.map(({ name, set, targetMs }) => {
 
 console.log(`severity benchmark: median of ${RUNS} runs (data generated in ${(generateMs / 1000).toFixed(1)} s, not measured)`);
 const w = Math.max(...results.map((r) => r.name.length));
-console.log(`${'fit on'.padEnd(w)}  ${'ratings'.padStart(9)}  ${'floor ms'.padStart(9)}  ${'fit ms'.padStart(9)}  ${'× floor'.padStart(8)}  ${'target'.padStart(9)}`);
+const head = ['ratings', 'floor ms', 'fit ms', 'min ms', '× floor', 'target'].map((h) => h.padStart(9)).join('  ');
+console.log(`${'fit on'.padEnd(w)}  ${head}`);
 for (const r of results) {
   console.log(
-    `${r.name.padEnd(w)}  ${String(r.ratings).padStart(9)}  ${r.floorMs.toFixed(2).padStart(9)}  ${r.medianMs.toFixed(1).padStart(9)}  ${r.ratioToFloor.toFixed(1).padStart(8)}  ${`${r.withinTarget ? '≤' : '>'} ${r.targetMs}`.padStart(9)}`,
+    `${r.name.padEnd(w)}  ${[
+      String(r.ratings),
+      r.floorMs.toFixed(2),
+      r.medianMs.toFixed(1),
+      r.minMs.toFixed(1),
+      r.ratioToFloor.toFixed(1),
+      `${r.withinTarget ? '≤' : '>'} ${r.targetMs}`,
+    ]
+      .map((c) => c.padStart(9))
+      .join('  ')}`,
   );
 }
 const outDir = fileURLToPath(new URL('./out/', import.meta.url));
