@@ -3,8 +3,12 @@
  * network's identification rules, and recovery of planted severities on invented federations
  * with regional pools (tests/factories/severity-simulation.ts; decision record 0009).
  */
+import { spawnSync } from 'node:child_process';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { buildRatingSet, classifierSeverity, classifiersVsPanel, SEVERITY_CI_METHOD, Z95, type RatingRow } from '../../../server/analysis';
+import { analyzeRatings, buildRatingSet, classifierSeverity, classifiersVsPanel, SEVERITY_CI_METHOD, Z95, type RatingRow } from '../../../server/analysis';
+import { readTidyCsv } from '../../../server/cli/read-tidy-csv';
 import { DEFAULT_SCALE } from '../../../shared/scale';
 import { simulateFederation } from '../../factories/severity-simulation';
 
@@ -188,5 +192,30 @@ describe('classifierSeverity: recovery on simulated federations with regional po
       expect(sevCorr).toBeGreaterThan(panelCorr);
       expect(panelCorr).toBeLessThan(0.9);
     }
+  });
+});
+
+describe('severity in the agreement report and the command line', () => {
+  it('classifiers[].severity = {value, se, ci95, n, links} of the fit, and the model’s summary', () => {
+    const f = simulateFederation({ seed: 42, classifiers: 8, regions: 2, athletes: 60, assessments: 300 });
+    const report = analyzeRatings(f.set);
+    const fit = classifierSeverity(f.set);
+    expect(report.severity).toMatchObject({ model: fit.model, ciMethod: 'analytic-cluster-robust-by-athlete', n: fit.n, df: fit.df });
+    expect(report.severity.components).toEqual(fit.network.components);
+    for (const row of report.classifiers) {
+      const e = fit.classifiers.find((c) => c.code === row.code)!;
+      expect(row.severity).toEqual({ value: e.value, se: e.se, ci95: e.ci95, n: e.n, links: e.links });
+    }
+  });
+
+  it('panelwise analyze prints the severity in JSON and in the table', () => {
+    const root = fileURLToPath(new URL('../../../', import.meta.url));
+    const run = (...args: string[]) => spawnSync(process.execPath, [join(root, 'bin/panelwise.js'), 'analyze', join(root, 'fixtures/analysis/small-long.csv'), ...args], { encoding: 'utf8', cwd: root, timeout: 60_000 });
+    const json = JSON.parse(run().stdout) as { classifiers: { code: string; severity: { value: number | null; ci95: [number, number] | null } }[] };
+    const expected = classifierSeverity(readTidyCsv(join(root, 'fixtures/analysis/small-long.csv')));
+    for (const row of json.classifiers) expect(row.severity.value).toBeCloseTo(expected.classifiers.find((c) => c.code === row.code)!.value!, 12);
+    const table = run('--format', 'table').stdout;
+    expect(table).toMatch(/Severity: two-way additive/);
+    expect(table).toMatch(/Classifier\s+n\s+Severity\s+95% CI\s+Links/);
   });
 });
