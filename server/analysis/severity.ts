@@ -82,7 +82,11 @@ export interface PanelNetworkEdge {
 }
 
 export interface PanelNetwork {
-  /** Components of the panel network, largest first (by classifiers, then ratings); index 0 is the main one. */
+  /**
+   * Components of the panel network, largest first (by classifiers, then ratings); index 0 is the
+   * main one. Linked by the assessments that inform the fit (panels of two or more, not all in the
+   * lowest or all in the highest class); `ratings` and `assessments` count those.
+   */
   components: { classifiers: string[]; ratings: number; assessments: number }[];
   /** Every pair of classifiers that shared at least one assessment, sorted by codes. */
   edges: PanelNetworkEdge[];
@@ -303,13 +307,32 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
     used[c] = 1;
   }
 
-  // Links: union-find over panels of two or more; shared-assessment counts per pair.
+  // An assessment informs the fit when it has two or more ratings, not all in the lowest class and
+  // not all in the highest (the scale clips those: they cannot show who is stricter).
+  const q = set.q;
+  const informative = new Uint8Array(set.assessmentCount);
+  for (let a = 0; a < set.assessmentCount; a++) {
+    const s = ratingStart[a]!;
+    const e = ratingStart[a + 1]!;
+    if (e - s < 2) continue;
+    let low = 0;
+    let high = 0;
+    for (let p = s; p < e; p++) {
+      if (ratingClass[p] === 0) low++;
+      else if (ratingClass[p] === q - 1) high++;
+    }
+    if (low < e - s && high < e - s) informative[a] = 1;
+  }
+
+  // Links: shared-assessment counts per pair over panels of two or more; union-find (the
+  // components the fit can separate) over the informative assessments.
   const uf = makeUnionFind(C);
   // Shared assessments per pair: a dense C × C table for rosters of a realistic size, a map beyond.
   const dense = C <= 4096 ? new Int32Array(C * C) : null;
   const pairShared = new Map<number, number>();
   const sharedOf = new Int32Array(C);
   const inPanel = new Uint8Array(C);
+  const inFit = new Uint8Array(C);
   for (let a = 0; a < set.assessmentCount; a++) {
     const s = ratingStart[a]!;
     const e = ratingStart[a + 1]!;
@@ -319,7 +342,10 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
       const i = ratingClassifier[p]!;
       inPanel[i] = 1;
       sharedOf[i]!++;
-      uf.union(first, i);
+      if (informative[a]) {
+        inFit[i] = 1;
+        uf.union(first, i);
+      }
       for (let r = p + 1; r < e; r++) {
         const j = ratingClassifier[r]!;
         const key = i < j ? i * C + j : j * C + i;
@@ -347,7 +373,7 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
   const rootIndex = new Map<number, number>();
   const groups: { members: number[]; ratings: number; assessments: number }[] = [];
   for (let c = 0; c < C; c++) {
-    if (!inPanel[c]) continue;
+    if (!inFit[c]) continue;
     const r = uf.find(c);
     let g = rootIndex.get(r);
     if (g === undefined) {
@@ -358,9 +384,9 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
     groups[g]!.members.push(c);
   }
   for (let a = 0; a < set.assessmentCount; a++) {
+    if (!informative[a]) continue;
     const s = ratingStart[a]!;
     const e = ratingStart[a + 1]!;
-    if (e - s < 2) continue;
     const g = groups[rootIndex.get(uf.find(ratingClassifier[s]!))!]!;
     g.ratings += e - s;
     g.assessments++;
@@ -406,6 +432,7 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
   };
   const unlinkedReason = (c: number): string => {
     if (!inPanel[c]) return 'never sat on a panel of two or more: no one to compare with';
+    if (!inFit[c]) return 'sat only on panels whose ratings all sit in the lowest or all in the highest class: no one to compare with';
     const comp = network.components[componentOf[c]!]!;
     const group = comp.classifiers.length;
     return `not linked to the main panel network: no chain of shared assessments leads to it (a separate group of ${group} classifier${group === 1 ? '' : 's'})`;
@@ -430,25 +457,14 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
   if (K < 2) return refuse('no assessment with two or more ratings: severities need classifiers who sat together');
   if (K > MAX_SEVERITY_CLASSIFIERS) return refuse(`more than ${MAX_SEVERITY_CLASSIFIERS} linked classifiers: the fit is not attempted`);
 
-  // The assessments of the main component that carry information: two or more ratings, and not
-  // all of them at the same end class (censored there, they say nothing about who is stricter).
-  const q = set.q;
+  // The informative assessments of the main component.
   const keep = new Uint8Array(set.assessmentCount);
   let N = 0;
   let A = 0;
   for (let a = 0; a < set.assessmentCount; a++) {
-    const s = ratingStart[a]!;
-    const e = ratingStart[a + 1]!;
-    if (e - s < 2 || local[ratingClassifier[s]!]! < 0) continue;
-    let low = 0;
-    let high = 0;
-    for (let p = s; p < e; p++) {
-      if (ratingClass[p] === 0) low++;
-      else if (ratingClass[p] === q - 1) high++;
-    }
-    if (low === e - s || high === e - s) continue;
+    if (!informative[a] || local[ratingClassifier[ratingStart[a]!]!]! < 0) continue;
     keep[a] = 1;
-    N += e - s;
+    N += ratingStart[a + 1]! - ratingStart[a]!;
     A++;
   }
 

@@ -57,7 +57,8 @@ describe('classifierSeverity: a case worked by hand', () => {
    * for every classifier; factor G/(G − 1) · (N − A)/df = 3/2 · 3/1 = 4.5; Var = 4.5/18 = 0.25,
    * SE = 0.5; C01's interval 1/6 ± 1.959964 × 0.5 = [−0.813315, 1.146649].
    * Added around it, and not changing it: a panel of two both at 4.5 (clipped at the top: left
-   * out), a panel of one, a separate pair C04/C05 and C06 alone.
+   * out), a panel of one, a separate pair C04/C05, C06 alone, and C07/C08 together only on a
+   * panel clipped at the bottom (both 1.0).
    */
   const set = buildRatingSet(
     rows([
@@ -68,6 +69,7 @@ describe('classifierSeverity: a case worked by hand', () => {
       ['AS5', 'A5', [['C03', 3.5]]],
       ['AS6', 'A6', [['C04', 2.0], ['C05', 3.0]]],
       ['AS7', 'A7', [['C06', 2.0]]],
+      ['AS8', 'A8', [['C07', 1.0], ['C08', 1.0]]],
     ]),
     DEFAULT_SCALE,
   );
@@ -97,8 +99,12 @@ describe('classifierSeverity: a case worked by hand', () => {
       { a: 'C01', b: 'C03', shared: 1 },
       { a: 'C02', b: 'C03', shared: 1 },
       { a: 'C04', b: 'C05', shared: 1 },
+      { a: 'C07', b: 'C08', shared: 1 },
     ]);
-    expect(result.network.components.map((c) => c.classifiers)).toEqual([['C01', 'C02', 'C03'], ['C04', 'C05']]);
+    expect(result.network.components).toEqual([
+      { classifiers: ['C01', 'C02', 'C03'], ratings: 6, assessments: 3 },
+      { classifiers: ['C04', 'C05'], ratings: 2, assessments: 1 },
+    ]);
   });
 
   it('reports null with a reason outside the main component', () => {
@@ -108,6 +114,9 @@ describe('classifierSeverity: a case worked by hand', () => {
     const c06 = byCode.get('C06')!;
     expect(c06).toMatchObject({ value: null, component: -1, links: 0, ratings: 1 });
     expect(c06.reason).toMatch(/never sat on a panel of two or more/);
+    const c07 = byCode.get('C07')!;
+    expect(c07).toMatchObject({ value: null, component: -1, links: 1, sharedAssessments: 1 });
+    expect(c07.reason).toMatch(/all sit in the lowest or all in the highest class/);
   });
 
   it('matches the example of its doc comment (no residual degrees of freedom: no interval)', () => {
