@@ -33,6 +33,10 @@
  * constant over the data window (drift is the drift rule's job, decision record 0002) and
  * athletes independent of one another. σ̂ = √(RSS / (N − A − K + 1)) is reported as the
  * residual spread. Decision record 0009 gives recovery and coverage measured by simulation.
+ * Caution: where athletes sit close to a class centre and the rating error is small next to
+ * the half-point step, a small lean rarely changes the class given; the estimate then measures
+ * the classes given (shrunk against the latent lean, intervals too narrow for it; record 0009,
+ * scenarios G and H). An ordinal model of the classes is the remedy left for later.
  *
  * Cost: one pass over the ratings plus a dense K × K Cholesky factorisation (K³/3 flops), so a
  * few milliseconds for tens of classifiers; more than MAX_SEVERITY_CLASSIFIERS linked
@@ -328,7 +332,7 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
   // components the fit can separate) over the informative assessments.
   const uf = makeUnionFind(C);
   // Shared assessments per pair: a dense C × C table for rosters of a realistic size, a map beyond.
-  const dense = C <= 4096 ? new Int32Array(C * C) : null;
+  const dense = C <= 1024 ? new Int32Array(C * C) : null;
   const pairShared = new Map<number, number>();
   const sharedOf = new Int32Array(C);
   const inPanel = new Uint8Array(C);
