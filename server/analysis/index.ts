@@ -51,7 +51,7 @@ export type { ConfusionMatrix } from './confusion-matrix';
 export { assessmentOutcomes, classTransitions } from './class-transitions';
 export type { ClassTransitions } from './class-transitions';
 export { FLEISS_KAPPA_NAME, REPORT_FORMAT, analyzeRatings } from './report';
-export type { AgreementReport, AlphaReport, AnalyzeOptions, Labelled } from './report';
+export type { AgreementReport, AlphaReport, AnalyzeOptions, ClassifierReport, Labelled, SeverityReport, SeverityStat } from './report';
 export { recentPanelComparison } from './recent-window';
 export type { RecentWindow } from './recent-window';
 export { SEASON_START_MONTH, classDistributionBySeason, dayToSeasonYear, isoDateToSeasonYear, seasonLabel, seasonRange } from './seasons';
@@ -76,3 +76,5 @@ export {
 export type { AgreementVerdict, BiasVerdict, CalibrationOptions, CalibrationThresholds, ChangePoint, ClassifierCalibration, DriftVerdict } from './calibration-rules';
 export { pointsApart, pointsAtStake, twoRaterCoefficients, twoRaterTable } from './points-at-stake';
 export type { PointsAtStake } from './points-at-stake';
+export { MAX_SEVERITY_CLASSIFIERS, SEVERITY_CI_METHOD, SEVERITY_MODEL, classifierSeverity } from './severity';
+export type { ClassifierSeverity, PanelNetwork, PanelNetworkEdge, SeverityResult } from './severity';

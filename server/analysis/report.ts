@@ -14,6 +14,7 @@ import { krippendorffAlpha, krippendorffAlphaValue, type AlphaResult } from './k
 import { observedAgreement, type AgreementForms } from './observed-agreement';
 import { classLabel, classPoints, type RatingSet } from './rating-set';
 import type { StatResult } from './result';
+import { classifierSeverity, type SeverityResult } from './severity';
 import { formatClass } from '../../shared/scale';
 
 export const REPORT_FORMAT = 'panelwise.agreement-report/1';
@@ -30,6 +31,28 @@ export interface AnalyzeOptions {
 
 export type Labelled<T> = T & { label: LandisKochLabel | null; ciMethod: CiMethod | null };
 export type AlphaReport = AlphaResult & { note: KrippendorffNote | null; ciMethod: CiMethod | null };
+
+/** A classifier's severity in the report (points; + = rates higher than the federation's average classifier). */
+export interface SeverityStat extends StatResult {
+  /** Other classifiers they shared at least one assessment with. */
+  links: number;
+}
+
+export type ClassifierReport = ClassifierVsPanel & { severity: SeverityStat };
+
+/** The severity model's summary in the report (decision record 0009). */
+export interface SeverityReport {
+  model: SeverityResult['model'];
+  ciMethod: SeverityResult['ciMethod'];
+  residualSd: number | null;
+  df: number;
+  /** Ratings and assessments the fit used (main component, panels of two or more, not clipped at one end). */
+  n: number;
+  assessments: number;
+  /** Components of the panel network, largest (the one estimated) first. */
+  components: { classifiers: string[]; ratings: number; assessments: number }[];
+  reason?: string;
+}
 
 export interface AgreementReport {
   format: typeof REPORT_FORMAT;
@@ -52,7 +75,8 @@ export interface AgreementReport {
   krippendorffAlpha: { nominal: AlphaReport; ordinal: AlphaReport; interval: AlphaReport; ratio: AlphaReport };
   gwet: { ac1: Labelled<GwetResult>; ac2Linear: Labelled<GwetResult>; ac2Quadratic: Labelled<GwetResult> };
   pairs: PairAgreement[];
-  classifiers: ClassifierVsPanel[];
+  classifiers: ClassifierReport[];
+  severity: SeverityReport;
   boundaries: BoundarySplit[];
   bootstrap: { B: number; seed: number; results: Record<string, BootstrapResult> } | null;
   interpretation: typeof INTERPRETATION_SOURCES;
@@ -79,6 +103,7 @@ export function analyzeRatings(set: RatingSet, options: AnalyzeOptions = {}): Ag
     const r = krippendorffAlpha(patterns, metric, points);
     return { ...r, note: krippendorffNote(r.value), ciMethod: null };
   };
+  const severity = classifierSeverity(set);
   const report: AgreementReport = {
     format: REPORT_FORMAT,
     scale: { min: formatClass(set.scale.min), max: formatClass(set.scale.max), classes: q },
@@ -106,7 +131,8 @@ export function analyzeRatings(set: RatingSet, options: AnalyzeOptions = {}): Ag
       ac2Quadratic: labelled(gwetAC(patterns, 'quadratic'), 'wald'),
     },
     pairs: classifierPairs(set, options.minSharedAssessments ?? 2),
-    classifiers: classifiersVsPanel(set),
+    classifiers: withSeverity(classifiersVsPanel(set), severity),
+    severity: severitySummary(severity),
     boundaries: classBoundaries(patterns, set.scale),
     bootstrap: null,
     interpretation: INTERPRETATION_SOURCES,
@@ -161,4 +187,30 @@ function countUsed(indices: Int32Array, size: number): number {
     }
   }
   return n;
+}
+
+function withSeverity(rows: ClassifierVsPanel[], severity: SeverityResult): ClassifierReport[] {
+  const byCode = new Map(severity.classifiers.map((c) => [c.code, c]));
+  return rows.map((row) => {
+    const s = byCode.get(row.code);
+    const stat: SeverityStat = s
+      ? { value: s.value, se: s.se, ci95: s.ci95, n: s.n, links: s.links }
+      : { value: null, se: null, ci95: null, n: 0, links: 0, reason: 'no rating' };
+    if (s?.reason !== undefined) stat.reason = s.reason;
+    return { ...row, severity: stat };
+  });
+}
+
+function severitySummary(r: SeverityResult): SeverityReport {
+  const out: SeverityReport = {
+    model: r.model,
+    ciMethod: r.ciMethod,
+    residualSd: r.residualSd,
+    df: r.df,
+    n: r.n,
+    assessments: r.assessments,
+    components: r.network.components,
+  };
+  if (r.reason !== undefined) out.reason = r.reason;
+  return out;
 }

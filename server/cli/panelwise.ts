@@ -167,6 +167,27 @@ export function formatReportTable(r: AgreementReport, file: string): string {
         ),
   );
   out.push('');
+  out.push(
+    `Severity: ${r.severity.model}; 0 = the average classifier of the main panel network, + = rates higher for the same athlete ` +
+      `(${r.severity.ciMethod} interval; decision record 0009)`,
+  );
+  out.push(
+    r.classifiers.length === 0
+      ? '(none)'
+      : table(
+          ['Classifier', 'n', 'Severity', '95% CI', 'Links', 'Note'],
+          r.classifiers.map((k) => [
+            k.code,
+            String(k.severity.n),
+            k.severity.value === null ? '—' : (k.severity.value >= 0 ? '+' : '') + k.severity.value.toFixed(3),
+            ci(k.severity),
+            String(k.severity.links),
+            k.severity.reason ?? '',
+          ]),
+          [false, true, true, false, true, false],
+        ),
+  );
+  out.push('');
   out.push('Class boundaries (share of panels touching either class that split across the boundary)');
   out.push(
     table(

@@ -24,6 +24,7 @@ import {
   pairDetail,
   pairs,
   raterDrift,
+  severityNetwork,
 } from '../services/analytics';
 import { ensureEvaluated, evaluateFlags, evaluateFlagsOnDataChange, flagsOf, lastEvaluation, saveThresholds, thresholdsOf, updateFlag } from '../services/calibration-flags';
 
@@ -128,7 +129,8 @@ export function analyticsRouter(ctx: AppContext): Router {
   router.get(`${base}/classifiers`, leadOnly, async (req, res) => {
     const access = accessOf(req);
     await ensureEvaluated(ctx, access.federation.id);
-    res.json({ classifiers: await classifierRows(ctx, federationOf(access), filtersOf(req)) });
+    const filters = filtersOf(req);
+    res.json({ classifiers: await classifierRows(ctx, federationOf(access), filters), ...severityNetwork(ctx, federationOf(access), filters) });
   });
 
   router.get(`${base}/classifiers/:code`, leadOrClassifier, async (req, res) => {

@@ -17,6 +17,7 @@ import {
   changePointTest,
   classifierDeviations,
   classifierPairs,
+  classifierSeverity,
   classifiersVsPanel,
   compressPatterns,
   confusionBetween,
@@ -52,10 +53,13 @@ import type {
   Overview,
   PairDetail,
   PairsResponse,
+  PanelNetworkData,
   QuarterStat,
   RaterDrift,
   Coefficient,
   PointsAtStakeFigures,
+  SeverityModel,
+  SeverityStat,
   Stat,
 } from '../../shared/schemas/analytics';
 import { cached, federationData, filteredSet, filterKey, minSharedOf, requireClassifier, type FederationData } from './analytics-data';
@@ -225,11 +229,41 @@ export function coefficientsTable(report: AgreementReport): Coefficient[] {
 
 type ClassifierFigures = Omit<ClassifierRow, 'flags'>;
 
+interface SeverityFigures {
+  byCode: Map<string, SeverityStat>;
+  severityModel: SeverityModel;
+  network: PanelNetworkData;
+}
+
+/** The severity model on the filtered ratings (decision record 0009), cached with them. */
+function severityFigures(ctx: AppContext, federation: FederationRef, filters: AnalyticsFilters): SeverityFigures {
+  const { set } = load(ctx, federation, filters);
+  return cached(ctx, federation.id, `severity|${filterKey(filters)}`, () => {
+    const fit = classifierSeverity(set);
+    const severityModel: SeverityModel = { model: fit.model, ciMethod: fit.ciMethod, residualSd: fit.residualSd, n: fit.n, assessments: fit.assessments };
+    if (fit.reason !== undefined) severityModel.reason = fit.reason;
+    return {
+      byCode: new Map(fit.classifiers.map((c) => [c.code, { ...stat(c), links: c.links }])),
+      severityModel,
+      network: fit.network,
+    };
+  });
+}
+
+/** The severity model's summary and the panel network (who shared assessments with whom), for the classifiers page. */
+export function severityNetwork(ctx: AppContext, federation: FederationRef, filters: AnalyticsFilters): Pick<SeverityFigures, 'severityModel' | 'network'> {
+  const { severityModel, network } = severityFigures(ctx, federation, filters);
+  return { severityModel, network };
+}
+
+const NO_SEVERITY: SeverityStat = { value: null, se: null, ci95: null, n: 0, links: 0, reason: 'no rating in these filters' };
+
 function classifierFigures(ctx: AppContext, federation: FederationRef, filters: AnalyticsFilters): ClassifierFigures[] {
   const { data, set } = load(ctx, federation, filters);
   return cached(ctx, federation.id, `classifiers|${filterKey(filters)}`, () => {
     const medians = othersMedian(set);
     const stake = pointsAtStake(set).classifiers;
+    const severity = severityFigures(ctx, federation, filters).byCode;
     return classifiersVsPanel(set, medians).map((c) => ({
       code: c.code,
       name: data.classifiers.get(c.code)?.name ?? null,
@@ -240,6 +274,7 @@ function classifierFigures(ctx: AppContext, federation: FederationRef, filters: 
       bias: stat(c.meanDeviation),
       quadraticKappa: stat(c.quadraticKappaWithPanel),
       pointsAtStake: stakeFigures(stake.get(c.code) ?? pointsApart([])),
+      severity: severity.get(c.code) ?? NO_SEVERITY,
       trend: quarterStats(deviationByQuarter(set, c.code)),
     }));
   });
@@ -266,6 +301,7 @@ function emptyRow(code: string, name: string | null): ClassifierFigures {
     bias: none,
     quadraticKappa: none,
     pointsAtStake: stakeFigures(pointsApart([])),
+    severity: NO_SEVERITY,
     trend: [],
   };
 }

@@ -307,6 +307,38 @@ export const overviewSchema = z.object({
 });
 export type Overview = z.infer<typeof overviewSchema>;
 
+/**
+ * A classifier's severity from the two-way model (decision record 0009): points, + = rates higher
+ * than the federation's average classifier would for the same athlete; null with a reason when
+ * the panel network does not link them to the others.
+ */
+export const severityStatSchema = statSchema.extend({
+  /** Other classifiers they shared at least one assessment with. */
+  links: z.number(),
+});
+export type SeverityStat = z.infer<typeof severityStatSchema>;
+
+/** Who shared assessments with whom: the panel network behind the severities (leads only). */
+export const panelNetworkSchema = z.object({
+  /** Connected components, largest first; severities are estimated on the first one. */
+  components: z.array(z.object({ classifiers: z.array(z.string()), ratings: z.number(), assessments: z.number() })),
+  /** Pairs that shared at least one assessment, sorted by codes. */
+  edges: z.array(z.object({ a: z.string(), b: z.string(), shared: z.number() })),
+});
+export type PanelNetworkData = z.infer<typeof panelNetworkSchema>;
+
+export const severityModelSchema = z.object({
+  model: z.string(),
+  ciMethod: z.string(),
+  /** Residual standard deviation in points. */
+  residualSd: z.number().nullable(),
+  /** Ratings and assessments the fit used. */
+  n: z.number(),
+  assessments: z.number(),
+  reason: z.string().optional(),
+});
+export type SeverityModel = z.infer<typeof severityModelSchema>;
+
 export const classifierRowSchema = z.object({
   code: z.string(),
   name: z.string().nullable(),
@@ -319,12 +351,19 @@ export const classifierRowSchema = z.object({
   quadraticKappa: statSchema,
   /** Distance from the panel's final class, in points. */
   pointsAtStake: pointsAtStakeSchema,
+  /** Severity on the federation's common scale (two-way model), points. */
+  severity: severityStatSchema,
   /** Mean signed deviation by quarter (the sparkline). */
   trend: z.array(quarterStatSchema),
   flags: z.array(z.object({ id: z.number(), rule: flagRuleSchema, status: flagStatusSchema })),
 });
 export type ClassifierRow = z.infer<typeof classifierRowSchema>;
-export const classifiersResponseSchema = z.object({ classifiers: z.array(classifierRowSchema) });
+export const classifiersResponseSchema = z.object({
+  classifiers: z.array(classifierRowSchema),
+  /** The severity model's summary and the panel network behind it. */
+  severityModel: severityModelSchema,
+  network: panelNetworkSchema,
+});
 export type ClassifiersResponse = z.infer<typeof classifiersResponseSchema>;
 
 export const boundarySplitSchema = statSchema.extend({

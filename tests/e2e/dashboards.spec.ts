@@ -56,11 +56,15 @@ test.describe('agreement dashboards', () => {
     await page.goto('/f/kestrel-coast/classifiers');
     await expect(page.getByRole('table', { name: 'Classifiers against the panel' })).toBeVisible();
     await expect(page.getByRole('link', { name: 'C05', exact: true })).toBeVisible();
+    await expect(page.getByRole('columnheader', { name: /Severity \(points\)/ })).toBeVisible();
+    await expect(page.getByTestId('severity-explanation')).toContainText('average classifier would for the same athlete');
+    await expect(page.getByRole('heading', { name: 'Panel network: assessments shared by each pair of classifiers' })).toBeVisible();
     await check(page, 'dashboards-lead-classifiers');
 
     await page.getByRole('link', { name: 'C05', exact: true }).click();
     await expect(page.getByRole('heading', { name: /Classifier C05/ })).toBeVisible();
     await expect(page.getByRole('heading', { name: 'Classes given by C05 against the panel’s final class' })).toBeVisible();
+    await expect(page.getByTestId('classifier-severity')).toHaveText(/^[+−]?\d\.\d{2}$/);
     await check(page, 'dashboards-lead-classifier-c05');
 
     await page.goto('/f/kestrel-coast/pairs');

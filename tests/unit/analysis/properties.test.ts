@@ -124,11 +124,16 @@ describe('invariance (the statistics treat classifiers and assessments as unorde
           .map((x) => x.r);
         const a = analyzeRatings(buildRatingSet(rows, DEFAULT_SCALE));
         const b = analyzeRatings(buildRatingSet(shuffled, DEFAULT_SCALE));
-        const { pairs: pa, classifiers: ca, ...restA } = a;
-        const { pairs: pb, classifiers: cb, ...restB } = b;
+        const { pairs: pa, classifiers: ca, severity: sa, ...restA } = a;
+        const { pairs: pb, classifiers: cb, severity: sb, ...restB } = b;
         expectSameNumbers(restA, restB);
-        // Pairs and classifiers: same results under the new names.
+        // Pairs, classifiers and the severity model's network: same results under the new names.
         const back = new Map([...rename].map(([k, v]) => [v, k]));
+        const renamedBack = sb.components.map((c) => ({ ...c, classifiers: c.classifiers.map((x) => back.get(x)!).sort() }));
+        expectSameNumbers(
+          { ...sa, components: [...sa.components].sort((x, y) => (x.classifiers[0]! < y.classifiers[0]! ? -1 : 1)) },
+          { ...sb, components: renamedBack.sort((x, y) => (x.classifiers[0]! < y.classifiers[0]! ? -1 : 1)) },
+        );
         const key = (x: string, y: string) => [x, y].sort().join('|');
         const mapB = new Map(pb.map((p) => [key(back.get(p.a)!, back.get(p.b)!), p]));
         expect(pb.length).toBe(pa.length);

@@ -49,7 +49,7 @@ export function ClassifierFigures({ detail, who, fileStem }: { detail: Classifie
             These figures describe how consistent ratings are, not whether any class is right.
           </p>
         ) : null}
-        <dl className="grid grid-cols-2 gap-3 lg:grid-cols-4">
+        <dl className="grid grid-cols-2 gap-3 lg:grid-cols-5">
           <StatCard label="Same class as the panel’s final class" value={pct(h.sameAsFinal.value)} detail={`${integer.format(h.sameAsFinal.n)} ratings with a final class`} testId="classifier-same-final" />
           <StatCard label="Same class as the other members" value={pct(row.exactWithPanel.value)} detail={`${integer.format(row.n)} ratings in panels of two or more`} testId="classifier-n" />
           <StatCard
@@ -59,10 +59,18 @@ export function ClassifierFigures({ detail, who, fileStem }: { detail: Classifie
             testId="classifier-points-at-stake"
           />
           <StatCard label="Lean (points, + = higher)" value={signed(row.bias.value)} detail={row.bias.ci95 ? `95 % CI ${signed(row.bias.ci95[0])} to ${signed(row.bias.ci95[1])}` : undefined} />
+          <StatCard
+            label="Severity (points, + = higher)"
+            value={signed(row.severity.value)}
+            detail={row.severity.ci95 ? `95 % CI ${signed(row.severity.ci95[0])} to ${signed(row.severity.ci95[1])}; ${row.severity.links} linked classifiers` : row.severity.reason}
+            testId="classifier-severity"
+          />
         </dl>
         <p className="mt-2 text-sm text-muted">
           Half-point splits from the panel: {top.length ? top.map((b) => `${b.lower}/${b.upper} ${pct(b.splitRate)} of ${b.touching}`).join(' · ') : 'too few ratings near any boundary'}.
-          Points at stake is our own figure: the mean distance from the panel’s final class in sport-class points, ×100.
+          Points at stake is our own figure: the mean distance from the panel’s final class in sport-class points, ×100. Severity is how much higher or lower{' '}
+          {who === 'you' ? 'you rate' : `${who} rates`} than the federation’s average classifier would for the same athlete, with whom one sat with taken out
+          (decision record 0009).
         </p>
         <h3 className="mt-4 mb-2 text-base">Beyond chance, then with partial credit</h3>
         <dl className="grid grid-cols-1 gap-3 sm:grid-cols-3">

@@ -5,6 +5,7 @@ import { DataTable, type DataTableColumn } from '../../../components/data-table'
 import { useClassifiers } from '../api/get-classifiers';
 import { num, pct, signed } from './format';
 import { PageFrame, QueryState } from './page-frame';
+import { PanelNetworkChart } from './panel-network-chart';
 import { Sparkline } from './sparkline';
 import { useAnalyticsFilters } from './use-analytics-filters';
 
@@ -17,6 +18,8 @@ interface TableRow {
   stake: number | null;
   bias: number | null;
   biasCi: string;
+  severity: number | null;
+  severityCi: string;
   kappa: number | null;
   kappaCi: string;
   trend: string;
@@ -59,6 +62,17 @@ export function ClassifiersPage() {
       ),
     },
     {
+      key: 'severity',
+      header: 'Severity (points)',
+      align: 'right',
+      cell: (r) => (
+        <span title={r.source.severity.reason ?? (r.severityCi ? `95 % CI ${r.severityCi}` : undefined)}>
+          {signed(r.severity)}
+          <span className="block text-xs text-muted">{r.severity === null ? 'not linked' : r.severityCi}</span>
+        </span>
+      ),
+    },
+    {
       key: 'kappa',
       header: 'Quadratic kappa',
       align: 'right',
@@ -97,6 +111,7 @@ export function ClassifiersPage() {
     >
       <QueryState query={query}>
         {(data) => (
+          <div className="space-y-6">
           <DataTable
             caption="Classifiers against the panel"
             filterable
@@ -113,6 +128,8 @@ export function ClassifiersPage() {
               stake: c.pointsAtStake.per100,
               bias: c.bias.value,
               biasCi: ci(c.bias.ci95),
+              severity: c.severity.value,
+              severityCi: ci(c.severity.ci95),
               kappa: c.quadraticKappa.value,
               kappaCi: ci(c.quadraticKappa.ci95),
               trend: c.trend.map((p) => `${p.quarter}: ${p.value === null ? '' : p.value.toFixed(3)}`).join('; '),
@@ -120,8 +137,29 @@ export function ClassifiersPage() {
               source: c,
             }))}
           />
+          <SeverityNote />
+          <section aria-labelledby="network-title" className="space-y-2">
+            <h2 id="network-title">Who can be compared with whom</h2>
+            <p className="text-sm text-muted">
+              Severities rest on classifiers who sat on the same panels. A classifier with few links is compared through few colleagues; one outside the main
+              network cannot be put on the common scale at all.
+            </p>
+            <PanelNetworkChart network={data.network} rows={data.classifiers} fileName={`${federation.slug}-panel-network`} />
+          </section>
+          </div>
         )}
       </QueryState>
     </PageFrame>
+  );
+}
+
+/** The one-sentence reading of the severity column (decision record 0009). */
+function SeverityNote() {
+  return (
+    <p className="text-sm text-muted" data-testid="severity-explanation">
+      Severity is how much higher (+) or lower (−) a classifier rates than the federation’s average classifier would for the same athlete, fitted over all panels at
+      once so that whom they sat with is taken out (bias compares them with their own panels only; decision record 0009); like every figure here it describes
+      consistency between classifiers, not whether any class is correct.
+    </p>
   );
 }
