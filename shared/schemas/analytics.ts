@@ -162,7 +162,7 @@ export type EvaluateResponse = z.infer<typeof evaluateResponseSchema>;
 export const flagThresholdsSchema = z.object({
   kappaMin: z.coerce.number({ message: 'Enter a number' }).min(0, { message: 'At least 0' }).max(1, { message: 'At most 1' }),
   kappaWindow: z.coerce.number({ message: 'Enter a whole number' }).int({ message: 'Enter a whole number' }).min(10, { message: 'At least 10 ratings' }).max(10000, { message: 'At most 10,000 ratings' }),
-  biasMax: z.coerce.number({ message: 'Enter a number' }).min(0.05, { message: 'At least 0.05 class' }).max(2, { message: 'At most 2 classes' }),
+  biasMax: z.coerce.number({ message: 'Enter a number' }).min(0.05, { message: 'At least 0.05 points' }).max(2, { message: 'At most 2 points' }),
   biasWindow: z.coerce.number({ message: 'Enter a whole number' }).int({ message: 'Enter a whole number' }).min(5, { message: 'At least 5 ratings' }).max(10000, { message: 'At most 10,000 ratings' }),
   minRatings: z.coerce.number({ message: 'Enter a whole number' }).int({ message: 'Enter a whole number' }).min(1, { message: 'At least 1' }).max(10000, { message: 'At most 10,000' }),
   driftEnabled: z.boolean(),

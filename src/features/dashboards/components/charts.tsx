@@ -1,6 +1,7 @@
 import * as Plot from '@observablehq/plot';
 import type { Confusion, QuarterStat } from '../../../../shared/schemas/analytics';
 import { CHART_COLORS, INK, MUTED, PlotFigure } from '../../../components/plot-figure';
+import { formatPoints } from '../../../lib/format';
 import { num } from './format';
 
 /**
@@ -269,7 +270,7 @@ export function MultiLineChart({
             data.filter((d) => colorOf.has(d.name)),
             { x: 'quarter', y: 'value', z: 'name', stroke: (d: { name: string }) => colorOf.get(d.name)!, strokeWidth: 2.25 },
           ),
-          Plot.tip(data, Plot.pointer({ x: 'quarter', y: 'value', title: (d: { name: string; quarter: string; value: number; n: number }) => `${d.name}, ${d.quarter}: ${num(d.value)} pt (n = ${d.n})` })),
+          Plot.tip(data, Plot.pointer({ x: 'quarter', y: 'value', title: (d: { name: string; quarter: string; value: number; n: number }) => `${d.name}, ${d.quarter}: ${formatPoints(d.value)} (n = ${d.n})` })),
         ],
       })}
     >

@@ -7,6 +7,7 @@ import { CHART_COLORS, INK, PlotFigure } from '../../../components/plot-figure';
 import { useClassDrift } from '../api/get-class-drift';
 import { useRaterDrift } from '../api/get-rater-drift';
 import { MultiLineChart, SeasonDistributionChart } from './charts';
+import { formatDate } from '../../../lib/format';
 import { integer, num, pct, withInterval } from './format';
 import { PageFrame, QueryState } from './page-frame';
 import { useAnalyticsFilters, type AnalyticsFiltersState } from './use-analytics-filters';
@@ -170,7 +171,7 @@ function ClassDriftSection({ federation, filters }: { federation: string; filter
                     { key: 'athleteCode', header: 'Athlete' },
                     { key: 'from', header: 'From class' },
                     { key: 'to', header: 'To class' },
-                    { key: 'on', header: 'Date' },
+                    { key: 'on', header: 'Date', cell: (r) => formatDate(r.on) },
                     { key: 'kind', header: 'Assessment', cell: (r) => ASSESSMENT_KIND_LABELS[r.kind as AssessmentKind] ?? r.kind },
                   ]}
                   rows={data.changes}

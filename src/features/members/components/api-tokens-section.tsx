@@ -8,7 +8,7 @@ import { ErrorNotice, Loading } from '../../../components/status';
 import { useCreateApiToken } from '../api/create-api-token';
 import { useApiTokens } from '../api/get-api-tokens';
 import { useRevokeApiToken } from '../api/revoke-api-token';
-import { formatTime } from './format-time';
+import { formatDateTime } from '../../../lib/format';
 
 const SCOPE_WORDS = { read: 'Read figures', import: 'Import decisions' } as const;
 
@@ -61,15 +61,15 @@ export function ApiTokensSection({ federation }: { federation: string }) {
     { key: 'name', header: 'System' },
     { key: 'scope', header: 'Scope', cell: (t) => SCOPE_WORDS[t.scope] },
     { key: 'prefix', header: 'Starts with', cell: (t) => <code>{t.prefix}…</code>, sortable: false },
-    { key: 'createdAt', header: 'Created', cell: (t) => `${formatTime(t.createdAt)}${t.createdBy ? ` by ${t.createdBy}` : ''}` },
-    { key: 'lastUsedAt', header: 'Last used', cell: (t) => (t.lastUsedAt ? formatTime(t.lastUsedAt) : 'Never') },
+    { key: 'createdAt', header: 'Created', cell: (t) => `${formatDateTime(t.createdAt)}${t.createdBy ? ` by ${t.createdBy}` : ''}` },
+    { key: 'lastUsedAt', header: 'Last used', cell: (t) => (t.lastUsedAt ? formatDateTime(t.lastUsedAt) : 'Never') },
     {
       key: 'id',
       header: 'Status',
       sortable: false,
       cell: (t) =>
         t.revokedAt ? (
-          <span className="text-muted">Revoked {formatTime(t.revokedAt)}</span>
+          <span className="text-muted">Revoked {formatDateTime(t.revokedAt)}</span>
         ) : (
           <button type="button" className="btn btn-quiet min-h-9 py-1 text-sm" disabled={revoke.isPending} onClick={() => revoke.mutate(t.id)}>
             Revoke<span className="sr-only"> the token {t.name}</span>

@@ -3,7 +3,7 @@ import { useForm, useWatch } from 'react-hook-form';
 import type { z } from 'zod';
 import { inviteSchema, type Invite } from '../../../../shared/schemas/access';
 import { useInviteMember } from '../api/invite-member';
-import { ROLE_NAMES } from './format-time';
+import { ROLE_NAMES } from './role-names';
 
 type InviteInput = z.input<typeof inviteSchema>;
 

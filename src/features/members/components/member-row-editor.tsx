@@ -2,7 +2,7 @@ import { useState } from 'react';
 import type { MemberView } from '../../../../shared/schemas/access';
 import type { Role } from '../../../../shared/schemas/common';
 import { useUpdateMember } from '../api/update-member';
-import { ROLE_NAMES } from './format-time';
+import { ROLE_NAMES } from './role-names';
 
 /** Role (with the roster entry for a classifier) and activity of one member, changed by a lead. */
 export function MemberRowEditor({ federation, member, unlinked, isSelf }: { federation: string; member: MemberView; unlinked: { code: string; displayName: string }[]; isSelf: boolean }) {

@@ -7,7 +7,8 @@ import { useSession } from '../../session/api/session';
 import { useMembers } from '../api/get-members';
 import { useRevokeInvitation } from '../api/revoke-invitation';
 import { ApiTokensSection } from './api-tokens-section';
-import { formatTime, ROLE_NAMES } from './format-time';
+import { formatDateTime } from '../../../lib/format';
+import { ROLE_NAMES } from './role-names';
 import { InviteForm } from './invite-form';
 import { MemberRowEditor } from './member-row-editor';
 
@@ -39,8 +40,8 @@ export function MembersPage() {
   const invitationColumns: DataTableColumn<InvitationView>[] = [
     { key: 'email', header: 'E-mail' },
     { key: 'role', header: 'Role', cell: (i) => `${ROLE_NAMES[i.role]}${i.classifierCode ? ` (${i.classifierCode})` : ''}` },
-    { key: 'createdAt', header: 'Sent', cell: (i) => `${formatTime(i.createdAt)}${i.invitedBy ? ` by ${i.invitedBy}` : ''}` },
-    { key: 'expiresAt', header: 'Expires', cell: (i) => formatTime(i.expiresAt) },
+    { key: 'createdAt', header: 'Sent', cell: (i) => `${formatDateTime(i.createdAt)}${i.invitedBy ? ` by ${i.invitedBy}` : ''}` },
+    { key: 'expiresAt', header: 'Expires', cell: (i) => formatDateTime(i.expiresAt) },
     {
       key: 'id',
       header: 'Revoke',

@@ -1,7 +1,7 @@
 import { ErrorNotice, Loading } from '../../../components/status';
+import { formatDate, formatInteger } from '../../../lib/format';
 import { useSummary } from '../api/get-summary';
 
-const number = new Intl.NumberFormat('en');
 
 /** The federation's counts: what the figures on the page rest on. */
 export function SummaryCounts({ federation }: { federation: string }) {
@@ -26,14 +26,14 @@ export function SummaryCounts({ federation }: { federation: string }) {
           <div key={label} className="card py-4">
             <dt className="text-sm text-muted">{label}</dt>
             <dd className="stat-value" data-testid={`count-${label.toLowerCase()}`}>
-              {number.format(value)}
+              {formatInteger(value)}
             </dd>
           </div>
         ))}
       </dl>
       {firstAssessment ? (
         <p className="mt-2 text-sm text-muted">
-          Assessments from {firstAssessment} to {lastAssessment}.
+          Assessments from {formatDate(firstAssessment)} to {formatDate(lastAssessment)}.
         </p>
       ) : (
         <p className="mt-2 text-sm text-muted">No assessments yet: import panel decisions to begin.</p>
