@@ -34,6 +34,7 @@ registerRoute({
   security: 'none',
   responses: {
     200: { description: 'The session, or {user: null, memberships: []} without one', schema: z.union([sessionSchema, signedOutSchema]) },
+    401: { description: 'A session cookie that no longer holds (expired, revoked or forged)', schema: apiErrorSchema },
     403: { description: 'An API token: this route is for signed-in users', schema: apiErrorSchema },
   },
 });

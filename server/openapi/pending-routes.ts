@@ -21,6 +21,7 @@ const pending: [string, string, string, string][] = [
   ['get', '/api/federations/:federation/outbox', "The federation's local outbox (outside production)", 'session'],
   ['get', '/api/owner/federations', 'Site owner: federations', 'session'],
   ['post', '/api/owner/federations', 'Site owner: create a federation', 'session'],
+  ['post', '/api/owner/federations/:slug/leads', 'Site owner: invite a lead to an existing federation (replaces a pending invitation of the same address)', 'session'],
   ['get', '/api/owner/outbox', 'Site owner: the local outbox (outside production)', 'session'],
   ['get', '/api/federations/:federation/exports/options', 'Research exports: options', 'session'],
   ['get', '/api/federations/:federation/exports', 'Research exports: list', 'session'],

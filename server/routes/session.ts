@@ -65,7 +65,8 @@ export function sessionRouter(ctx: AppContext): Router {
 
   router.get('/session', async (req, res) => {
     // The app asks on every load whether someone is signed in: nobody is an answer, not an error.
-    if (!req.auth) {
+    // A session cookie that no longer holds (expired, revoked, forged) is still a 401.
+    if (!req.auth && !req.cookies?.[SESSION_COOKIE]) {
       res.json({ user: null, memberships: [] } satisfies SignedOutView);
       return;
     }

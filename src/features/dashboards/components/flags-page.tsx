@@ -95,7 +95,11 @@ export function FlagsPage() {
       </section>
       <QueryState query={settings}>{(th) => <FlagSettingsForm federation={federation.slug} initial={th} />}</QueryState>
       <p className="text-sm text-muted">
-        Defaults and the reasoning behind them: docs/dashboards.md. The change detector is the CUSUM of decision record 0002.
+        How each rule works, its default and what the statuses mean:{' '}
+        <Link to="../help#flags" relative="path" className="font-semibold text-harbour underline">
+          Help: calibration flags
+        </Link>
+        .
       </p>
     </PageFrame>
   );

@@ -1,4 +1,4 @@
-import { ErrorNotice, Loading } from '../../../components/status';
+import { QueryState } from '../../../components/query-state';
 import { DataTable, type DataTableColumn } from '../../../components/data-table';
 import type { ExportView } from '../../../../shared/schemas/exports';
 import { ASSESSMENT_KIND_LABELS, type AssessmentKind } from '../../../../shared/schemas/common';
@@ -22,8 +22,7 @@ const COLUMNS: DataTableColumn<Row>[] = [
 /** The caller's own exports, with re-download links for seven days. */
 export function MyExports({ federation }: { federation: string }) {
   const exports = useMyExports(federation);
-  if (exports.isPending) return <Loading label="Loading your exports…" />;
-  if (exports.error) return <ErrorNotice error={exports.error} />;
+  if (exports.isPending || exports.isError) return <QueryState query={exports} loadingLabel="Loading your exports…" what="Your exports">{() => null}</QueryState>;
   const rows: Row[] = exports.data.map((e) => ({
     ...e,
     rows: e.counts.rows,

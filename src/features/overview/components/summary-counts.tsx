@@ -1,4 +1,4 @@
-import { ErrorNotice, Loading } from '../../../components/status';
+import { QueryState } from '../../../components/query-state';
 import { formatDate, formatInteger } from '../../../lib/format';
 import { useSummary } from '../api/get-summary';
 
@@ -6,8 +6,7 @@ import { useSummary } from '../api/get-summary';
 /** The federation's counts: what the figures on the page rest on. */
 export function SummaryCounts({ federation }: { federation: string }) {
   const summary = useSummary(federation);
-  if (summary.isPending) return <Loading />;
-  if (summary.isError) return <ErrorNotice error={summary.error} />;
+  if (summary.isPending || summary.isError) return <QueryState query={summary} what="The federation’s counts">{() => null}</QueryState>;
   const { counts, firstAssessment, lastAssessment } = summary.data;
   const items: [string, number][] = [
     ['Assessments', counts.assessments],
