@@ -155,7 +155,8 @@ export function DataTable<T>({ caption, rows, columns, csvFileName, filterable =
                     const column = columns.find((c) => c.key === cell.column.id);
                     return (
                       <td key={cell.id} role="cell" data-label={column?.header} className={`px-3 py-2 ${column?.align === 'right' ? 'text-right tabular-nums' : ''}`}>
-                        {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                        {/* Called, not mounted as a component: the cell's controls keep their state and focus across renders. */}
+                        {column?.cell ? column.cell(row.original) : String(cell.getValue() ?? '—')}
                       </td>
                     );
                   })}

@@ -20,7 +20,7 @@ export function ExportsPage() {
         <p className="text-muted">Panel decisions for studying whether classification is consistent: the decisions, not the people.</p>
       </div>
       <Caution />
-      <div className={isLead ? 'grid items-start gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]' : 'max-w-3xl'}>
+      <div className={isLead ? 'grid grid-cols-1 items-start gap-6 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]' : 'max-w-3xl'}>
         <QueryState query={options} what="The export options">
           {(data) => <ExportForm federation={federation.slug} options={data} isLead={isLead} />}
         </QueryState>
