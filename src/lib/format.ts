@@ -45,10 +45,11 @@ export function formatSigned(value: number | null | undefined, digits = 2): stri
   return trueMinus(numberFormat(digits, 'exceptZero').format(value));
 }
 
-/** A share as a percentage with a thin space before the sign ("97 %"). */
+/** A share as a percentage, with a no-break space before the sign ("97 %"). */
 export function formatPercent(value: number | null | undefined, digits = 0): string {
   if (!isNumber(value)) return '—';
-  return `${formatNumber(value * 100, digits)} %`;
+  // A no-break space: the sign never wraps away from its number.
+  return `${formatNumber(value * 100, digits)}\u00a0%`;
 }
 
 /** A whole count with grouping ("1,933"). */

@@ -36,7 +36,10 @@ export function withQuarterGaps<T extends { quarter: string; value: number | nul
   return range.map((quarter) => byQuarter.get(quarter) ?? { quarter, value: null });
 }
 
-/** One tick per calendar year of the range: the year's first quarter within it. */
+/**
+ * One tick per calendar year of the range: the year's first quarter within it. A first year that
+ * starts in its last quarter gets no tick, which would sit on the next year's.
+ */
 export function yearTicks(range: readonly string[]): string[] {
   const seen = new Set<string>();
   const ticks: string[] = [];
@@ -44,6 +47,7 @@ export function yearTicks(range: readonly string[]): string[] {
     const year = q.slice(0, 4);
     if (!seen.has(year)) {
       seen.add(year);
+      if (ticks.length === 0 && q.endsWith('-Q4') && range.length > 1) continue;
       ticks.push(q);
     }
   }

@@ -19,6 +19,8 @@ describe('chart axes', () => {
   it('gives small multiples one tick per year, even when a year starts with a missing quarter', () => {
     const range = quarterRange(['2021-Q3', '2022-Q2', '2024-Q1']);
     expect(yearTicks(range)).toEqual(['2021-Q3', '2022-Q1', '2023-Q1', '2024-Q1']);
+    // A span that starts in a year's last quarter labels the next year first (no two ticks side by side).
+    expect(yearTicks(quarterRange(['2022-Q4', '2024-Q2']))).toEqual(['2023-Q1', '2024-Q1']);
     expect(yearTickFormat(60)('2023-Q1')).toBe('2023');
     expect(yearTickFormat(20)('2023-Q1')).toBe('’23');
   });

@@ -29,8 +29,8 @@ describe('the app’s formatter', () => {
   });
 
   it('writes shares, counts and points', () => {
-    expect(formatPercent(0.974)).toBe('97 %');
-    expect(formatPercent(-0.05, 1)).toBe('−5.0 %');
+    expect(formatPercent(0.974)).toBe('97\u00a0%');
+    expect(formatPercent(-0.05, 1)).toBe('−5.0\u00a0%');
     expect(formatInteger(1933)).toBe('1,933');
     expect(formatPoints(0.25)).toBe('0.25 points');
     expect(formatPoints(1, 0)).toBe('1 point');
