@@ -114,7 +114,7 @@ export function ClassifiersPage() {
               kappa: c.quadraticKappa.value,
               kappaCi: ci(c.quadraticKappa.ci95),
               trend: c.trend.map((p) => `${p.quarter}: ${p.value === null ? '' : formatNumber(p.value, 3)}`).join('; '),
-              flags: c.flags.map((f) => `${FLAG_RULE_LABELS[f.rule]} (${f.status})`).join('; '),
+              flags: c.flags.map((f) => `${FLAG_RULE_LABELS[f.rule]} (${FLAG_STATUS_LABELS[f.status]})`).join('; '),
               source: c,
             }))}
           />

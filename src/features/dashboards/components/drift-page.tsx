@@ -1,6 +1,7 @@
 import * as Plot from '@observablehq/plot';
 import { Link } from 'react-router';
 import { ASSESSMENT_KIND_LABELS, type AssessmentKind } from '../../../../shared/schemas/common';
+import { useFilterSearch } from '../../../app/filter-search';
 import { useCurrentFederation } from '../../../app/use-federation';
 import { DataTable } from '../../../components/data-table';
 import { CHART_COLORS, INK, PlotFigure } from '../../../components/plot-figure';
@@ -34,6 +35,7 @@ export function DriftPage() {
 
 function RaterDrift({ federation, filters }: { federation: string; filters: AnalyticsFiltersState }) {
   const query = useRaterDrift(federation, filters.filters);
+  const filterSearch = useFilterSearch();
   return (
     <section aria-labelledby="rater-drift-title" className="space-y-3">
       <h2 id="rater-drift-title">Rater drift</h2>
@@ -65,7 +67,7 @@ function RaterDrift({ federation, filters }: { federation: string; filters: Anal
                     key: 'code',
                     header: 'Classifier',
                     cell: (r) => (
-                      <Link to={`../classifiers/${encodeURIComponent(r.code)}`} relative="path" className="font-semibold text-harbour underline">
+                      <Link to={`../classifiers/${encodeURIComponent(r.code)}${filterSearch}`} relative="path" className="font-semibold text-harbour underline">
                         {r.code}
                       </Link>
                     ),
