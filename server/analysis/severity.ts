@@ -513,7 +513,9 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
       continue;
     }
     const value = beta[i]!;
-    if (robust === null || !(robust[i]! > 0)) {
+    // A variance within rounding of zero (below 1e-12 point², an SE of 1e-6) is no variance: the
+    // same data in another order must give the same answer.
+    if (robust === null || !(robust[i]! > 1e-12)) {
       const why = df <= 0 ? 'no residual degrees of freedom' : 'fewer than two athletes';
       rows.push(out(c, { value, se: null, ci95: null, n: nUsed[i]!, reason: `${why}: the interval is not defined` }));
       continue;

@@ -2,7 +2,7 @@
 import { z } from 'zod';
 import { apiErrorSchema } from '../../shared/schemas/common';
 import { federationSummarySchema } from '../../shared/schemas/federation';
-import { sessionSchema, signInSchema } from '../../shared/schemas/session';
+import { sessionSchema, signedOutSchema, signInSchema } from '../../shared/schemas/session';
 import type { RouteDoc } from '../openapi/registry';
 
 export const foundationRouteDocs: RouteDoc[] = [
@@ -30,10 +30,14 @@ export const foundationRouteDocs: RouteDoc[] = [
 {
   method: 'get',
   path: '/api/session',
-  summary: 'The signed-in user and their memberships',
+  summary: 'The signed-in user and their memberships ({user: null} when nobody is signed in)',
   tags: ['Foundation'],
-  security: { session: true },
-  responses: { 200: { description: 'The session', schema: sessionSchema } },
+  security: 'none',
+  responses: {
+    200: { description: 'The session, or {user: null, memberships: []} without one', schema: z.union([sessionSchema, signedOutSchema]) },
+    401: { description: 'A session cookie that no longer holds (expired, revoked or forged)', schema: apiErrorSchema },
+    403: { description: 'An API token: this route is for signed-in users', schema: apiErrorSchema },
+  },
 },
 {
   method: 'delete',

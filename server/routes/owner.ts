@@ -1,6 +1,6 @@
 import { Router, type RequestHandler } from 'express';
 import { sql } from 'kysely';
-import { federationCreateSchema, type OwnerFederation } from '../../shared/schemas/access';
+import { federationCreateSchema, leadInviteSchema, type OwnerFederation } from '../../shared/schemas/access';
 import { requireSession } from '../auth/access';
 import { nowIso } from '../auth/secret-token';
 import type { AppContext } from '../context';
@@ -76,6 +76,15 @@ export function ownerRouter(ctx: AppContext): Router {
     await audit(ctx.db, { federationId: federation.id, userId: auth.user.id, action: 'federation.create', entity: 'federation', entityId: federation.id, detail: { slug: federation.slug } });
     const { invitation, mailSent } = await createInvitation(ctx, federation, { email: input.leadEmail, role: 'lead' }, { id: auth.user.id, displayName: auth.user.displayName });
     res.status(201).json({ federation: { id: federation.id, slug: federation.slug, name: federation.name }, invitation, mailSent });
+  });
+
+  router.post('/owner/federations/:slug/leads', ownerOnly, async (req, res) => {
+    const auth = requireSession(req);
+    const { email } = parseWith(leadInviteSchema, req.body);
+    const federation = await ctx.db.selectFrom('federations').select(['id', 'slug', 'name']).where('slug', '=', String(req.params.slug)).executeTakeFirst();
+    if (!federation) throw new HttpError(404, 'not_found', `There is no federation ${String(req.params.slug)}`);
+    const { invitation, mailSent } = await createInvitation(ctx, federation, { email, role: 'lead' }, { id: auth.user.id, displayName: auth.user.displayName });
+    res.status(201).json({ invitation, mailSent });
   });
 
   router.get('/owner/outbox', ownerOnly, async (_req, res) => {

@@ -1,6 +1,6 @@
 import crypto from 'node:crypto';
 import { Router } from 'express';
-import { signInSchema, type SessionView } from '../../shared/schemas/session';
+import { signInSchema, type SessionView, type SignedOutView } from '../../shared/schemas/session';
 import { SESSION_COOKIE, requireSession, sessionCookieOptions } from '../auth/access';
 import { signInLimits } from '../auth/rate-limits';
 import { needsRehash, hashPassword, verifyAgainstDummy, verifyPassword } from '../auth/password';
@@ -64,6 +64,12 @@ export function sessionRouter(ctx: AppContext): Router {
   });
 
   router.get('/session', async (req, res) => {
+    // The app asks on every load whether someone is signed in: nobody is an answer, not an error.
+    // A session cookie that no longer holds (expired, revoked, forged) is still a 401.
+    if (!req.auth && !req.cookies?.[SESSION_COOKIE]) {
+      res.json({ user: null, memberships: [] } satisfies SignedOutView);
+      return;
+    }
     const auth = requireSession(req);
     res.json(await sessionView(ctx, auth.user.id));
   });

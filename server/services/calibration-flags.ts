@@ -465,7 +465,7 @@ async function notifyLeads(ctx: AppContext, federation: { id: number; slug: stri
   ].join('\n');
   for (const lead of leads) {
     try {
-      await mailer.send({ to: lead.email, subject, text });
+      await mailer.send({ to: lead.email, subject, text, federation: federation.slug });
     } catch (err) {
       ctx.logger.error({ err, to: lead.email }, 'could not send the calibration flags e-mail');
     }

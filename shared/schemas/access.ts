@@ -156,6 +156,10 @@ export const federationCreateSchema = z.object({
 });
 export type FederationCreate = z.infer<typeof federationCreateSchema>;
 
+/** The site owner invites a (further) lead to an existing federation, e.g. one left without a lead. */
+export const leadInviteSchema = z.object({ email: emailSchema });
+export type LeadInvite = z.infer<typeof leadInviteSchema>;
+
 export const ownerFederationSchema = z.object({
   id: z.number(),
   slug: z.string(),

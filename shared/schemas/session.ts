@@ -21,3 +21,7 @@ export const sessionSchema = z.object({
   localMail: z.boolean().optional(),
 });
 export type SessionView = z.infer<typeof sessionSchema>;
+
+/** GET /api/session when nobody is signed in (200, so the app's probe is not an error). */
+export const signedOutSchema = z.object({ user: z.null(), memberships: z.array(membershipSchema).length(0) });
+export type SignedOutView = z.infer<typeof signedOutSchema>;

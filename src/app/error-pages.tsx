@@ -1,6 +1,8 @@
 import { Link, isRouteErrorResponse, useRouteError } from 'react-router';
+import { usePageTitle } from './page-title';
 
 function Message({ title, children }: { title: string; children: React.ReactNode }) {
+  usePageTitle(title);
   return (
     <main className="mx-auto max-w-xl px-4 py-16">
       <h1>{title}</h1>

@@ -1,10 +1,13 @@
+import { useEffect, useId, useState } from 'react';
 import { NavLink, Navigate, Outlet, useLocation, useNavigate, useParams } from 'react-router';
 import { BrandMark } from '../components/brand';
 import { Loading } from '../components/status';
 import { useSession, useSignOut } from '../features/session/api/session';
 import { ForbiddenPage } from './error-pages';
+import { useFilterSearch } from './filter-search';
 import { navFor } from './nav';
 import { GuardedOutlet } from './page-access';
+import { usePageTitle, useFallbackTitle } from './page-title';
 
 const ROLE_NAMES = { lead: 'Classification lead', classifier: 'Classifier', researcher: 'Researcher' } as const;
 
@@ -17,19 +20,22 @@ export function RequireSession() {
   return <Outlet />;
 }
 
+function NoFederation() {
+  usePageTitle('No federation yet');
+  return (
+    <main className="mx-auto max-w-xl p-8">
+      <h1>No federation yet</h1>
+      <p className="mt-2 text-muted">Your account is not a member of any federation. Ask your federation's classification lead for an invitation.</p>
+    </main>
+  );
+}
+
 /** Sends a signed-in user to their first federation. */
 export function HomeRedirect() {
   const session = useSession();
   const first = session.data?.memberships[0];
   if (!first && session.data?.user.isOwner) return <Navigate to="/owner" replace />;
-  if (!first) {
-    return (
-      <main className="mx-auto max-w-xl p-8">
-        <h1>No federation yet</h1>
-        <p className="mt-2 text-muted">Your account is not a member of any federation. Ask your federation's classification lead for an invitation.</p>
-      </main>
-    );
-  }
+  if (!first) return <NoFederation />;
   const landing = first.role === 'classifier' ? 'me' : '';
   return <Navigate to={`/f/${first.federation.slug}/${landing}`} replace />;
 }
@@ -39,10 +45,27 @@ export function FederationLayout() {
   const session = useSession();
   const signOut = useSignOut();
   const navigate = useNavigate();
+  const { pathname } = useLocation();
+  const filters = useFilterSearch();
+  const [menuOpen, setMenuOpen] = useState(false);
+  const menuId = useId();
   const memberships = session.data?.memberships ?? [];
   const membership = memberships.find((m) => m.federation.slug === federation);
+  const base = `/f/${membership?.federation.slug ?? federation}`;
+  useFallbackTitle(pathname.startsWith(base) ? pathname.slice(base.length) : '');
+  // The phone menu closes once a page is chosen.
+  useEffect(() => setMenuOpen(false), [pathname]);
   if (!membership) return <ForbiddenPage />;
-  const base = `/f/${membership.federation.slug}`;
+
+  const signOutButton = (
+    <button
+      type="button"
+      className="btn btn-quiet min-h-10 py-1.5"
+      onClick={() => signOut.mutate(undefined, { onSuccess: () => navigate('/sign-in', { replace: true }) })}
+    >
+      Sign out
+    </button>
+  );
 
   return (
     <div className="min-h-screen">
@@ -50,18 +73,18 @@ export function FederationLayout() {
         Skip to content
       </a>
       <header className="border-b border-line bg-card">
-        <div className="mx-auto flex max-w-7xl flex-wrap items-center gap-x-6 gap-y-3 px-4 py-3">
-          <NavLink to={base} className="flex items-center gap-2 font-bold tracking-tight">
+        <div className="mx-auto flex max-w-7xl items-center gap-x-4 gap-y-3 px-4 py-3 md:flex-wrap">
+          <NavLink to={`${base}${filters}`} className="flex shrink-0 items-center gap-2 font-bold tracking-tight">
             <BrandMark size={32} />
             <span className="text-lg">Panelwise</span>
           </NavLink>
-          <div className="flex items-center gap-2">
+          <div className="flex min-w-0 items-center gap-2">
             <label htmlFor="federation-switcher" className="sr-only">
               Federation
             </label>
             <select
               id="federation-switcher"
-              className="input min-h-10 py-1.5 text-sm"
+              className="input min-h-10 w-full min-w-0 max-w-[16rem] truncate py-1.5 text-sm md:w-auto md:max-w-xs"
               value={membership.federation.slug}
               onChange={(e) => navigate(`/f/${e.target.value}`)}
             >
@@ -71,36 +94,53 @@ export function FederationLayout() {
                 </option>
               ))}
             </select>
-            <span className="rounded-full bg-harbour-soft px-2.5 py-1 text-xs font-semibold text-harbour">{ROLE_NAMES[membership.role]}</span>
+            <span className="hidden shrink-0 rounded-full bg-harbour-soft px-2.5 py-1 text-xs font-semibold text-harbour md:inline">{ROLE_NAMES[membership.role]}</span>
           </div>
-          <div className="ml-auto flex items-center gap-3 text-sm">
+          <div className="ml-auto hidden items-center gap-3 text-sm md:flex">
             <span className="text-muted">{session.data?.user.displayName}</span>
-            <button
-              type="button"
-              className="btn btn-quiet min-h-10 py-1.5"
-              onClick={() => signOut.mutate(undefined, { onSuccess: () => navigate('/sign-in', { replace: true }) })}
-            >
-              Sign out
-            </button>
+            {signOutButton}
+          </div>
+          <button
+            type="button"
+            className="btn btn-quiet ml-auto min-h-10 shrink-0 px-3 py-1.5 md:hidden"
+            aria-expanded={menuOpen}
+            aria-controls={menuId}
+            onClick={() => setMenuOpen((v) => !v)}
+          >
+            <svg width="18" height="18" viewBox="0 0 18 18" aria-hidden="true">
+              {menuOpen ? (
+                <path d="M4 4l10 10M14 4L4 14" stroke="currentColor" strokeWidth="2" strokeLinecap="round" />
+              ) : (
+                <path d="M2 4h14M2 9h14M2 14h14" stroke="currentColor" strokeWidth="2" strokeLinecap="round" />
+              )}
+            </svg>
+            Menu
+          </button>
+        </div>
+        <div id={menuId} className={`${menuOpen ? 'block' : 'hidden'} mx-auto max-w-7xl md:block`}>
+          <nav aria-label="Federation" className="px-4 md:overflow-x-auto">
+            <ul className="flex flex-col gap-0.5 pb-2 md:flex-row md:gap-1 md:pb-0">
+              {navFor(membership.role).map((item) => (
+                <li key={item.path}>
+                  <NavLink
+                    to={`${item.path ? `${base}/${item.path}` : base}${filters}`}
+                    end={item.path === ''}
+                    className={({ isActive }) =>
+                      `block whitespace-nowrap border-l-[3px] px-3 py-2.5 text-sm font-semibold md:border-b-[3px] md:border-l-0 ${isActive ? 'border-amber text-ink' : 'border-transparent text-muted hover:text-ink'}`
+                    }
+                  >
+                    {item.label}
+                  </NavLink>
+                </li>
+              ))}
+            </ul>
+          </nav>
+          <div className="flex flex-wrap items-center gap-3 border-t border-line px-4 py-3 text-sm md:hidden">
+            <span className="rounded-full bg-harbour-soft px-2.5 py-1 text-xs font-semibold text-harbour">{ROLE_NAMES[membership.role]}</span>
+            <span className="mr-auto text-muted">{session.data?.user.displayName}</span>
+            {signOutButton}
           </div>
         </div>
-        <nav aria-label="Federation" className="mx-auto max-w-7xl overflow-x-auto px-4">
-          <ul className="flex gap-1">
-            {navFor(membership.role).map((item) => (
-              <li key={item.path}>
-                <NavLink
-                  to={item.path ? `${base}/${item.path}` : base}
-                  end={item.path === ''}
-                  className={({ isActive }) =>
-                    `block whitespace-nowrap border-b-[3px] px-3 py-2.5 text-sm font-semibold ${isActive ? 'border-amber text-ink' : 'border-transparent text-muted hover:text-ink'}`
-                  }
-                >
-                  {item.label}
-                </NavLink>
-              </li>
-            ))}
-          </ul>
-        </nav>
       </header>
       <main id="main" className="mx-auto max-w-7xl px-4 py-6">
         <GuardedOutlet membership={membership} />

@@ -23,6 +23,7 @@ export const NAV_ITEMS: NavItem[] = [
   { path: 'members', label: 'Members', roles: ['lead'] },
   { path: 'exports', label: 'Research export', roles: ['lead', 'researcher'] },
   { path: 'imports', label: 'Imports', roles: ['lead'] },
+  { path: 'help', label: 'Help', roles: ['lead', 'classifier', 'researcher'] },
 ];
 
 export function navFor(role: Role): NavItem[] {

@@ -5,6 +5,7 @@ import { memberRoutes, ownerRoute } from '../features/members/routes';
 import { accessLinkRoutes } from '../features/session/routes';
 import { SignInPage } from '../features/session/components/sign-in-page';
 import { ExpiredLinkPage, ForbiddenPage, NotFoundPage, RouteErrorPage } from './error-pages';
+import { Loading } from '../components/status';
 import { FederationLayout, HomeRedirect, RequireSession } from './layout';
 
 /**
@@ -18,6 +19,7 @@ export const federationRoutes: RouteObject[] = [
   ...exerciseRoutes,
   { path: 'exports', lazy: () => import('../features/exports/components/exports-page').then((m) => ({ Component: m.ExportsPage })) },
   { path: 'imports', lazy: () => import('../features/imports/components/imports-page').then((m) => ({ Component: m.ImportsPage })) },
+  { path: 'help', lazy: () => import('./help-page').then((m) => ({ Component: m.HelpPage })) },
 ];
 
 /** Pages that need no session (sign-in, links from e-mails). */
@@ -30,6 +32,8 @@ export const publicRoutes: RouteObject[] = [
 export const routes: RouteObject[] = [
   {
     errorElement: <RouteErrorPage />,
+    // Shown while the first page's lazy module loads (and keeps React Router from warning).
+    hydrateFallbackElement: <Loading />,
     children: [
       ...publicRoutes,
       {

@@ -36,13 +36,19 @@ export interface DataTableProps<T> {
   emptyText?: string;
   initialSort?: SortingState;
   rowKey?: (row: T) => string;
+  /**
+   * On a narrow screen (below 640 px): 'scroll' (default) scrolls the table inside its own box
+   * with the first column kept in view; 'stack' shows each row as a block of labelled values,
+   * for tables whose later columns hold controls (Members).
+   */
+  layout?: 'scroll' | 'stack';
 }
 
 /**
  * An accessible table with sorting, an optional filter, pagination and a CSV download of all
  * (filtered) rows, built on TanStack Table.
  */
-export function DataTable<T>({ caption, rows, columns, csvFileName, filterable = false, pageSize = 25, emptyText = 'Nothing to show.', initialSort = [], rowKey }: DataTableProps<T>) {
+export function DataTable<T>({ caption, rows, columns, csvFileName, filterable = false, pageSize = 25, emptyText = 'Nothing to show.', initialSort = [], rowKey, layout = 'scroll' }: DataTableProps<T>) {
   const [sorting, setSorting] = useState<SortingState>(initialSort);
   const [filter, setFilter] = useState('');
   const filterId = useId();
@@ -102,12 +108,12 @@ export function DataTable<T>({ caption, rows, columns, csvFileName, filterable =
           ) : null}
         </div>
       ) : null}
-      <div className="overflow-x-auto rounded-lg border border-line bg-card">
-        <table className="w-full border-collapse text-sm">
+      <div className="data-table-box overflow-x-auto rounded-lg border border-line bg-card" data-layout={layout}>
+        <table role="table" className={`data-table w-full border-collapse text-sm ${layout === 'stack' ? 'data-table-stack' : 'data-table-scroll'}`}>
           <caption className="sr-only">{caption}</caption>
-          <thead className="bg-paper">
+          <thead role="rowgroup" className="bg-paper">
             {table.getHeaderGroups().map((group) => (
-              <tr key={group.id}>
+              <tr key={group.id} role="row">
                 {group.headers.map((header) => {
                   const column = columns.find((c) => c.key === header.column.id);
                   const sorted = header.column.getIsSorted();
@@ -115,6 +121,7 @@ export function DataTable<T>({ caption, rows, columns, csvFileName, filterable =
                     <th
                       key={header.id}
                       scope="col"
+                      role="columnheader"
                       aria-sort={sorted === 'asc' ? 'ascending' : sorted === 'desc' ? 'descending' : undefined}
                       className={`border-b border-line px-3 py-2 font-semibold ${column?.align === 'right' ? 'text-right' : 'text-left'}`}
                     >
@@ -134,21 +141,22 @@ export function DataTable<T>({ caption, rows, columns, csvFileName, filterable =
               </tr>
             ))}
           </thead>
-          <tbody>
+          <tbody role="rowgroup">
             {table.getRowModel().rows.length === 0 ? (
-              <tr>
-                <td colSpan={columns.length} className="px-3 py-6 text-center text-muted">
+              <tr role="row">
+                <td role="cell" colSpan={columns.length} className="px-3 py-6 text-center text-muted">
                   {emptyText}
                 </td>
               </tr>
             ) : (
               table.getRowModel().rows.map((row) => (
-                <tr key={row.id} className="border-b border-line last:border-b-0 hover:bg-harbour-soft/40">
+                <tr key={row.id} role="row" className="border-b border-line last:border-b-0 hover:bg-harbour-soft/40">
                   {row.getVisibleCells().map((cell) => {
                     const column = columns.find((c) => c.key === cell.column.id);
                     return (
-                      <td key={cell.id} className={`px-3 py-2 ${column?.align === 'right' ? 'text-right tabular-nums' : ''}`}>
-                        {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                      <td key={cell.id} role="cell" data-label={column?.header} className={`px-3 py-2 ${column?.align === 'right' ? 'text-right tabular-nums' : ''}`}>
+                        {/* Called, not mounted as a component: the cell's controls keep their state and focus across renders. */}
+                        {column?.cell ? column.cell(row.original) : String(cell.getValue() ?? '—')}
                       </td>
                     );
                   })}

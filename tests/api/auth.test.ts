@@ -147,6 +147,29 @@ describe('invitations through the local mail server', () => {
     expect(session.body.memberships.map((m: { federation: { slug: string }; role: string }) => `${m.federation.slug}:${m.role}`)).toEqual(['gannet-bay:lead', 'kestrel-coast:researcher']);
     expect((await researcher.get('/api/federations/gannet-bay/members')).status).toBe(200);
   });
+
+  it('the site owner invites a lead to an existing federation, so a federation is never left without one', async () => {
+    const owner = await signedInAgent(t.app, OWNER);
+    await owner.post('/api/owner/federations').send({ slug: 'tern-point', name: 'Tern Point Wheelchair Basketball', leadEmail: 'first.lead@example.test' });
+    expect((await owner.post('/api/owner/federations/tern-point/leads').send({ email: 'not-an-email' })).status).toBe(400);
+    expect((await owner.post('/api/owner/federations/no-such-place/leads').send({ email: 'x@example.test' })).status).toBe(404);
+    expect((await signedInAgent(t.app, LEAD).then((a) => a.post('/api/owner/federations/tern-point/leads').send({ email: 'x@example.test' }))).status).toBe(403);
+
+    const before = await lastMessageId(t);
+    const invited = await owner.post('/api/owner/federations/tern-point/leads').send({ email: 'second.lead@example.test' });
+    expect(invited.status).toBe(201);
+    expect(invited.body.invitation).toEqual(expect.objectContaining({ email: 'second.lead@example.test', role: 'lead' }));
+    const message = await messageTo(t, 'second.lead@example.test', before);
+    expect(message.subject).toBe('Invitation to Tern Point Wheelchair Basketball on Panelwise');
+    const list = await owner.get('/api/owner/federations');
+    expect(list.body.federations).toContainEqual(expect.objectContaining({ slug: 'tern-point', leads: 0, pendingInvitations: 2 }));
+
+    const { token } = linkPath(message.text_body, 'invitations');
+    const accepted = await request(t.app).post(`/api/invitations/${token}/accept`).send({ displayName: 'Second Lead', password: 'second-lead-password', confirmPassword: 'second-lead-password' });
+    expect(accepted.status).toBe(201);
+    expect(accepted.body.role).toBe('lead');
+    expect((await owner.get('/api/owner/federations')).body.federations).toContainEqual(expect.objectContaining({ slug: 'tern-point', leads: 1 }));
+  });
 });
 
 describe('password reset through the local mail server', () => {

@@ -20,7 +20,10 @@ describe('session API', () => {
     expect(String(cookie)).toMatch(/SameSite=Lax/i);
 
     expect((await agent.delete('/api/session')).status).toBe(204);
-    expect((await agent.get('/api/session')).status).toBe(401);
+    const after = await agent.get('/api/session');
+    expect(after.status).toBe(200);
+    expect(after.body).toEqual({ user: null, memberships: [] });
+    expect((await agent.get('/api/federations/kestrel-coast/summary')).status).toBe(401);
   });
 
   it('answers an unknown e-mail and a wrong password the same way', async () => {

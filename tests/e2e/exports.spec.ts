@@ -17,7 +17,7 @@ test('the researcher builds an anonymised export, downloads it, and finds no cla
   await expect(page.getByRole('heading', { name: /Export settings/ })).toHaveCount(0);
   await expect(page.locator('body')).not.toContainText(/S\d{4}-(R\d|CUP|CH)|League round|Coastal Cup/);
 
-  await page.getByRole('group', { name: 'Seasons' }).getByLabel('2022-23').uncheck();
+  await page.getByRole('group', { name: 'Seasons' }).getByLabel('2022–23').uncheck();
   await page.getByRole('button', { name: 'Build export' }).click();
   const ready = page.getByRole('heading', { name: /Export \d+ is ready/ });
   await expect(ready).toBeVisible();
@@ -32,7 +32,7 @@ test('the researcher builds an anonymised export, downloads it, and finds no cla
   expect(csv).not.toMatch(/C\d{2}/); // the demo's classifier codes are C01 … C20
   expect(csv).not.toContain('2022-23');
 
-  await expect(page.getByRole('table', { name: 'My exports' })).toContainText('2023-24');
+  await expect(page.getByRole('table', { name: 'My exports' })).toContainText('2023–24');
   await page.screenshot({ path: 'test-results/e2e/screens/exports-researcher.png', fullPage: true });
 
   const results = await new AxeBuilder({ page }).analyze();

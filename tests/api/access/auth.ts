@@ -42,5 +42,6 @@ export const entries: AccessEntry[] = [
   { method: 'get', path: `${base}/outbox`, expect: leadOnly(200), note: 'outside production only (404 in production); messages about this federation only' },
   { method: 'get', path: '/api/owner/federations', expect: ownerOnly },
   { method: 'post', path: '/api/owner/federations', body: {}, expect: ownerOnly },
+  { method: 'post', path: '/api/owner/federations/:slug/leads', params: { slug: 'kestrel-coast' }, body: {}, expect: ownerOnly },
   { method: 'get', path: '/api/owner/outbox', expect: ownerOnly, note: 'outside production only' },
 ];

@@ -129,11 +129,10 @@ describe('invariance (the statistics treat classifiers and assessments as unorde
         expectSameNumbers(restA, restB);
         // Pairs, classifiers and the severity model's network: same results under the new names.
         const back = new Map([...rename].map(([k, v]) => [v, k]));
+        const byFirst = (x: { classifiers: string[] }, y: { classifiers: string[] }) => (x.classifiers[0]! < y.classifiers[0]! ? -1 : 1);
+        const ownNames = sa.components.map((c) => ({ ...c, classifiers: [...c.classifiers].sort() }));
         const renamedBack = sb.components.map((c) => ({ ...c, classifiers: c.classifiers.map((x) => back.get(x)!).sort() }));
-        expectSameNumbers(
-          { ...sa, components: [...sa.components].sort((x, y) => (x.classifiers[0]! < y.classifiers[0]! ? -1 : 1)) },
-          { ...sb, components: renamedBack.sort((x, y) => (x.classifiers[0]! < y.classifiers[0]! ? -1 : 1)) },
-        );
+        expectSameNumbers({ ...sa, components: ownNames.sort(byFirst) }, { ...sb, components: renamedBack.sort(byFirst) });
         const key = (x: string, y: string) => [x, y].sort().join('|');
         const mapB = new Map(pb.map((p) => [key(back.get(p.a)!, back.get(p.b)!), p]));
         expect(pb.length).toBe(pa.length);

@@ -1,6 +1,8 @@
 import * as Plot from '@observablehq/plot';
 import type { Confusion, QuarterStat } from '../../../../shared/schemas/analytics';
 import { CHART_COLORS, INK, MUTED, PlotFigure } from '../../../components/plot-figure';
+import { categoryAxis, quarterRange, withQuarterGaps, yearTickFormat, yearTicks, type CategoryAxis } from '../../../lib/charts/axes';
+import { formatPoints } from '../../../lib/format';
 import { num } from './format';
 
 /**
@@ -9,7 +11,19 @@ import { num } from './format';
  * stays readable with the common colour-vision deficiencies.
  */
 
-const quarterAxis = (width: number) => ({ label: 'Quarter (calendar)', type: 'point' as const, tickRotate: width < 640 ? -45 : 0, padding: 0.3 });
+const quarterAxis = (width: number) => ({ label: 'Quarter (calendar)', type: 'point' as const, tickRotate: width < 640 ? -45 : 0, padding: 0.3, labelAnchor: 'center' as const, labelOffset: width < 640 ? 66 : 32 });
+
+/** On a long span, every quarter's label would run together: label each year's first quarter only. */
+function quarterTicks(range: string[], width: number): { ticks?: string[] } {
+  const perQuarter = (width - 80) / Math.max(1, range.length);
+  return perQuarter >= 56 ? {} : { ticks: perQuarter * 4 >= 56 ? yearTicks(range) : yearTicks(range).filter((_, i) => i % 2 === 0) };
+}
+
+const pick = (axis: CategoryAxis, key: 'marginBottom') => ({ [key]: axis[key] });
+const omit = (axis: CategoryAxis, key: 'marginBottom') => {
+  const { [key]: _dropped, ...rest } = axis;
+  return rest;
+};
 
 /** A quarterly series with its 95 % interval as a band. */
 export function TrendChart({
@@ -31,7 +45,13 @@ export function TrendChart({
   reference?: number;
 }) {
   const data = points.filter((p) => p.value !== null);
-  const band = data.filter((p) => p.ci95).map((p) => ({ quarter: p.quarter, lo: p.ci95![0], hi: p.ci95![1] }));
+  // Every quarter of the span is on the axis; a quarter without data breaks the line and band.
+  const range = quarterRange(points.map((p) => p.quarter));
+  const line = withQuarterGaps(data, range);
+  const band = withQuarterGaps(
+    data.filter((p) => p.ci95).map((p) => ({ quarter: p.quarter, value: p.value, lo: p.ci95![0], hi: p.ci95![1] })),
+    range,
+  ).map((p) => ('lo' in p ? p : { quarter: p.quarter, lo: null, hi: null }));
   return (
     <PlotFigure
       title={title}
@@ -42,12 +62,12 @@ export function TrendChart({
       build={(width) => ({
         marginBottom: width < 640 ? 78 : 40,
         marginLeft: 56,
-        x: { ...quarterAxis(width), domain: data.map((p) => p.quarter) },
+        x: { ...quarterAxis(width), domain: range, ...quarterTicks(range, width) },
         y: { label: yLabel, grid: true, domain, nice: !domain },
         marks: [
           Plot.areaY(band, { x: 'quarter', y1: 'lo', y2: 'hi', fill: CHART_COLORS[0], fillOpacity: 0.18, curve: 'linear' }),
           reference === undefined ? null : Plot.ruleY([reference], { stroke: MUTED, strokeDasharray: '4 3' }),
-          Plot.lineY(data, { x: 'quarter', y: 'value', stroke: CHART_COLORS[0], strokeWidth: 2 }),
+          Plot.lineY(line, { x: 'quarter', y: 'value', stroke: CHART_COLORS[0], strokeWidth: 2 }),
           Plot.dot(data, { x: 'quarter', y: 'value', fill: CHART_COLORS[0], r: 3, tip: true, title: (d: QuarterStat) => `${d.quarter}: ${num(d.value, 3)} (n = ${d.n})` }),
         ],
       })}
@@ -109,9 +129,10 @@ export function BoundaryBars({ bars, title, fileName, summary, yLabel = 'Split r
       fileName={fileName}
       deps={[bars]}
       height={280}
-      build={() => ({
+      build={(width) => ({
         marginLeft: 56,
-        x: { label: 'Class boundary (lower/upper class)', domain: bars.map((b) => b.boundary), padding: 0.25 },
+        ...pick(categoryAxis(bars.map((b) => b.boundary), width - 76), 'marginBottom'),
+        x: { label: 'Class boundary (lower/upper class)', domain: bars.map((b) => b.boundary), padding: 0.25, ...omit(categoryAxis(bars.map((b) => b.boundary), width - 76), 'marginBottom') },
         y: { label: yLabel, grid: true, domain: [0, Math.max(10, ...data.map((d) => d.hi ?? d.value)) * 1.05] },
         marks: [
           Plot.barY(data, { x: 'boundary', y: 'value', fill: CHART_COLORS[1], tip: true, title: (d: BoundaryBar) => `${d.boundary}: ${num(d.value, 1)} % of ${d.n}` }),
@@ -128,8 +149,16 @@ export function BoundaryBars({ bars, title, fileName, summary, yLabel = 'Split r
 
 /** Split rate of each boundary by quarter, one small panel per boundary. */
 export function BoundaryTrend({ trend, title, fileName, summary }: { trend: { quarter: string; boundary: string; value: number | null; n: number }[]; title: string; fileName: string; summary: string }) {
-  const data = trend.filter((t) => t.value !== null && t.n > 0).map((t) => ({ ...t, value: t.value! * 100 }));
-  const quarters = [...new Set(trend.map((t) => t.quarter))].sort();
+  const quarters = quarterRange(trend.map((t) => t.quarter));
+  const boundaries = [...new Set(trend.map((t) => t.boundary))];
+  // Each boundary's series over every quarter of the span: a quarter without panels is a gap.
+  const data = boundaries.flatMap((boundary) =>
+    withQuarterGaps(
+      trend.filter((t) => t.boundary === boundary && t.value !== null && t.n > 0).map((t) => ({ ...t, value: t.value! * 100 })),
+      quarters,
+    ).map((p) => ({ boundary, n: 0, ...p })),
+  );
+  const ticks = yearTicks(quarters);
   return (
     <PlotFigure
       title={title}
@@ -142,7 +171,14 @@ export function BoundaryTrend({ trend, title, fileName, summary }: { trend: { qu
         marginBottom: 40,
         fx: { axis: null },
         fy: { axis: null },
-        x: { label: 'Quarter', type: 'point', domain: quarters, ticks: quarters.filter((_, i) => i % 4 === 0), tickFormat: (q: string) => q.slice(0, 4) },
+        x: {
+          label: 'Quarter',
+          labelAnchor: 'center',
+          type: 'point',
+          domain: quarters,
+          ticks,
+          tickFormat: yearTickFormat((width - 48) / (width < 700 ? 2 : 4) / Math.max(1, ticks.length)),
+        },
         y: { label: 'Split rate (%)', grid: true, domain: [0, 100] },
         marks: facetGrid(data, width < 700 ? 2 : 4),
       })}
@@ -150,14 +186,17 @@ export function BoundaryTrend({ trend, title, fileName, summary }: { trend: { qu
   );
 }
 
-function facetGrid(data: { quarter: string; boundary: string; value: number }[], columns: number): Plot.Markish[] {
+function facetGrid(data: { quarter: string; boundary: string; value: number | null }[], columns: number): Plot.Markish[] {
   const boundaries = [...new Set(data.map((d) => d.boundary))];
   const place = new Map(boundaries.map((b, i) => [b, { col: i % columns, row: Math.floor(i / columns) }]));
   const opts = { fx: (d: { boundary: string }) => place.get(d.boundary)!.col, fy: (d: { boundary: string }) => place.get(d.boundary)!.row };
   return [
     Plot.frame({ stroke: '#dcd8cf' }),
     Plot.lineY(data, { ...opts, x: 'quarter', y: 'value', stroke: CHART_COLORS[1], strokeWidth: 1.75 }),
-    Plot.dot(data, { ...opts, x: 'quarter', y: 'value', fill: CHART_COLORS[1], r: 2 }),
+    Plot.dot(
+      data.filter((d) => d.value !== null),
+      { ...opts, x: 'quarter', y: 'value', fill: CHART_COLORS[1], r: 2 },
+    ),
     Plot.text(boundaries, {
       fx: (b: string) => place.get(b)!.col,
       fy: (b: string) => place.get(b)!.row,
@@ -253,8 +292,15 @@ export function MultiLineChart({
   summary: string;
   highlight: string[];
 }) {
-  const data = series.flatMap((s) => s.points.filter((p) => p.value !== null).map((p) => ({ name: s.name, quarter: p.quarter, value: p.value!, n: p.n })));
-  const quarters = [...new Set(data.map((d) => d.quarter))].sort();
+  const quarters = quarterRange(series.flatMap((s) => s.points.map((p) => p.quarter)));
+  // Every series over every quarter of the span: a missing quarter breaks that line.
+  const lines = series.flatMap((s) =>
+    withQuarterGaps(
+      s.points.filter((p) => p.value !== null),
+      quarters,
+    ).map((p) => ({ name: s.name, quarter: p.quarter, value: p.value, n: 'n' in p ? p.n : 0 })),
+  );
+  const data = lines.filter((d): d is typeof d & { value: number } => d.value !== null);
   const colorOf = new Map(highlight.map((h, i) => [h, CHART_COLORS[i % 4]!]));
   return (
     <PlotFigure
@@ -266,19 +312,19 @@ export function MultiLineChart({
       build={(width) => ({
         marginLeft: 56,
         marginBottom: width < 640 ? 78 : 40,
-        x: { ...quarterAxis(width), domain: quarters },
+        x: { ...quarterAxis(width), domain: quarters, ...quarterTicks(quarters, width) },
         y: { label: yLabel, grid: true },
         marks: [
           Plot.ruleY([0], { stroke: MUTED }),
           Plot.lineY(
-            data.filter((d) => !colorOf.has(d.name)),
+            lines.filter((d) => !colorOf.has(d.name)),
             { x: 'quarter', y: 'value', z: 'name', stroke: '#c4c0b6', strokeWidth: 1 },
           ),
           Plot.lineY(
-            data.filter((d) => colorOf.has(d.name)),
+            lines.filter((d) => colorOf.has(d.name)),
             { x: 'quarter', y: 'value', z: 'name', stroke: (d: { name: string }) => colorOf.get(d.name)!, strokeWidth: 2.25 },
           ),
-          Plot.tip(data, Plot.pointer({ x: 'quarter', y: 'value', title: (d: { name: string; quarter: string; value: number; n: number }) => `${d.name}, ${d.quarter}: ${num(d.value)} pt (n = ${d.n})` })),
+          Plot.tip(data, Plot.pointer({ x: 'quarter', y: 'value', title: (d: { name: string; quarter: string; value: number; n: number }) => `${d.name}, ${d.quarter}: ${formatPoints(d.value)} (n = ${d.n})` })),
         ],
       })}
     >
@@ -321,9 +367,10 @@ export function SeasonDistributionChart({ seasons, classes, title, fileName, sum
       fileName={fileName}
       deps={[seasons, classes]}
       height={300}
-      build={() => ({
+      build={(width) => ({
         marginLeft: 56,
-        x: { label: 'Season (July to June)', padding: 0.3 },
+        ...pick(categoryAxis(seasons.map((s) => s.season), width - 76), 'marginBottom'),
+        x: { label: 'Season (July to June)', padding: 0.3, ...omit(categoryAxis(seasons.map((s) => s.season), width - 76), 'marginBottom') },
         y: { label: 'Assessments (count)', grid: true },
         color: { type: 'ordinal', scheme: 'cividis', domain: classes, legend: false },
         marks: [

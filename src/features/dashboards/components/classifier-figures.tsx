@@ -2,6 +2,7 @@ import type { ClassifierDetail, MyAgreement } from '../../../../shared/schemas/a
 import { FLAG_RULE_LABELS, FLAG_STATUS_LABELS } from '../../../../shared/schemas/analytics';
 import { BoundaryBars, ConfusionChart, DistributionChart, LevelChangeChart, TrendChart } from './charts';
 import { FlagLapse } from './flag-lapse';
+import { formatPoints, formatSigned, plural } from '../../../lib/format';
 import { integer, num, pct, signed, withInterval } from './format';
 
 function StatCard({ label, value, detail, testId }: { label: string; value: string; detail?: string; testId?: string }) {
@@ -113,7 +114,7 @@ export function ClassifierFigures({ detail, who, fileStem }: { detail: Classifie
           reference={0}
           summary={
             lastQuarter
-              ? `Over all quarters, ${who} rated ${biasWord} the rest of the panel by ${num(Math.abs(row.bias.value ?? 0))} point on average; in ${lastQuarter.quarter} the mean deviation was ${signed(lastQuarter.value)} point (n = ${lastQuarter.n}). The band is the 95 % interval.`
+              ? `Over all quarters, ${who} rated ${biasWord} the rest of the panel by ${formatPoints(Math.abs(row.bias.value ?? 0))} on average; in ${lastQuarter.quarter} the mean deviation was ${formatSigned(lastQuarter.value)} ${plural(Math.abs(lastQuarter.value ?? 0), 'point')} (n = ${lastQuarter.n}). The band is the 95 % interval.`
               : 'No ratings in panels of two or more in these filters.'
           }
         />
@@ -208,7 +209,7 @@ function Distribution({ detail }: { detail: MyAgreement }) {
           title="Bias against the panel, all classifiers"
           xLabel="Mean deviation from the panel (points, + = higher)"
           fileName="my-bias-distribution"
-          summary={`Your bias is ${signed(row.bias.value)} point; the federation’s classifiers range from ${signed(distribution.bias[0])} to ${signed(distribution.bias.at(-1))}.`}
+          summary={`Your bias is ${signed(row.bias.value)} ${plural(Math.abs(row.bias.value ?? 0), 'point')}; the federation’s classifiers range from ${signed(distribution.bias[0])} to ${signed(distribution.bias.at(-1))}.`}
         />
       </div>
     </section>

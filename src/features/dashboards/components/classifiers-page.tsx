@@ -3,6 +3,7 @@ import { FLAG_RULE_LABELS, FLAG_STATUS_LABELS, type ClassifierRow } from '../../
 import { useCurrentFederation } from '../../../app/use-federation';
 import { DataTable, type DataTableColumn } from '../../../components/data-table';
 import { useClassifiers } from '../api/get-classifiers';
+import { formatNumber } from '../../../lib/format';
 import { num, pct, signed } from './format';
 import { PageFrame, QueryState } from './page-frame';
 import { PanelNetworkChart } from './panel-network-chart';
@@ -132,8 +133,8 @@ export function ClassifiersPage() {
               severityCi: ci(c.severity.ci95),
               kappa: c.quadraticKappa.value,
               kappaCi: ci(c.quadraticKappa.ci95),
-              trend: c.trend.map((p) => `${p.quarter}: ${p.value === null ? '' : p.value.toFixed(3)}`).join('; '),
-              flags: c.flags.map((f) => `${FLAG_RULE_LABELS[f.rule]} (${f.status})`).join('; '),
+              trend: c.trend.map((p) => `${p.quarter}: ${p.value === null ? '' : formatNumber(p.value, 3)}`).join('; '),
+              flags: c.flags.map((f) => `${FLAG_RULE_LABELS[f.rule]} (${FLAG_STATUS_LABELS[f.status]})`).join('; '),
               source: c,
             }))}
           />

@@ -1,12 +1,14 @@
 import * as Plot from '@observablehq/plot';
 import { Link } from 'react-router';
 import { ASSESSMENT_KIND_LABELS, type AssessmentKind } from '../../../../shared/schemas/common';
+import { useFilterSearch } from '../../../app/filter-search';
 import { useCurrentFederation } from '../../../app/use-federation';
 import { DataTable } from '../../../components/data-table';
 import { CHART_COLORS, INK, PlotFigure } from '../../../components/plot-figure';
 import { useClassDrift } from '../api/get-class-drift';
 import { useRaterDrift } from '../api/get-rater-drift';
 import { MultiLineChart, SeasonDistributionChart } from './charts';
+import { formatDate } from '../../../lib/format';
 import { integer, num, pct, withInterval } from './format';
 import { PageFrame, QueryState } from './page-frame';
 import { useAnalyticsFilters, type AnalyticsFiltersState } from './use-analytics-filters';
@@ -33,6 +35,7 @@ export function DriftPage() {
 
 function RaterDrift({ federation, filters }: { federation: string; filters: AnalyticsFiltersState }) {
   const query = useRaterDrift(federation, filters.filters);
+  const filterSearch = useFilterSearch();
   return (
     <section aria-labelledby="rater-drift-title" className="space-y-3">
       <h2 id="rater-drift-title">Rater drift</h2>
@@ -67,7 +70,7 @@ function RaterDrift({ federation, filters }: { federation: string; filters: Anal
                     key: 'code',
                     header: 'Classifier',
                     cell: (r) => (
-                      <Link to={`../classifiers/${encodeURIComponent(r.code)}`} relative="path" className="font-semibold text-harbour underline">
+                      <Link to={`../classifiers/${encodeURIComponent(r.code)}${filterSearch}`} relative="path" className="font-semibold text-harbour underline">
                         {r.code}
                       </Link>
                     ),
@@ -177,7 +180,7 @@ function ClassDriftSection({ federation, filters }: { federation: string; filter
                     { key: 'athleteCode', header: 'Athlete' },
                     { key: 'from', header: 'From class' },
                     { key: 'to', header: 'To class' },
-                    { key: 'on', header: 'Date' },
+                    { key: 'on', header: 'Date', cell: (r) => formatDate(r.on) },
                     { key: 'kind', header: 'Assessment', cell: (r) => ASSESSMENT_KIND_LABELS[r.kind as AssessmentKind] ?? r.kind },
                   ]}
                   rows={data.changes}

@@ -4,6 +4,7 @@ import { FLAG_RULE_LABELS, FLAG_STATUS_LABELS, type CalibrationFlag } from '../.
 import { useCurrentFederation } from '../../../app/use-federation';
 import { DataTable } from '../../../components/data-table';
 import { ErrorNotice } from '../../../components/status';
+import { formatCount, formatDate, formatDateTime, formatInteger, formatNumber } from '../../../lib/format';
 import { useEvaluateFlags } from '../api/evaluate-flags';
 import { useFlagSettings } from '../api/get-flag-settings';
 import { useFlags } from '../api/get-flags';
@@ -53,7 +54,7 @@ export function FlagsPage() {
             const rows = data.flags.filter((f) => show === 'all' || f.status !== 'closed');
             return (
               <>
-                <p className="text-sm text-muted">{data.evaluatedAt ? `Last evaluated ${new Date(data.evaluatedAt).toLocaleString('en-GB')}.` : 'Not evaluated yet.'}</p>
+                <p className="text-sm text-muted">{data.evaluatedAt ? `Last evaluated ${formatDateTime(data.evaluatedAt)}.` : 'Not evaluated yet.'}</p>
                 <DataTable
                   caption="Calibration flags"
                   filterable
@@ -83,7 +84,7 @@ export function FlagsPage() {
                     rule: FLAG_RULE_LABELS[f.rule],
                     evidence: f.evidence.summary,
                     status: FLAG_STATUS_LABELS[f.status],
-                    opened: f.openedAt.slice(0, 10),
+                    opened: formatDate(f.openedAt),
                     actions: '',
                     flag: f,
                   }))}
@@ -95,7 +96,11 @@ export function FlagsPage() {
       </section>
       <QueryState query={settings}>{(th) => <FlagSettingsForm federation={federation.slug} initial={th} />}</QueryState>
       <p className="text-sm text-muted">
-        Defaults, the tests behind the rules and their simulated false-flag rates and power: decision record 0008 (docs/decisions/0008-calibration-flag-rules.md).
+        How each rule works, its default and what the statuses mean:{' '}
+        <Link to="../help#flags" relative="path" className="font-semibold text-harbour underline">
+          Help: calibration flags
+        </Link>
+        . The tests behind the rules and their simulated false-flag rates and power are in the project’s decision record 0008.
       </p>
     </PageFrame>
   );
@@ -107,10 +112,10 @@ function EvidenceCell({ flag }: { flag: CalibrationFlag }) {
     <div className="max-w-md space-y-0.5">
       <p>{e.summary}</p>
       <p className="text-xs text-muted">
-        {e.ci95 ? `95 % CI ${e.ci95[0].toFixed(2)} to ${e.ci95[1].toFixed(2)} · ` : ''}
-        {e.n} ratings{e.total !== undefined && e.total !== e.n ? ` of ${e.total}` : ''}
-        {e.from ? `, ${e.from} to ${e.to}` : ''}
-        {e.changeDate ? ` · change around ${e.changeDate}, ${e.direction === 'up' ? 'up' : 'down'}` : ''}
+        {e.ci95 ? `95 % CI ${formatNumber(e.ci95[0])} to ${formatNumber(e.ci95[1])} · ` : ''}
+        {formatCount(e.n, 'rating')}{e.total !== undefined && e.total !== e.n ? ` of ${formatInteger(e.total)}` : ''}
+        {e.from ? `, ${formatDate(e.from)} to ${formatDate(e.to)}` : ''}
+        {e.changeDate ? ` · change around ${formatDate(e.changeDate)}, ${e.direction === 'up' ? 'up' : 'down'}` : ''}
       </p>
     </div>
   );

@@ -1,28 +1,17 @@
 import type { Stat } from '../../../../shared/schemas/analytics';
+import { formatInteger, formatNumber, formatPercent, formatSigned } from '../../../lib/format';
 
-/** Formatting of figures: fixed decimals, a true minus sign, intervals in brackets. */
-export function num(value: number | null | undefined, digits = 2): string {
-  if (value === null || value === undefined || !Number.isFinite(value)) return '—';
-  const text = value.toFixed(digits);
-  // A value that rounds to zero is written without a sign.
-  if (Number(text) === 0) return (0).toFixed(digits);
-  return text.replace('-', '−');
-}
-
-export function signed(value: number | null | undefined, digits = 2): string {
-  if (value === null || value === undefined || !Number.isFinite(value)) return '—';
-  const text = num(value, digits);
-  return `${value > 0 && Number(value.toFixed(digits)) !== 0 ? '+' : ''}${text}`;
-}
-
-export function pct(value: number | null | undefined, digits = 0): string {
-  if (value === null || value === undefined || !Number.isFinite(value)) return '—';
-  return `${(value * 100).toFixed(digits)} %`;
-}
+/**
+ * The dashboards' short names for the app's formatter (src/lib/format.ts): fixed decimals with a
+ * true minus sign, percentages, intervals. New code may import from src/lib/format directly.
+ */
+export const num = formatNumber;
+export const signed = formatSigned;
+export const pct = formatPercent;
 
 export function interval(ci: [number, number] | null | undefined, digits = 2, asPercent = false): string {
   if (!ci) return '';
-  return asPercent ? `${(ci[0] * 100).toFixed(0)}–${(ci[1] * 100).toFixed(0)} %` : `${num(ci[0], digits)} to ${num(ci[1], digits)}`;
+  return asPercent ? `${formatNumber(ci[0] * 100, 0)}–${formatNumber(ci[1] * 100, 0)} %` : `${num(ci[0], digits)} to ${num(ci[1], digits)}`;
 }
 
 /** "0.97 (95 % CI 0.96 to 0.98)", or the reason when undefined. */
@@ -32,4 +21,5 @@ export function withInterval(s: Stat | null | undefined, digits = 2): string {
   return s.ci95 ? `${num(s.value, digits)} (95 % CI ${interval(s.ci95, digits)})` : num(s.value, digits);
 }
 
-export const integer = new Intl.NumberFormat('en');
+/** Whole counts with grouping ("1,933"): `integer.format(n)`. */
+export const integer = { format: (n: number) => formatInteger(n) };

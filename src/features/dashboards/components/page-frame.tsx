@@ -1,11 +1,13 @@
+import { usePageTitle } from '../../../app/page-title';
 import { Caution } from '../../../components/caution';
-import { ErrorNotice, Loading } from '../../../components/status';
+import { QueryState as SharedQueryState } from '../../../components/query-state';
 import { FilterBar } from './filter-bar';
 import type { AnalyticsFiltersState } from './use-analytics-filters';
 
-/** The frame of every dashboard page: heading, filters, the figures, and the caution. */
+/** The frame of every dashboard page: heading (and the document title), filters, the figures, and the caution. */
 export function PageFrame({
   title,
+  documentTitle,
   intro,
   federation,
   filters,
@@ -13,12 +15,15 @@ export function PageFrame({
   children,
 }: {
   title: string;
+  /** The page's name in the browser tab when it differs from the heading (default: the heading). */
+  documentTitle?: string;
   intro: React.ReactNode;
   federation: string;
   filters: AnalyticsFiltersState | null;
   showMinShared?: boolean;
   children: React.ReactNode;
 }) {
+  usePageTitle(documentTitle ?? title);
   return (
     <div className="space-y-6">
       <div className="space-y-1">
@@ -32,9 +37,7 @@ export function PageFrame({
   );
 }
 
-/** Loading and error states of a query, or its content. */
-export function QueryState<T>({ query, children }: { query: { isPending: boolean; isError: boolean; error: unknown; data: T | undefined }; children: (data: T) => React.ReactNode }) {
-  if (query.isPending) return <Loading label="Computing…" />;
-  if (query.isError || query.data === undefined) return <ErrorNotice error={query.error} />;
-  return <>{children(query.data)}</>;
+/** The shared loading, error-with-retry and content states (src/components/query-state.tsx), with "Computing…" while figures load. */
+export function QueryState<T>(props: Parameters<typeof SharedQueryState<T>>[0]) {
+  return <SharedQueryState loadingLabel="Computing…" {...props} />;
 }

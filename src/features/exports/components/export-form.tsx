@@ -13,6 +13,7 @@ import {
   type ExportView,
 } from '../../../../shared/schemas/exports';
 import { ApiError } from '../../../lib/api-client';
+import { formatCount, formatEventLevel, formatSeason } from '../../../lib/format';
 import { useCreateExport } from '../api/create-export';
 import { ExportFiles } from './export-files';
 
@@ -92,12 +93,12 @@ export function ExportForm({ federation, options, isLead }: { federation: string
           One row per rating, in CSV and JSON, with a data dictionary. Athletes, classifiers, events and assessments are replaced by pseudonyms; names,
           codes, notes and exact dates never leave. Combinations held by fewer than {options.minAthletes} athletes are blanked.
         </p>
-        <CheckGroup legend="Seasons" hint="1 July to 30 June." name="scope.seasons" options={options.seasons.map((s) => ({ value: s, label: s }))} register={form.register} error={errors.scope?.seasons as FieldError | undefined} />
+        <CheckGroup legend="Seasons" hint="1 July to 30 June." name="scope.seasons" options={options.seasons.map((s) => ({ value: s, label: formatSeason(s) }))} register={form.register} error={errors.scope?.seasons as FieldError | undefined} />
         <CheckGroup
           legend="Event levels"
           hint={isLead ? 'Events are chosen by level; as a lead you can also narrow to individual events below.' : 'Events are chosen by level: individual events are not listed for researchers.'}
           name="scope.eventLevels"
-          options={options.eventLevels.map((l) => ({ value: l, label: l }))}
+          options={options.eventLevels.map((l) => ({ value: l, label: formatEventLevel(l) }))}
           register={form.register}
           error={errors.scope?.eventLevels as FieldError | undefined}
         />
@@ -176,8 +177,8 @@ function ExportReady({ view }: { view: ExportView }) {
     <section className="card space-y-3" aria-labelledby="export-ready-title" role="status">
       <h2 id="export-ready-title">Export {view.id} is ready</h2>
       <p>
-        {view.counts.rows.toLocaleString('en')} rows: {view.counts.assessments.toLocaleString('en')} assessments, {view.counts.athletes} athletes,{' '}
-        {view.counts.classifiers} classifiers. Blanked for k = {view.minAthletes}: categories of {s.categoryAthletes} athletes ({s.categoryRows} rows), attributes
+        {formatCount(view.counts.rows, 'row')}: {formatCount(view.counts.assessments, 'assessment')}, {formatCount(view.counts.athletes, 'athlete')},{' '}
+        {formatCount(view.counts.classifiers, 'classifier')}. Blanked for k = {view.minAthletes}: categories of {s.categoryAthletes} athletes ({s.categoryRows} rows), attributes
         of {s.combinationAssessments} assessments ({s.combinationRows} rows). No row was dropped.
       </p>
       <ExportFiles view={view} />

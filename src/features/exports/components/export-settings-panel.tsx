@@ -2,7 +2,8 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useId } from 'react';
 import { useForm } from 'react-hook-form';
 import { createStudySchema, exportSettingsSchema, type CreateStudy, type ExportSettings, type ExportSettingsView } from '../../../../shared/schemas/exports';
-import { ErrorNotice, Loading } from '../../../components/status';
+import { useConfirm } from '../../../components/confirm-dialog';
+import { QueryState } from '../../../components/query-state';
 import { ApiError } from '../../../lib/api-client';
 import { useCloseStudy } from '../api/close-study';
 import { useCreateStudy } from '../api/create-study';
@@ -105,10 +106,14 @@ function StudyForm({ federation }: { federation: string }) {
 export function ExportSettingsPanel({ federation }: { federation: string }) {
   const settings = useExportSettings(federation);
   const close = useCloseStudy(federation);
+  const { confirm, dialog } = useConfirm();
   return (
     <section className="card space-y-6" aria-labelledby="export-settings-title">
+      {dialog}
       <h2 id="export-settings-title">Export settings (leads only)</h2>
-      {settings.isPending ? <Loading /> : settings.error ? <ErrorNotice error={settings.error} /> : <KForm key={`${settings.data.minAthletes}-${settings.data.maxExportsPerDay}-${settings.data.maxStoredMegabytes}`} federation={federation} initial={settings.data} />}
+      <QueryState query={settings} what="The export settings">
+        {(data) => <KForm key={`${data.minAthletes}-${data.maxExportsPerDay}-${data.maxStoredMegabytes}`} federation={federation} initial={data} />}
+      </QueryState>
       <StudyForm federation={federation} />
       {settings.data && settings.data.studies.length > 0 ? (
         <div className="space-y-2">
@@ -123,7 +128,20 @@ export function ExportSettingsPanel({ federation }: { federation: string }) {
                 {s.closedAt ? (
                   <span className="text-sm text-muted">Closed</span>
                 ) : (
-                  <button type="button" className="btn btn-quiet min-h-10 py-1.5" disabled={close.isPending} onClick={() => close.mutate(s.id)}>
+                  <button type="button" className="btn btn-quiet min-h-10 py-1.5" disabled={close.isPending} onClick={async () => {
+                      const ok = await confirm({
+                        title: `Close the study “${s.name}”?`,
+                        consequence: (
+                          <p>
+                            Its stable key can no longer be used: no new export can be made under it, so later exports cannot be joined with its earlier ones. Exports
+                            already built stay downloadable until they expire. A closed study cannot be reopened.
+                          </p>
+                        ),
+                        confirmLabel: 'Close the study',
+                      });
+                      if (ok) close.mutate(s.id);
+                    }}
+                  >
                     Close {s.name}
                   </button>
                 )}

@@ -4,11 +4,13 @@ import { useForm } from 'react-hook-form';
 import type { z } from 'zod';
 import { tokenCreateSchema, type CreatedToken, type TokenCreate, type TokenView } from '../../../../shared/schemas/access';
 import { DataTable, type DataTableColumn } from '../../../components/data-table';
-import { ErrorNotice, Loading } from '../../../components/status';
+import { useConfirm } from '../../../components/confirm-dialog';
+import { QueryState } from '../../../components/query-state';
+import { ErrorNotice } from '../../../components/status';
 import { useCreateApiToken } from '../api/create-api-token';
 import { useApiTokens } from '../api/get-api-tokens';
 import { useRevokeApiToken } from '../api/revoke-api-token';
-import { formatTime } from './format-time';
+import { formatDateTime } from '../../../lib/format';
 
 const SCOPE_WORDS = { read: 'Read figures', import: 'Import decisions' } as const;
 
@@ -45,6 +47,7 @@ export function ApiTokensSection({ federation }: { federation: string }) {
   const create = useCreateApiToken(federation);
   const revoke = useRevokeApiToken(federation);
   const [shown, setShown] = useState<CreatedToken | null>(null);
+  const { confirm, dialog } = useConfirm();
   const form = useForm<z.input<typeof tokenCreateSchema>, unknown, TokenCreate>({ resolver: zodResolver(tokenCreateSchema), defaultValues: { name: '', scope: 'import' } });
   const { errors } = form.formState;
   const onSubmit = form.handleSubmit((values) =>
@@ -61,17 +64,37 @@ export function ApiTokensSection({ federation }: { federation: string }) {
     { key: 'name', header: 'System' },
     { key: 'scope', header: 'Scope', cell: (t) => SCOPE_WORDS[t.scope] },
     { key: 'prefix', header: 'Starts with', cell: (t) => <code>{t.prefix}…</code>, sortable: false },
-    { key: 'createdAt', header: 'Created', cell: (t) => `${formatTime(t.createdAt)}${t.createdBy ? ` by ${t.createdBy}` : ''}` },
-    { key: 'lastUsedAt', header: 'Last used', cell: (t) => (t.lastUsedAt ? formatTime(t.lastUsedAt) : 'Never') },
+    { key: 'createdAt', header: 'Created', cell: (t) => `${formatDateTime(t.createdAt)}${t.createdBy ? ` by ${t.createdBy}` : ''}` },
+    { key: 'lastUsedAt', header: 'Last used', cell: (t) => (t.lastUsedAt ? formatDateTime(t.lastUsedAt) : 'Never') },
     {
       key: 'id',
       header: 'Status',
       sortable: false,
       cell: (t) =>
         t.revokedAt ? (
-          <span className="text-muted">Revoked {formatTime(t.revokedAt)}</span>
+          <span className="text-muted">Revoked {formatDateTime(t.revokedAt)}</span>
         ) : (
-          <button type="button" className="btn btn-quiet min-h-9 py-1 text-sm" disabled={revoke.isPending} onClick={() => revoke.mutate(t.id)}>
+          <button
+            type="button"
+            className="btn btn-quiet min-h-9 py-1 text-sm"
+            disabled={revoke.isPending}
+            onClick={async () => {
+              const ok = await confirm({
+                title: `Revoke the token “${t.name}”?`,
+                consequence: (
+                  <>
+                    <p>
+                      Every request that sends the token starting <code>{t.prefix}…</code> is refused from now on: {t.name} can no longer{' '}
+                      {t.scope === 'import' ? 'import decisions into' : 'read the figures of'} this federation.
+                    </p>
+                    <p>This cannot be undone; create a new token and give it to the system if it still needs access.</p>
+                  </>
+                ),
+                confirmLabel: 'Revoke the token',
+              });
+              if (ok) revoke.mutate(t.id);
+            }}
+          >
             Revoke<span className="sr-only"> the token {t.name}</span>
           </button>
         ),
@@ -80,6 +103,7 @@ export function ApiTokensSection({ federation }: { federation: string }) {
 
   return (
     <section className="space-y-4" aria-labelledby="tokens-title">
+      {dialog}
       <h2 id="tokens-title">API tokens</h2>
       <p className="text-sm text-muted">For the federation's own systems (for example its registration system): a token reads figures or imports decisions for this federation only, and never signs anyone in.</p>
       <form onSubmit={onSubmit} className="card flex flex-wrap items-end gap-4" noValidate aria-label="Create an API token">
@@ -102,7 +126,9 @@ export function ApiTokensSection({ federation }: { federation: string }) {
       </form>
       {shown ? <ShownOnce created={shown} onDone={() => setShown(null)} /> : null}
       {revoke.error ? <ErrorNotice error={revoke.error} /> : null}
-      {tokens.isPending ? <Loading /> : tokens.error ? <ErrorNotice error={tokens.error} /> : <DataTable caption="API tokens" rows={tokens.data} columns={columns} emptyText="No API tokens yet." rowKey={(t) => String(t.id)} />}
+      <QueryState query={tokens} what="The API tokens">
+        {(rows) => <DataTable caption="API tokens" layout="stack" rows={rows} columns={columns} emptyText="No API tokens yet." rowKey={(t) => String(t.id)} />}
+      </QueryState>
     </section>
   );
 }

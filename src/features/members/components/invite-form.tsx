@@ -1,26 +1,50 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useForm, useWatch } from 'react-hook-form';
 import type { z } from 'zod';
-import { inviteSchema, type Invite } from '../../../../shared/schemas/access';
+import { inviteSchema, type Invite, type InvitationView } from '../../../../shared/schemas/access';
+import { useConfirm, type ConfirmOptions } from '../../../components/confirm-dialog';
+import { formatDateTime } from '../../../lib/format';
 import { useInviteMember } from '../api/invite-member';
-import { ROLE_NAMES } from './format-time';
+import { ROLE_NAMES } from './role-names';
 
 type InviteInput = z.input<typeof inviteSchema>;
 
-export function InviteForm({ federation, unlinked }: { federation: string; unlinked: { code: string; displayName: string }[] }) {
+/** Sending again to an address with a pending invitation replaces it: its link stops working. */
+export function replaceInvitationQuestion(earlier: InvitationView): ConfirmOptions {
+  return {
+    title: `Replace the pending invitation of ${earlier.email}?`,
+    consequence: (
+      <>
+        <p>
+          {earlier.email} already has an invitation as {ROLE_NAMES[earlier.role].toLowerCase()}
+          {earlier.classifierCode ? ` (${earlier.classifierCode})` : ''}, sent {formatDateTime(earlier.createdAt)}. A new invitation replaces it: the link in the
+          earlier e-mail will stop working, and only the new e-mail’s link will open.
+        </p>
+      </>
+    ),
+    confirmLabel: 'Send a new invitation',
+    cancelLabel: 'Keep the earlier one',
+  };
+}
+
+export function InviteForm({ federation, unlinked, pending = [] }: { federation: string; unlinked: { code: string; displayName: string }[]; pending?: InvitationView[] }) {
   const invite = useInviteMember(federation);
+  const { confirm, dialog } = useConfirm();
   const form = useForm<InviteInput, unknown, Invite>({ resolver: zodResolver(inviteSchema), defaultValues: { email: '', role: 'classifier', classifierCode: undefined } });
   const role = useWatch({ control: form.control, name: 'role' });
   const { errors } = form.formState;
-  const onSubmit = form.handleSubmit((values) =>
-    invite.mutateAsync(values).then(
+  const onSubmit = form.handleSubmit(async (values) => {
+    const earlier = pending.find((i) => i.email.toLowerCase() === values.email.toLowerCase());
+    if (earlier && !(await confirm(replaceInvitationQuestion(earlier)))) return;
+    await invite.mutateAsync(values).then(
       () => form.reset({ email: '', role: values.role, classifierCode: undefined }),
       () => undefined,
-    ),
-  );
+    );
+  });
 
   return (
     <form onSubmit={onSubmit} className="card space-y-4" noValidate aria-labelledby="invite-title">
+      {dialog}
       <h2 id="invite-title">Invite someone</h2>
       <p className="text-sm text-muted">They get an e-mail with a link that works once, for seven days. A classifier is linked to their roster entry and sees only their own figures.</p>
       {invite.error ? (

@@ -1,12 +1,26 @@
 import { useState } from 'react';
 import type { MemberView } from '../../../../shared/schemas/access';
 import type { Role } from '../../../../shared/schemas/common';
+import { useConfirm } from '../../../components/confirm-dialog';
 import { useUpdateMember } from '../api/update-member';
-import { ROLE_NAMES } from './format-time';
+import { ROLE_NAMES } from './role-names';
 
 /** Role (with the roster entry for a classifier) and activity of one member, changed by a lead. */
-export function MemberRowEditor({ federation, member, unlinked, isSelf }: { federation: string; member: MemberView; unlinked: { code: string; displayName: string }[]; isSelf: boolean }) {
+export function MemberRowEditor({
+  federation,
+  federationName,
+  member,
+  unlinked,
+  isSelf,
+}: {
+  federation: string;
+  federationName: string;
+  member: MemberView;
+  unlinked: { code: string; displayName: string }[];
+  isSelf: boolean;
+}) {
   const update = useUpdateMember(federation);
+  const { confirm, dialog } = useConfirm();
   const [role, setRole] = useState<Role>(member.role);
   const [code, setCode] = useState(member.classifierCode ?? '');
   const changed = role !== member.role || (role === 'classifier' && code !== (member.classifierCode ?? ''));
@@ -55,11 +69,30 @@ export function MemberRowEditor({ federation, member, unlinked, isSelf }: { fede
         className="btn btn-quiet min-h-9 py-1 text-sm disabled:opacity-50"
         disabled={update.isPending || (isSelf && member.active)}
         title={isSelf && member.active ? 'You cannot deactivate yourself' : undefined}
-        onClick={() => update.mutate({ userId: member.userId, update: { active: !member.active } })}
+        onClick={async () => {
+          if (
+            member.active &&
+            !(await confirm({
+              title: `Deactivate ${who}?`,
+              consequence: (
+                <>
+                  <p>
+                    {who} ({member.email}) loses {federationName} at once: their next page or request is refused, and any e-mailed link they hold stops working here.
+                  </p>
+                  <p>Their account, ratings and roster entry stay. You can reactivate them later from this table.</p>
+                </>
+              ),
+              confirmLabel: `Deactivate ${who}`,
+            }))
+          )
+            return;
+          update.mutate({ userId: member.userId, update: { active: !member.active } });
+        }}
       >
         {member.active ? `Deactivate` : `Reactivate`}
         <span className="sr-only"> {who}</span>
       </button>
+      {dialog}
       {update.error ? (
         <p role="alert" className="w-full text-sm text-alert">
           {update.error.message}

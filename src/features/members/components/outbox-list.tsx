@@ -1,5 +1,5 @@
 import type { OutboxMessage } from '../../../../shared/schemas/access';
-import { formatTime } from './format-time';
+import { formatDateTime } from '../../../lib/format';
 
 /** Messages kept by the local mail server, newest first, with their links. */
 export function OutboxList({ messages }: { messages: OutboxMessage[] }) {
@@ -13,7 +13,7 @@ export function OutboxList({ messages }: { messages: OutboxMessage[] }) {
               {m.subject}
             </h3>
             <p className="text-sm text-muted">
-              To {m.to} · {formatTime(m.receivedAt)}
+              To {m.to} · {formatDateTime(m.receivedAt)}
             </p>
             {m.links.length > 0 ? (
               <ul className="mt-2 space-y-1">

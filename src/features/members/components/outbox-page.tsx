@@ -1,5 +1,6 @@
 import { useCurrentFederation } from '../../../app/use-federation';
-import { ErrorNotice, Loading } from '../../../components/status';
+import { usePageTitle } from '../../../app/page-title';
+import { QueryState } from '../../../components/query-state';
 import { useOutbox } from '../api/get-outbox';
 import { OutboxList } from './outbox-list';
 
@@ -7,6 +8,7 @@ import { OutboxList } from './outbox-list';
 export function OutboxPage() {
   const { federation } = useCurrentFederation();
   const outbox = useOutbox(federation.slug);
+  usePageTitle('Outbox');
   return (
     <div className="space-y-4">
       <h1>Outbox</h1>
@@ -17,7 +19,9 @@ export function OutboxPage() {
       <button type="button" className="btn btn-quiet" onClick={() => void outbox.refetch()}>
         Refresh
       </button>
-      {outbox.isPending ? <Loading /> : outbox.error ? <ErrorNotice error={outbox.error} /> : <OutboxList messages={outbox.data} />}
+      <QueryState query={outbox} what="The Outbox">
+        {(messages) => <OutboxList messages={messages} />}
+      </QueryState>
     </div>
   );
 }

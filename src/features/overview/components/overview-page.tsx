@@ -1,5 +1,6 @@
 import { Link } from 'react-router';
 import { FLAG_RULE_LABELS, FLAG_STATUS_LABELS, type Coefficient, type Overview } from '../../../../shared/schemas/analytics';
+import { useFilterSearch } from '../../../app/filter-search';
 import { useCurrentFederation } from '../../../app/use-federation';
 import { DataTable } from '../../../components/data-table';
 import { TrendChart } from '../../dashboards/components/charts';
@@ -141,9 +142,11 @@ export function OverviewPage() {
   const { federation, role } = useCurrentFederation();
   const filters = useAnalyticsFilters();
   const overview = useOverview(federation.slug, filters.filters);
+  const filterSearch = useFilterSearch();
   return (
     <PageFrame
       title={federation.name}
+      documentTitle="Overview"
       intro="How consistently the federation’s panels classify: same-class agreement and points at stake first, then the coefficients, the trend by quarter and the open calibration flags."
       federation={federation.slug}
       filters={filters}
@@ -244,7 +247,7 @@ export function OverviewPage() {
                   <ul className="mt-3 divide-y divide-line">
                     {o.openFlags.map((f) => (
                       <li key={f.id} className="flex flex-wrap gap-x-3 py-2">
-                        <Link to={`classifiers/${encodeURIComponent(f.classifierCode)}`} className="font-semibold text-harbour underline">
+                        <Link to={`classifiers/${encodeURIComponent(f.classifierCode)}${filterSearch}`} className="font-semibold text-harbour underline">
                           {f.classifierCode} {f.classifierName}
                         </Link>
                         <span>{FLAG_RULE_LABELS[f.rule]}</span>

@@ -1,13 +1,12 @@
-import { ErrorNotice, Loading } from '../../../components/status';
+import { QueryState } from '../../../components/query-state';
+import { formatDate, formatInteger } from '../../../lib/format';
 import { useSummary } from '../api/get-summary';
 
-const number = new Intl.NumberFormat('en');
 
 /** The federation's counts: what the figures on the page rest on. */
 export function SummaryCounts({ federation }: { federation: string }) {
   const summary = useSummary(federation);
-  if (summary.isPending) return <Loading />;
-  if (summary.isError) return <ErrorNotice error={summary.error} />;
+  if (summary.isPending || summary.isError) return <QueryState query={summary} what="The federation’s counts">{() => null}</QueryState>;
   const { counts, firstAssessment, lastAssessment } = summary.data;
   const items: [string, number][] = [
     ['Assessments', counts.assessments],
@@ -26,14 +25,14 @@ export function SummaryCounts({ federation }: { federation: string }) {
           <div key={label} className="card py-4">
             <dt className="text-sm text-muted">{label}</dt>
             <dd className="stat-value" data-testid={`count-${label.toLowerCase()}`}>
-              {number.format(value)}
+              {formatInteger(value)}
             </dd>
           </div>
         ))}
       </dl>
       {firstAssessment ? (
         <p className="mt-2 text-sm text-muted">
-          Assessments from {firstAssessment} to {lastAssessment}.
+          Assessments from {formatDate(firstAssessment)} to {formatDate(lastAssessment)}.
         </p>
       ) : (
         <p className="mt-2 text-sm text-muted">No assessments yet: import panel decisions to begin.</p>

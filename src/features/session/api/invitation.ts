@@ -23,9 +23,11 @@ export function useAcceptInvitation(token: string) {
   return useMutation({
     mutationFn: (body: AcceptNewUser | Record<string, never>) => api<AcceptResult>(`/invitations/${encodeURIComponent(token)}/accept`, { method: 'POST', body }),
     onSuccess: async (result) => {
+      // The accepted link now answers 410: keep its cached preview while the page is still shown,
+      // so nothing asks for it again; every other query starts afresh for the new session.
+      queryClient.removeQueries({ predicate: (q) => q.queryKey[0] !== 'invitations' });
       if (!result.signedIn) return;
       const session = await api<SessionView>('/session');
-      queryClient.clear();
       queryClient.setQueryData(sessionQueryOptions().queryKey, session);
     },
   });

@@ -1,5 +1,5 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { SessionView, SignIn } from '../../../../shared/schemas/session';
+import type { SessionView, SignedOutView, SignIn } from '../../../../shared/schemas/session';
 import { api, ApiError } from '../../../lib/api-client';
 
 /** The signed-in user and their memberships; null when nobody is signed in. */
@@ -8,7 +8,9 @@ export function sessionQueryOptions() {
     queryKey: ['session'],
     queryFn: async (): Promise<SessionView | null> => {
       try {
-        return await api<SessionView>('/session');
+        // Without a session the server answers 200 {user: null}: the probe is not an error.
+        const session = await api<SessionView | SignedOutView>('/session');
+        return session.user === null ? null : (session as SessionView);
       } catch (error) {
         if (error instanceof ApiError && error.status === 401) return null;
         throw error;

@@ -3,10 +3,11 @@ import { useForm } from 'react-hook-form';
 import { Link, useNavigate, useParams } from 'react-router';
 import { acceptNewUserSchema, type AcceptNewUser, type AcceptResult, PASSWORD_MIN } from '../../../../shared/schemas/access';
 import { ExpiredLinkPage } from '../../../app/error-pages';
-import { ErrorNotice, Loading } from '../../../components/status';
+import { ErrorState, Loading } from '../../../components/status';
 import { ApiError } from '../../../lib/api-client';
 import { useAcceptInvitation, useInvitation } from '../api/invitation';
 import { useSession } from '../api/session';
+import { usePageTitle } from '../../../app/page-title';
 import { FormAlert, PublicFrame } from './public-frame';
 
 const ROLE_WORDS = { lead: 'classification lead', classifier: 'classifier', researcher: 'researcher' } as const;
@@ -22,11 +23,12 @@ export function AcceptInvitationPage() {
   const navigate = useNavigate();
   const form = useForm<AcceptNewUser>({ resolver: zodResolver(acceptNewUserSchema), defaultValues: { displayName: '', password: '', confirmPassword: '' } });
   const { errors } = form.formState;
+  usePageTitle(invitation.data ? `Join ${invitation.data.federation.name}` : 'Invitation');
 
   if (invitation.isPending) return <Loading />;
   if (invitation.error instanceof ApiError && invitation.error.status === 410) return <ExpiredLinkPage />;
   if (accept.error instanceof ApiError && accept.error.status === 410) return <ExpiredLinkPage />;
-  if (invitation.error) return <PublicFrame><ErrorNotice error={invitation.error} /></PublicFrame>;
+  if (invitation.error) return <PublicFrame><ErrorState error={invitation.error} what="The invitation" retrying={invitation.isFetching} onRetry={() => void invitation.refetch()} /></PublicFrame>;
 
   const offer = invitation.data;
   const done = (result: AcceptResult) => {

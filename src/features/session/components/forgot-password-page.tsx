@@ -3,9 +3,11 @@ import { useForm } from 'react-hook-form';
 import { Link } from 'react-router';
 import { resetRequestSchema, type ResetRequest } from '../../../../shared/schemas/access';
 import { useRequestPasswordReset } from '../api/password-reset';
+import { usePageTitle } from '../../../app/page-title';
 import { FormAlert, PublicFrame } from './public-frame';
 
 export function ForgotPasswordPage() {
+  usePageTitle('Forgot your password');
   const request = useRequestPasswordReset();
   const form = useForm<ResetRequest>({ resolver: zodResolver(resetRequestSchema), defaultValues: { email: '' } });
   const { errors } = form.formState;

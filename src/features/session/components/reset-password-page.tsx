@@ -3,12 +3,14 @@ import { useForm } from 'react-hook-form';
 import { useNavigate, useParams } from 'react-router';
 import { resetPasswordSchema, type ResetPassword, PASSWORD_MIN } from '../../../../shared/schemas/access';
 import { ExpiredLinkPage } from '../../../app/error-pages';
-import { ErrorNotice, Loading } from '../../../components/status';
+import { ErrorState, Loading } from '../../../components/status';
 import { ApiError } from '../../../lib/api-client';
 import { usePasswordReset, useResetPassword } from '../api/password-reset';
+import { usePageTitle } from '../../../app/page-title';
 import { FormAlert, PublicFrame } from './public-frame';
 
 export function ResetPasswordPage() {
+  usePageTitle('Choose a new password');
   const { token = '' } = useParams();
   const reset = usePasswordReset(token);
   const save = useResetPassword(token);
@@ -19,7 +21,7 @@ export function ResetPasswordPage() {
   if (reset.isPending) return <Loading />;
   if (reset.error instanceof ApiError && reset.error.status === 410) return <ExpiredLinkPage />;
   if (save.error instanceof ApiError && save.error.status === 410) return <ExpiredLinkPage />;
-  if (reset.error) return <PublicFrame><ErrorNotice error={reset.error} /></PublicFrame>;
+  if (reset.error) return <PublicFrame><ErrorState error={reset.error} what="The link" retrying={reset.isFetching} onRetry={() => void reset.refetch()} /></PublicFrame>;
 
   const onSubmit = form.handleSubmit((values) =>
     save.mutateAsync(values).then(

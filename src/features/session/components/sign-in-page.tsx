@@ -3,9 +3,11 @@ import { useForm } from 'react-hook-form';
 import { Link, Navigate, useNavigate, useSearchParams } from 'react-router';
 import { signInSchema, type SignIn } from '../../../../shared/schemas/session';
 import { useSession, useSignIn } from '../api/session';
+import { usePageTitle } from '../../../app/page-title';
 import { PublicFrame } from './public-frame';
 
 export function SignInPage() {
+  usePageTitle('Sign in');
   const session = useSession();
   const signIn = useSignIn();
   const navigate = useNavigate();
