@@ -61,23 +61,37 @@ export interface RowPlace {
   names: { assessment_id: string; athlete_code: string; event_code: string; assessed_on: string; kind: string; panel_class: string; note: string };
 }
 
-/** A growable typed column. */
-class Column<T extends Int32Array | Int8Array> {
-  data: T;
+/** A growable column of 32-bit integers. */
+class Int32Column {
+  data = new Int32Array(1024);
   length = 0;
-  constructor(make: (n: number) => T) {
-    this.data = make(1024);
-  }
   push(x: number): void {
     if (this.length === this.data.length) {
-      const bigger = new (this.data.constructor as new (n: number) => T)(this.data.length * 2);
+      const bigger = new Int32Array(this.data.length * 2);
       bigger.set(this.data);
       this.data = bigger;
     }
     this.data[this.length++] = x;
   }
-  view(): T {
-    return this.data.subarray(0, this.length) as T;
+  view(): Int32Array {
+    return this.data.subarray(0, this.length);
+  }
+}
+
+/** A growable column of 8-bit integers (kinds and classes). */
+class Int8Column {
+  data = new Int8Array(1024);
+  length = 0;
+  push(x: number): void {
+    if (this.length === this.data.length) {
+      const bigger = new Int8Array(this.data.length * 2);
+      bigger.set(this.data);
+      this.data = bigger;
+    }
+    this.data[this.length++] = x;
+  }
+  view(): Int8Array {
+    return this.data.subarray(0, this.length);
   }
 }
 
@@ -153,22 +167,22 @@ export class BatchBuilder {
   private readonly byExternal = new Map<string, number>();
   private readonly externalId: string[] = [];
   private readonly note: (string | null)[] = [];
-  private readonly aAthlete = new Column((n) => new Int32Array(n));
-  private readonly aEvent = new Column((n) => new Int32Array(n));
-  private readonly aDate = new Column((n) => new Int32Array(n));
-  private readonly aKind = new Column((n) => new Int8Array(n));
-  private readonly aPanel = new Column((n) => new Int8Array(n));
-  private readonly aRow = new Column((n) => new Int32Array(n));
-  private readonly aLine = new Column((n) => new Int32Array(n));
+  private readonly aAthlete = new Int32Column();
+  private readonly aEvent = new Int32Column();
+  private readonly aDate = new Int32Column();
+  private readonly aKind = new Int8Column();
+  private readonly aPanel = new Int8Column();
+  private readonly aRow = new Int32Column();
+  private readonly aLine = new Int32Column();
   /** Per assessment: its last rating, and per rating the one before it of the same assessment (−1 ends). */
-  private readonly lastRating = new Column((n) => new Int32Array(n));
-  private readonly prevRating = new Column((n) => new Int32Array(n));
-  private readonly rAssessment = new Column((n) => new Int32Array(n));
-  private readonly rClassifier = new Column((n) => new Int32Array(n));
-  private readonly rClass = new Column((n) => new Int8Array(n));
-  private readonly rRow = new Column((n) => new Int32Array(n));
-  private readonly rLine = new Column((n) => new Int32Array(n));
-  private readonly rColumn = new Column((n) => new Int32Array(n));
+  private readonly lastRating = new Int32Column();
+  private readonly prevRating = new Int32Column();
+  private readonly rAssessment = new Int32Column();
+  private readonly rClassifier = new Int32Column();
+  private readonly rClass = new Int8Column();
+  private readonly rRow = new Int32Column();
+  private readonly rLine = new Int32Column();
+  private readonly rColumn = new Int32Column();
   rows = 0;
   private notAnalysable = 0;
 
@@ -178,11 +192,21 @@ export class BatchBuilder {
     this.issues = issues;
   }
 
+  /** How many assessments (the first ones) `byExternal` holds: it catches up when asked. */
+  private mapped = 0;
+
   /** The index of an assessment already in the batch, or −1. */
   known(externalId: string): number {
-    const last = this.externalId.length - 1;
-    if (last >= 0 && this.externalId[last] === externalId) return last;
+    const ids = this.externalId;
+    const last = ids.length - 1;
+    if (last >= 0 && ids[last] === externalId) return last;
+    for (; this.mapped < ids.length; this.mapped++) this.byExternal.set(ids[this.mapped]!, this.mapped);
     return this.byExternal.get(externalId) ?? -1;
+  }
+
+  /** How many assessments the batch has. */
+  get assessmentCount(): number {
+    return this.externalId.length;
   }
 
   /**
@@ -205,7 +229,7 @@ export class BatchBuilder {
     );
   }
 
-  /** `assessment` with interned values; `existing` is `known(externalId)`. */
+  /** `assessment` with interned values; `existing` is `known(externalId)` (−1: a new assessment). */
   assessmentOf(
     externalId: string,
     existing: number,
@@ -221,7 +245,6 @@ export class BatchBuilder {
   ): number {
     if (existing < 0) {
       const i = this.externalId.length;
-      this.byExternal.set(externalId, i);
       this.externalId.push(externalId);
       this.aAthlete.push(athlete);
       this.aEvent.push(event);

@@ -416,48 +416,56 @@ export class CsvRowReader {
     const delim = this.delimiter.charCodeAt(0);
     let at = from;
     while (at < to) {
-      const nl = buf.indexOf(10, at);
-      let end = nl < 0 || nl >= to ? to : nl;
-      const next = end === to ? to : end + 1;
-      if (end < to) {
-        if (crlf) {
-          if (end === at || buf[end - 1] !== 13) throw new NotPlain();
-          end--;
-        }
-      } else if (crlf && end > at && buf[end - 1] === 13) throw new NotPlain();
-      this.bytesLine(buf, at, end, this.line++, delim);
+      // One pass over the line: its field starts (as many as the header has, plus one) and its end.
+      const starts = this.starts;
+      const room = starts.length - 1;
+      starts[0] = at;
+      let fields = 1;
+      let i = at;
+      for (; i < to; i++) {
+        const b = buf[i]!;
+        if (b === delim) {
+          if (fields < room) starts[fields] = i + 1;
+          fields++;
+        } else if (b === 10) break;
+        else if (b === 13 && buf[i + 1] !== 10) throw new NotPlain();
+      }
+      let end = i;
+      if (crlf && i < to) {
+        if (i === at || buf[i - 1] !== 13) throw new NotPlain();
+        end--;
+      }
+      if (fields < room) starts[fields] = end + 1;
+      const next = i < to ? i + 1 : to;
+      this.bytesLine(buf, at, end, this.line++, fields);
       at = next;
     }
   }
 
-  private starts = new Int32Array(64);
+  /** Field starts of the current line (room for the header's columns and one more). */
+  private starts = new Int32Array(2);
   private values: ByteValues[] = [];
 
-  private bytesLine(buf: Buffer, from: number, to: number, line: number, delim: number): void {
-    let fields = 1;
-    let content = false;
+  /** Whether the bytes of a line hold nothing but blanks and delimiters. */
+  private blankLine(buf: Buffer, from: number, to: number): boolean {
+    const delim = this.delimiter.charCodeAt(0);
     let high = false;
-    let starts = this.starts;
-    starts[0] = from;
     for (let i = from; i < to; i++) {
       const b = buf[i]!;
-      if (b === delim) {
-        if (fields === starts.length - 1) {
-          const bigger = new Int32Array(starts.length * 2);
-          bigger.set(starts);
-          this.starts = starts = bigger;
-        }
-        starts[fields++] = i + 1;
-      } else if (b === 13) throw new NotPlain();
-      else if (b >= 0x80) high = true;
-      else if (!content && b !== 0x20 && b !== 0x09 && b !== 0x0b && b !== 0x0c) content = true;
+      if (b >= 0x80) high = true;
+      else if (b !== delim && b !== 0x20 && b !== 0x09 && b !== 0x0b && b !== 0x0c) return false;
     }
-    starts[fields] = to + 1;
-    if (!content && (!high || buf.toString('utf8', from, to).split(this.delimiter).every((f) => f.trim() === ''))) return;
+    return !high || buf.toString('utf8', from, to).split(this.delimiter).every((f) => f.trim() === '');
+  }
+
+  private bytesLine(buf: Buffer, from: number, to: number, line: number, fields: number): void {
+    const first = from < to ? buf[from]! : 0;
+    if ((first <= 0x20 || first >= 0x7f || first === this.delimiter.charCodeAt(0)) && this.blankLine(buf, from, to)) return;
     const plan = this.plan;
     if (plan === null) {
       this.header(buf.toString('utf8', from, to).split(this.delimiter));
       this.values = this.headers!.map(() => new ByteValues());
+      this.starts = new Int32Array(this.headers!.length + 2);
       return;
     }
     const row = ++this.row;
@@ -553,7 +561,7 @@ export class CsvRowReader {
     const b = this.builder!;
     const a = b.assessmentOf(
       ext!,
-      this.lastExternal === ext ? this.lastAssessment : b.known(ext!),
+      this.lastExternal === ext ? this.lastAssessment : this.existingAssessment(buf, ext!),
       values[f.athlete_code]!.value[kAth] as number,
       values[f.event_code]!.value[kEv] as number,
       values[f.assessed_on]!.value[kDate] as number,
@@ -572,6 +580,35 @@ export class CsvRowReader {
       b.ratingOf(a, values[f.classifier_code]!.value[kCode] as number, values[f.sport_class]!.value[kCls] as number, row, line, f.classifier_code);
     }
     return true;
+  }
+
+  /** Assessment ids by their bytes → assessment index (ids of rows that went straight into the batch). */
+  private readonly idBytes = new ByteValues();
+  /** Assessments added from a plain id (its text is its bytes, and it is in idBytes). */
+  private plainIds = 0;
+
+  /**
+   * The assessment of the current row's id if the batch has it, else −1 (and the caller adds
+   * it): by the id's bytes, and by its text only when some assessment was not added from a plain
+   * id (rows of the text reader, ids with spaces around them), so a file of plain ids needs no
+   * map of texts.
+   */
+  private existingAssessment(buf: Buffer, ext: string): number {
+    const column = this.plan!.fixed.assessment_id;
+    const s = this.starts[column]!;
+    const e = this.starts[column + 1]! - 1;
+    const k = this.idBytes.find(buf, s, e);
+    if (k >= 0) return this.idBytes.value[k] as number;
+    const b = this.builder!;
+    const plain = plainCode(buf, s, e);
+    const known = plain && this.plainIds === b.assessmentCount ? -1 : b.known(ext);
+    if (known >= 0) {
+      this.idBytes.add(buf, s, e, true, known);
+      return known;
+    }
+    this.idBytes.add(buf, s, e, true, b.assessmentCount);
+    if (plain) this.plainIds++;
+    return -1;
   }
 
   /** The assessment and its id of the last row that went straight into the batch. */
