@@ -23,6 +23,7 @@ import {
   type DateFormat,
   type ImportLayout,
 } from '../../shared/import-columns';
+import { binaryKind, notCsvMessage, utf16Order } from '../../shared/file-signature';
 import { DEFAULT_SCALE, type ClassScale } from '../../shared/scale';
 import { BatchBuilder, batchOfCore, KIND_CODES, type BatchCore, type RowPlace, type ValidatedBatch } from './batch';
 import { fieldValidators, type FieldValidator, type FieldValidators } from './fields';
@@ -53,23 +54,24 @@ export interface CsvReadResult {
 const DELIMITERS = [',', ';', '\t', '|'] as const;
 const DELIMITER_NAMES: Record<string, string> = { ',': 'comma', ';': 'semicolon', '\t': 'tab', '|': 'vertical bar' };
 
-/** Whether the first bytes look like something other than text (a workbook, a PDF, an image…). */
-export function binaryKind(head: Uint8Array): string | null {
-  const starts = (...bytes: number[]) => bytes.every((b, i) => head[i] === b);
-  if (starts(0x50, 0x4b, 0x03, 0x04)) return 'a ZIP archive (for example a spreadsheet workbook)';
-  if (starts(0xd0, 0xcf, 0x11, 0xe0)) return 'an old-style spreadsheet workbook';
-  if (starts(0x25, 0x50, 0x44, 0x46)) return 'a PDF document';
-  if (starts(0x89, 0x50, 0x4e, 0x47) || starts(0xff, 0xd8, 0xff) || starts(0x47, 0x49, 0x46)) return 'an image';
-  if (starts(0x1f, 0x8b)) return 'a compressed (gzip) file';
-  const n = Math.min(head.length, 65536);
-  for (let i = 0; i < n; i++) if (head[i] === 0) return 'binary data (it contains NUL bytes)';
-  return null;
-}
+export { binaryKind };
 
-/** Decodes UTF-8 strictly, without a byte-order mark; refuses binary files and other encodings. */
+/**
+ * Decodes the file's text: UTF-8 strictly (a byte-order mark dropped), or UTF-16 when its
+ * byte-order mark or its NUL bytes say so (as a spreadsheet's "Unicode text" gives); refuses
+ * binary files and other encodings.
+ */
 export function decodeCsvBytes(bytes: Uint8Array): string {
   const kind = binaryKind(bytes);
-  if (kind) throw new FileRefusal([fileIssue(`The file is not a CSV: it looks like ${kind}. Save it as CSV (UTF-8) and upload it again.`)]);
+  if (kind) throw new FileRefusal([fileIssue(notCsvMessage(kind))]);
+  const utf16 = utf16Order(bytes);
+  if (utf16) {
+    try {
+      return new TextDecoder(utf16, { fatal: true, ignoreBOM: false }).decode(bytes);
+    } catch {
+      throw new FileRefusal([fileIssue(`The file looks like UTF-16 text (${utf16 === 'utf-16le' ? 'little' : 'big'}-endian) but is not valid UTF-16. Save it as "CSV UTF-8" and upload it again.`)]);
+    }
+  }
   try {
     return new TextDecoder('utf-8', { fatal: true, ignoreBOM: false }).decode(bytes);
   } catch {
@@ -780,9 +782,7 @@ interface PlainFile {
 function plainFile(bytes: Uint8Array): PlainFile | null {
   const buf = Buffer.isBuffer(bytes) ? bytes : Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   if (buf.indexOf(0x22) >= 0) return null;
-  const kind = binaryKind(buf);
-  if (kind) return null;
-  if (!isUtf8(buf)) return null;
+  if (binaryKind(buf) || utf16Order(buf) || !isUtf8(buf)) return null;
   const bom = (at: number) => buf[at] === 0xef && buf[at + 1] === 0xbb && buf[at + 2] === 0xbf;
   const from = bom(0) ? 3 : 0;
   if (bom(from)) return null;

@@ -152,7 +152,8 @@ export function importsRouter(ctx: AppContext): Router {
     const { federation, userId } = accessOf(req);
     const progress = progressReporter(federation.id, userId, jobOf(req.query));
     try {
-      const view = await commitImport(ctx, federation, userId, idOf(req.params.importId, 'The import'), progress);
+      const body = (req.body ?? {}) as { confirmAthleteChanges?: unknown };
+      const view = await commitImport(ctx, federation, userId, idOf(req.params.importId, 'The import'), progress, { confirmAthleteChanges: body.confirmAthleteChanges === true });
       progress.finish('done');
       res.json(view);
     } catch (error) {
@@ -297,10 +298,11 @@ registerRoute({
   security: lead,
   params: importParam,
   query: z.object({ job: z.string().regex(JOB_ID).optional() }),
+  body: { schema: z.object({ confirmAthleteChanges: z.boolean().optional() }) },
   responses: {
     200: { description: 'The committed import', schema: importViewSchema },
     404: errorResponse('No such import'),
-    409: errorResponse('The import is not staged, or the data changed so that the file no longer passes'),
+    409: errorResponse('The import is not staged, the data changed so that the file no longer passes, or it gives stored assessments to other athletes without confirmAthleteChanges'),
     410: errorResponse('The checked file is no longer kept: upload it again'),
   },
 });
