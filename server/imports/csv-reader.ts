@@ -798,6 +798,15 @@ function plainFile(bytes: Uint8Array): PlainFile | null {
   return null;
 }
 
+/** Whether the byte reader reads this file (UTF-8 without quotes; otherwise the text reader does). */
+export function byteReadable(bytes: Uint8Array): boolean {
+  try {
+    return plainFile(bytes) !== null;
+  } catch {
+    return false;
+  }
+}
+
 /** Reads and checks the file's bytes synchronously (the command line): the batch in typed columns. */
 export function readCsvCore(bytes: Uint8Array, options: CsvReadOptions = {}): { core: BatchCore | null; issues: IssueList; layout: ImportLayout | null } {
   try {
