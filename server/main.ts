@@ -8,6 +8,7 @@ import { openDatabase } from './db/connection';
 import { migrateToLatest } from './db/migrate';
 import { isEmpty, seedDemo } from './demo/seed';
 import { createLogger } from './logger';
+import { scheduleStagedImportExpiry } from './imports/service';
 import { startMailer } from './mail/mailer';
 
 /**
@@ -34,6 +35,8 @@ async function main() {
   const mailer = await startMailer({ config, db, logger });
   const ctx: AppContext = { db, sqlite, config, logger, mailer };
   const app = createApp(ctx);
+  // Checked files never committed expire after 7 days: now, then daily (awaited on stop).
+  const stagedExpiry = scheduleStagedImportExpiry(ctx, (err) => logger.error({ err }, 'staged imports could not be expired'));
   const server = app.listen(config.port, (error?: Error) => {
     // Express 5 hands a listen error (such as a port in use) to this callback instead of throwing.
     if (error) {
@@ -44,8 +47,12 @@ async function main() {
   });
 
   const stop = () => {
+    stagedExpiry.stop();
     server.close(() => {
-      void mailer.close().finally(() => db.destroy().then(() => process.exit(0)));
+      void stagedExpiry
+        .idle()
+        .then(() => mailer.close())
+        .finally(() => db.destroy().then(() => process.exit(0)));
     });
     setTimeout(() => process.exit(0), 3000).unref();
   };
