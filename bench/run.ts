@@ -5,7 +5,8 @@ import path from 'node:path';
 /**
  * `npm run bench`: runs every bench/*.bench.ts in its own process, one after the other (the
  * machine has two cores; benchmarks must not compete). `npm run bench -- import` runs only the
- * files whose name contains "import". Each benchmark prints medians and their ratio to a floor
+ * files whose name contains "import"; `npm run bench -- cli-vs-python` runs the command line
+ * against ../shared/bench/py_reference_pipeline.py (cli-vs-python.bench.ts). Each benchmark prints medians and their ratio to a floor
  * measured in the same run, and writes JSON to bench/out/.
  */
 const folder = import.meta.dirname;

@@ -9,6 +9,7 @@ import { openDatabase } from './db/connection';
 import { migrateToLatest } from './db/migrate';
 import { isEmpty, seedDemo } from './demo/seed';
 import { createLogger } from './logger';
+import { scheduleStagedImportExpiry } from './imports/service';
 import { startMailer } from './mail/mailer';
 import { scheduleExportCleanup } from './exports/storage';
 import { createExerciseScheduler } from './services/exercise-scheduler';
@@ -68,6 +69,8 @@ async function main() {
   // Closes exercises past their close date and sends the reminders due (each run awaited).
   const exerciseScheduler = createExerciseScheduler(ctx);
   exerciseScheduler.start();
+  // Checked files never committed expire after 7 days: now, then daily (awaited on stop).
+  const stagedExpiry = scheduleStagedImportExpiry(ctx, (err) => logger.error({ err }, 'staged imports could not be expired'));
   const server = app.listen(config.port, (error?: Error) => {
     // Express 5 hands a listen error (such as a port in use) to this callback instead of throwing.
     if (error) {
@@ -78,8 +81,9 @@ async function main() {
   });
 
   const stop = () => {
+    stagedExpiry.stop();
     server.close(() => {
-      void Promise.all([exportCleanup.stop(), exerciseScheduler.stop()])
+      void Promise.all([exportCleanup.stop(), exerciseScheduler.stop(), stagedExpiry.idle()])
         .then(() => mailer.close())
         .finally(() => db.destroy().then(() => process.exit(0)));
     });

@@ -10,24 +10,15 @@
  * server knows).
  */
 import { readFileSync } from 'node:fs';
-import { ASSESSMENT_KINDS, buildRatingSet, RatingInputError, type RatingRow, type RatingSet } from '../analysis';
-import { DEFAULT_SCALE, type ClassScale } from '../../shared/scale';
-import { readCsvText } from '../imports/csv-reader';
+import { ASSESSMENT_KINDS, isoDateToDay, type RatingRow, type RatingSet } from '../analysis';
+import { classCount, DEFAULT_SCALE, type ClassScale } from '../../shared/scale';
+import type { ImportIssue } from '../../shared/schemas/imports';
+import { KIND_CODES, type BatchCore } from '../imports/batch';
+import { readCsvCore, readCsvText } from '../imports/csv-reader';
 import { problemOf } from '../imports/issues';
 
 export const REQUIRED_COLUMNS = ['assessment_id', 'athlete_code', 'event_code', 'assessed_on', 'classifier_code', 'sport_class'] as const;
 export const OPTIONAL_COLUMNS = ['panel_class', 'kind'] as const;
-
-const FIELD_COLUMN: Record<keyof RatingRow, string> = {
-  assessmentId: 'assessment_id',
-  athleteCode: 'athlete_code',
-  eventCode: 'event_code',
-  assessedOn: 'assessed_on',
-  classifierCode: 'classifier_code',
-  sportClass: 'sport_class',
-  panelClass: 'panel_class',
-  kind: 'kind',
-};
 
 export class TidyCsvError extends Error {
   readonly file: string;
@@ -58,22 +49,25 @@ export interface TidyCsv {
   lines: number[];
 }
 
+/** The first problem of a read as the command line says it. */
+function tidyError(file: string, first: ImportIssue): TidyCsvError {
+  const where: { row?: number; line?: number; column?: string; value?: string } = {};
+  if (first.row !== null) where.row = first.row;
+  if (first.line !== null) where.line = first.line;
+  if (first.row !== null && first.column !== null) where.column = first.column;
+  if (first.row !== null && first.value !== null) where.value = first.value;
+  return new TidyCsvError(file, first.row === null ? first.message.charAt(0).toLowerCase() + first.message.slice(1) : problemOf(first), where);
+}
+
 /**
- * Parses CSV text; `file` is only used in messages. The reading and checking are the importer's
+ * Parses CSV text into rows (tests and callers that want row objects; the command line reads bytes); `file` is only used in messages. The reading and checking are the importer's
  * (server/imports/csv-reader.ts), in the long layout with unknown columns ignored; the first
  * problem found is thrown.
  */
 export function parseTidyCsv(text: string, file: string, scale: ClassScale = DEFAULT_SCALE): TidyCsv {
   const read = readCsvText(text, { scale, unknownColumns: 'ignore', layout: 'long' });
   const first = read.issues.errors[0];
-  if (first) {
-    const where: { row?: number; line?: number; column?: string; value?: string } = {};
-    if (first.row !== null) where.row = first.row;
-    if (first.line !== null) where.line = first.line;
-    if (first.row !== null && first.column !== null) where.column = first.column;
-    if (first.row !== null && first.value !== null) where.value = first.value;
-    throw new TidyCsvError(file, first.row === null ? first.message.charAt(0).toLowerCase() + first.message.slice(1) : problemOf(first), where);
-  }
+  if (first) throw tidyError(file, first);
   const batch = read.batch;
   if (!batch || batch.ratings.assessment.length === 0) throw new TidyCsvError(file, 'has no data rows', { line: 2 });
   const a = batch.assessments;
@@ -98,23 +92,92 @@ export function parseTidyCsv(text: string, file: string, scale: ClassScale = DEF
   return { rows, lines };
 }
 
-/** Reads and parses a file, then builds the RatingSet (consistency errors name row and column too). */
+/**
+ * The RatingSet of a checked batch, straight from its typed columns: the same set as
+ * buildRatingSet over its rows (assessments in order of first appearance, ratings grouped by
+ * assessment in file order, codes numbered in order of first appearance), without a row object.
+ * The batch's checks are the stricter ones (scale, calendar dates, kinds, one rating per
+ * classifier, rows of an assessment that agree), so nothing here can fail.
+ */
+export function ratingSetOfCore(core: BatchCore, scale: ClassScale = DEFAULT_SCALE): RatingSet {
+  const a = core.assessments;
+  const r = core.ratings;
+  const A = a.externalId.length;
+  const n = r.assessment.length;
+  const renumber = (ids: Int32Array, size: number, names: readonly string[]) => {
+    const to = new Int32Array(size).fill(-1);
+    const codes: string[] = [];
+    const out = new Int32Array(ids.length);
+    for (let i = 0; i < ids.length; i++) {
+      const id = ids[i]!;
+      if (to[id] === -1) {
+        to[id] = codes.length;
+        codes.push(names[id]!);
+      }
+      out[i] = to[id]!;
+    }
+    return { out, codes };
+  };
+  const athletes = renumber(a.athlete, core.athletes.length, core.athletes);
+  const events = renumber(a.event, core.events.length, core.events);
+  const classifiers = renumber(r.classifier, core.classifiers.length, core.classifiers);
+  const dayOfDate = new Int32Array(core.dates.length);
+  core.dates.forEach((d, i) => (dayOfDate[i] = isoDateToDay(d) ?? 0));
+  const ratingStart = new Int32Array(A + 1);
+  for (let k = 0; k < n; k++) ratingStart[r.assessment[k]! + 1]!++;
+  for (let i = 0; i < A; i++) ratingStart[i + 1]! += ratingStart[i]!;
+  const fill = ratingStart.slice(0, A);
+  const ratingAssessment = new Int32Array(n);
+  const ratingClassifier = new Int32Array(n);
+  const ratingClass = new Int32Array(n);
+  for (let k = 0; k < n; k++) {
+    const i = r.assessment[k]!;
+    const p = fill[i]!++;
+    ratingAssessment[p] = i;
+    ratingClassifier[p] = classifiers.out[k]!;
+    ratingClass[p] = r.sportClass[k]! - scale.min;
+  }
+  const panelClass = new Int32Array(A);
+  const day = new Int32Array(A);
+  const kind = new Uint8Array(A);
+  for (let i = 0; i < A; i++) {
+    const pc = a.panelClass[i]!;
+    panelClass[i] = pc < 0 ? -1 : pc - scale.min;
+    day[i] = dayOfDate[a.date[i]!]!;
+    kind[i] = a.kind[i]! < 0 ? 0 : ASSESSMENT_KINDS.indexOf(KIND_CODES[a.kind[i]!]!);
+  }
+  return {
+    scale,
+    q: classCount(scale),
+    assessmentCount: A,
+    ratingCount: n,
+    classifierCodes: classifiers.codes,
+    athleteCodes: athletes.codes,
+    eventCodes: events.codes,
+    assessmentIds: a.externalId,
+    ratingStart,
+    ratingAssessment,
+    ratingClassifier,
+    ratingClass,
+    panelClass,
+    day,
+    kind,
+    athlete: athletes.out,
+    event: events.out,
+  };
+}
+
+/** Reads the file's bytes through the importer's byte reader and builds the RatingSet from its typed columns. */
 export function readTidyCsv(path: string, scale: ClassScale = DEFAULT_SCALE): RatingSet {
-  let text: string;
+  let bytes: Buffer;
   try {
-    text = readFileSync(path, 'utf8');
+    bytes = readFileSync(path);
   } catch (e) {
     throw new TidyCsvError(path, `cannot be read: ${(e as Error).message}`);
   }
-  const { rows, lines } = parseTidyCsv(text, path, scale);
-  try {
-    return buildRatingSet(rows, scale);
-  } catch (e) {
-    if (e instanceof RatingInputError) {
-      const column = FIELD_COLUMN[e.field];
-      const problem = e.message.replace(/^row \d+: \S+ "[^"]*" /, '');
-      throw new TidyCsvError(path, problem, { row: e.rowIndex + 1, line: lines[e.rowIndex], column, value: e.fieldValue });
-    }
-    throw e;
-  }
+  const read = readCsvCore(bytes, { scale, unknownColumns: 'ignore', layout: 'long' });
+  const first = read.issues.errors[0];
+  if (first) throw tidyError(path, first);
+  if (!read.core || read.core.ratings.assessment.length === 0) throw new TidyCsvError(path, 'has no data rows', { line: 2 });
+  return ratingSetOfCore(read.core, scale);
 }

@@ -8,6 +8,7 @@
  * the row, its line, the column as written in the header and the value. A byte-order mark, CRLF
  * line ends and newlines inside quoted fields are read as they are meant.
  */
+import { Buffer, isUtf8 } from 'node:buffer';
 import { Readable } from 'node:stream';
 import Papa from 'papaparse';
 import {
@@ -22,8 +23,9 @@ import {
   type DateFormat,
   type ImportLayout,
 } from '../../shared/import-columns';
+import { binaryKind, notCsvMessage, utf16Order } from '../../shared/file-signature';
 import { DEFAULT_SCALE, type ClassScale } from '../../shared/scale';
-import { BatchBuilder, type RowPlace, type ValidatedBatch } from './batch';
+import { BatchBuilder, batchOfCore, KIND_CODES, type BatchCore, type RowPlace, type ValidatedBatch } from './batch';
 import { fieldValidators, type FieldValidator, type FieldValidators } from './fields';
 import { FileRefusal, fileIssue, IssueList, rowIssue, shownValue } from './issues';
 
@@ -52,23 +54,24 @@ export interface CsvReadResult {
 const DELIMITERS = [',', ';', '\t', '|'] as const;
 const DELIMITER_NAMES: Record<string, string> = { ',': 'comma', ';': 'semicolon', '\t': 'tab', '|': 'vertical bar' };
 
-/** Whether the first bytes look like something other than text (a workbook, a PDF, an image…). */
-export function binaryKind(head: Uint8Array): string | null {
-  const starts = (...bytes: number[]) => bytes.every((b, i) => head[i] === b);
-  if (starts(0x50, 0x4b, 0x03, 0x04)) return 'a ZIP archive (for example a spreadsheet workbook)';
-  if (starts(0xd0, 0xcf, 0x11, 0xe0)) return 'an old-style spreadsheet workbook';
-  if (starts(0x25, 0x50, 0x44, 0x46)) return 'a PDF document';
-  if (starts(0x89, 0x50, 0x4e, 0x47) || starts(0xff, 0xd8, 0xff) || starts(0x47, 0x49, 0x46)) return 'an image';
-  if (starts(0x1f, 0x8b)) return 'a compressed (gzip) file';
-  const n = Math.min(head.length, 65536);
-  for (let i = 0; i < n; i++) if (head[i] === 0) return 'binary data (it contains NUL bytes)';
-  return null;
-}
+export { binaryKind };
 
-/** Decodes UTF-8 strictly, without a byte-order mark; refuses binary files and other encodings. */
+/**
+ * Decodes the file's text: UTF-8 strictly (a byte-order mark dropped), or UTF-16 when its
+ * byte-order mark or its NUL bytes say so (as a spreadsheet's "Unicode text" gives); refuses
+ * binary files and other encodings.
+ */
 export function decodeCsvBytes(bytes: Uint8Array): string {
   const kind = binaryKind(bytes);
-  if (kind) throw new FileRefusal([fileIssue(`The file is not a CSV: it looks like ${kind}. Save it as CSV (UTF-8) and upload it again.`)]);
+  if (kind) throw new FileRefusal([fileIssue(notCsvMessage(kind))]);
+  const utf16 = utf16Order(bytes);
+  if (utf16) {
+    try {
+      return new TextDecoder(utf16, { fatal: true, ignoreBOM: false }).decode(bytes);
+    } catch {
+      throw new FileRefusal([fileIssue(`The file looks like UTF-16 text (${utf16 === 'utf-16le' ? 'little' : 'big'}-endian) but is not valid UTF-16. Save it as "CSV UTF-8" and upload it again.`)]);
+    }
+  }
   try {
     return new TextDecoder('utf-8', { fatal: true, ignoreBOM: false }).decode(bytes);
   } catch {
@@ -389,13 +392,342 @@ export class CsvRowReader {
     return fallback;
   };
 
-  /** Ends the file: refuses a file without header or without data rows; returns the batch. */
-  finish(): ValidatedBatch {
+  /** Ends the file: refuses a file without header or without data rows; returns the batch in typed columns. */
+  finishCore(): BatchCore {
     if (this.headers === null) throw new FileRefusal([fileIssue('The file is empty: it has no header and no data rows')]);
     if (this.row === 0) throw new FileRefusal([fileIssue('The file has a header but no data rows', { line: 2 })]);
-    const batch = this.builder!.finish(this.names!.assessment_id);
-    batch.rows = this.row;
-    return batch;
+    this.builder!.rows = this.row;
+    return this.builder!.finishCore(this.names!.assessment_id);
+  }
+
+  /** Ends the file: refuses a file without header or without data rows; returns the batch. */
+  finish(): ValidatedBatch {
+    return batchOfCore(this.finishCore());
+  }
+
+  /**
+   * Reads lines of a quote-free file from its bytes: `buf[from, to)` holds whole lines, each
+   * ended by `\n` (`\r\n` when `crlf`) except perhaps the last one of the file. Without quotes a
+   * record is its line split at the delimiter, so this is what papaparse would give, without an
+   * array of fields per row: each distinct value of a column is decoded and checked once, and a
+   * row whose values all pass goes straight into the batch as dictionary indices. Any other row
+   * (a problem, a short or long row, the wide layout) is decoded and read as `feed` would.
+   * Throws NotPlain when a carriage return is out of place (the caller reads the file as text).
+   */
+  feedBytes(buf: Buffer, from: number, to: number, crlf: boolean): void {
+    const delim = this.delimiter.charCodeAt(0);
+    let at = from;
+    while (at < to) {
+      // One pass over the line: its field starts (as many as the header has, plus one) and its end.
+      const starts = this.starts;
+      const room = starts.length - 1;
+      starts[0] = at;
+      let fields = 1;
+      let i = at;
+      for (; i < to; i++) {
+        const b = buf[i]!;
+        if (b === delim) {
+          if (fields < room) starts[fields] = i + 1;
+          fields++;
+        } else if (b === 10) break;
+        else if (b === 13 && buf[i + 1] !== 10) throw new NotPlain();
+      }
+      let end = i;
+      if (crlf && i < to) {
+        if (i === at || buf[i - 1] !== 13) throw new NotPlain();
+        end--;
+      }
+      if (fields < room) starts[fields] = end + 1;
+      const next = i < to ? i + 1 : to;
+      this.bytesLine(buf, at, end, this.line++, fields);
+      at = next;
+    }
+  }
+
+  /** Field starts of the current line (room for the header's columns and one more). */
+  private starts = new Int32Array(2);
+  private values: ByteValues[] = [];
+
+  /** Whether the bytes of a line hold nothing but blanks and delimiters. */
+  private blankLine(buf: Buffer, from: number, to: number): boolean {
+    const delim = this.delimiter.charCodeAt(0);
+    let high = false;
+    for (let i = from; i < to; i++) {
+      const b = buf[i]!;
+      if (b >= 0x80) high = true;
+      else if (b !== delim && b !== 0x20 && b !== 0x09 && b !== 0x0b && b !== 0x0c) return false;
+    }
+    return !high || buf.toString('utf8', from, to).split(this.delimiter).every((f) => f.trim() === '');
+  }
+
+  private bytesLine(buf: Buffer, from: number, to: number, line: number, fields: number): void {
+    const first = from < to ? buf[from]! : 0;
+    if ((first <= 0x20 || first >= 0x7f || first === this.delimiter.charCodeAt(0)) && this.blankLine(buf, from, to)) return;
+    const plan = this.plan;
+    if (plan === null) {
+      this.header(buf.toString('utf8', from, to).split(this.delimiter));
+      this.values = this.headers!.map(() => new ByteValues());
+      this.starts = new Int32Array(this.headers!.length + 2);
+      return;
+    }
+    const row = ++this.row;
+    if (plan.layout !== 'long' || fields !== this.headers!.length || !this.plainRow(buf, row, line)) {
+      this.record(buf.toString('utf8', from, to).split(this.delimiter), row, line);
+    }
+  }
+
+  /**
+   * The index of column `column`'s value of the current row among its distinct values (decoded,
+   * checked and interned the first time it is seen), −1 without the column, −2 when it fails.
+   */
+  private valueIndex(buf: Buffer, column: number, what: ValueKind): number {
+    if (column < 0) return -1;
+    const vals = this.values[column]!;
+    const s = this.starts[column]!;
+    const e = this.starts[column + 1]! - 1;
+    let k = vals.find(buf, s, e);
+    if (k < 0) {
+      const plain = what !== ValueKind.Note && plainCode(buf, s, e);
+      if (plain && (what === ValueKind.Athlete || what === ValueKind.Event || what === ValueKind.Classifier || what === ValueKind.Text)) {
+        const text = buf.toString('latin1', s, e);
+        const b = this.builder!;
+        const value = what === ValueKind.Text ? text : (what === ValueKind.Athlete ? b.athletes : what === ValueKind.Event ? b.events : b.classifiers).intern(text);
+        k = vals.add(buf, s, e, true, value);
+        return k;
+      }
+      const text = buf.toString('utf8', s, e);
+      const v = this.v;
+      const b = this.builder!;
+      let value: unknown = null;
+      let ok = false;
+      switch (what) {
+        case ValueKind.Text: {
+          const r = v.code(text);
+          if ((ok = r.ok)) value = r.value;
+          break;
+        }
+        case ValueKind.Athlete:
+        case ValueKind.Event:
+        case ValueKind.Classifier: {
+          const r = v.code(text);
+          const dict = what === ValueKind.Athlete ? b.athletes : what === ValueKind.Event ? b.events : b.classifiers;
+          if ((ok = r.ok)) value = dict.intern(r.value);
+          break;
+        }
+        case ValueKind.Date: {
+          const r = v.date(text);
+          if ((ok = r.ok)) value = b.dates.intern(r.value);
+          break;
+        }
+        case ValueKind.PanelClass: {
+          const r = v.panelClass(text);
+          if ((ok = r.ok)) value = r.value ?? -1;
+          break;
+        }
+        case ValueKind.Kind: {
+          const r = v.kind(text);
+          if ((ok = r.ok)) value = r.value === null ? -1 : KIND_CODES.indexOf(r.value);
+          break;
+        }
+        case ValueKind.Note: {
+          const r = v.note(text);
+          if ((ok = r.ok)) value = r.value;
+          break;
+        }
+        case ValueKind.SportClass: {
+          const r = v.sportClass(text);
+          if ((ok = r.ok)) value = r.value;
+          break;
+        }
+      }
+      k = vals.add(buf, s, e, ok, value);
+    }
+    return vals.ok[k] ? k : -2;
+  }
+
+  /** A long-layout row whose values all pass, straight into the batch; false when it needs the full reading. */
+  private plainRow(buf: Buffer, row: number, line: number): boolean {
+    const f = this.plan!.fixed;
+    const ext = this.externalId(buf);
+    const kExt = ext === null ? -2 : 0;
+    const kAth = this.valueIndex(buf, f.athlete_code, ValueKind.Athlete);
+    const kEv = this.valueIndex(buf, f.event_code, ValueKind.Event);
+    const kDate = this.valueIndex(buf, f.assessed_on, ValueKind.Date);
+    const kPanel = this.valueIndex(buf, f.panel_class, ValueKind.PanelClass);
+    const kKind = this.valueIndex(buf, f.kind, ValueKind.Kind);
+    const kNote = this.valueIndex(buf, f.note, ValueKind.Note);
+    const kCode = this.valueIndex(buf, f.classifier_code, ValueKind.Classifier);
+    const kCls = this.valueIndex(buf, f.sport_class, ValueKind.SportClass);
+    if (kExt < 0 || kAth < 0 || kEv < 0 || kDate < 0 || kCode < 0 || kCls < 0 || kPanel === -2 || kKind === -2 || kNote === -2) return false;
+    const values = this.values;
+    const b = this.builder!;
+    const a = b.assessmentOf(
+      ext!,
+      this.lastExternal === ext ? this.lastAssessment : this.existingAssessment(buf, ext!),
+      values[f.athlete_code]!.value[kAth] as number,
+      values[f.event_code]!.value[kEv] as number,
+      values[f.assessed_on]!.value[kDate] as number,
+      kKind < 0 ? -1 : (values[f.kind]!.value[kKind] as number),
+      kPanel < 0 ? -1 : (values[f.panel_class]!.value[kPanel] as number),
+      kNote < 0 ? null : (values[f.note]!.value[kNote] as string | null),
+      row,
+      line,
+      this.names!,
+    );
+    if (a >= 0) {
+      this.lastExternal = ext;
+      this.lastAssessment = a;
+      this.lastIdStart = this.starts[f.assessment_id]!;
+      this.lastIdEnd = this.starts[f.assessment_id + 1]! - 1;
+      b.ratingOf(a, values[f.classifier_code]!.value[kCode] as number, values[f.sport_class]!.value[kCls] as number, row, line, f.classifier_code);
+    }
+    return true;
+  }
+
+  /** Assessment ids by their bytes → assessment index (ids of rows that went straight into the batch). */
+  private readonly idBytes = new ByteValues();
+  /** Assessments added from a plain id (its text is its bytes, and it is in idBytes). */
+  private plainIds = 0;
+
+  /**
+   * The assessment of the current row's id if the batch has it, else −1 (and the caller adds
+   * it): by the id's bytes, and by its text only when some assessment was not added from a plain
+   * id (rows of the text reader, ids with spaces around them), so a file of plain ids needs no
+   * map of texts.
+   */
+  private existingAssessment(buf: Buffer, ext: string): number {
+    const column = this.plan!.fixed.assessment_id;
+    const s = this.starts[column]!;
+    const e = this.starts[column + 1]! - 1;
+    const k = this.idBytes.find(buf, s, e);
+    if (k >= 0) return this.idBytes.value[k] as number;
+    const b = this.builder!;
+    const plain = plainCode(buf, s, e);
+    const known = plain && this.plainIds === b.assessmentCount ? -1 : b.known(ext);
+    if (known >= 0) {
+      this.idBytes.add(buf, s, e, true, known);
+      return known;
+    }
+    this.idBytes.add(buf, s, e, true, b.assessmentCount);
+    if (plain) this.plainIds++;
+    return -1;
+  }
+
+  /** The assessment and its id of the last row that went straight into the batch. */
+  private lastExternal: string | null = null;
+  private lastAssessment = -1;
+  private lastIdStart = 0;
+  private lastIdEnd = -1;
+
+  /**
+   * The checked assessment id of the current row, or null when it fails. Assessment ids are
+   * mostly distinct, so they bypass the table of distinct values: the same bytes as the last row's
+   * give the same text; other plain codes are read as they are; the rest go through the check.
+   */
+  private externalId(buf: Buffer): string | null {
+    const column = this.plan!.fixed.assessment_id;
+    const s = this.starts[column]!;
+    const e = this.starts[column + 1]! - 1;
+    const ls = this.lastIdStart;
+    if (this.lastExternal !== null && e - s === this.lastIdEnd - ls) {
+      let same = true;
+      for (let i = 0; i < e - s; i++) {
+        if (buf[s + i] !== buf[ls + i]) {
+          same = false;
+          break;
+        }
+      }
+      if (same) return this.lastExternal;
+    }
+    let text: string;
+    if (plainCode(buf, s, e)) text = buf.toString('latin1', s, e);
+    else {
+      const r = this.v.code(buf.toString('utf8', s, e));
+      if (!r.ok) return null;
+      text = r.value;
+    }
+    return text;
+  }
+}
+
+/** What a column's values are, for the byte reader. */
+const ValueKind = { Text: 0, Athlete: 1, Event: 2, Date: 3, PanelClass: 4, Kind: 5, Note: 6, Classifier: 7, SportClass: 8 } as const;
+type ValueKind = (typeof ValueKind)[keyof typeof ValueKind];
+
+/**
+ * Whether bytes [s, e) are a code that passes codeSchema as it is: 1 to 64 printable ASCII
+ * characters without spaces (nothing to trim, no control characters), so its text is its bytes.
+ */
+function plainCode(buf: Buffer, s: number, e: number): boolean {
+  if (e <= s || e - s > 64) return false;
+  for (let i = s; i < e; i++) {
+    const b = buf[i]!;
+    if (b < 0x21 || b > 0x7e) return false;
+  }
+  return true;
+}
+
+/** A carriage return where the byte reader does not expect one: read the file as text instead. */
+class NotPlain extends Error {}
+
+/**
+ * The distinct values of one column, by their bytes: an open-addressing hash table over
+ * (start, length) in the file, with each value's check result. Looks at the previous row's value
+ * first (rows of one assessment repeat it).
+ */
+class ByteValues {
+  private table = new Int32Array(64);
+  private start: number[] = [];
+  private length: number[] = [];
+  readonly ok: boolean[] = [];
+  readonly value: unknown[] = [];
+  private last = -1;
+
+  private static hash(buf: Buffer, s: number, e: number): number {
+    let h = 0x811c9dc5;
+    for (let i = s; i < e; i++) h = Math.imul(h ^ buf[i]!, 0x01000193);
+    return h >>> 0;
+  }
+
+  private equal(buf: Buffer, k: number, s: number, e: number): boolean {
+    const len = e - s;
+    if (this.length[k] !== len) return false;
+    const t = this.start[k]!;
+    for (let i = 0; i < len; i++) if (buf[t + i] !== buf[s + i]) return false;
+    return true;
+  }
+
+  /** The index of the value in buf[s, e), or −1. */
+  find(buf: Buffer, s: number, e: number): number {
+    if (this.last >= 0 && this.equal(buf, this.last, s, e)) return this.last;
+    const mask = this.table.length - 1;
+    for (let slot = ByteValues.hash(buf, s, e) & mask; ; slot = (slot + 1) & mask) {
+      const k = this.table[slot]! - 1;
+      if (k < 0) return -1;
+      if (this.equal(buf, k, s, e)) return (this.last = k);
+    }
+  }
+
+  add(buf: Buffer, s: number, e: number, ok: boolean, value: unknown): number {
+    const k = this.start.length;
+    this.start.push(s);
+    this.length.push(e - s);
+    this.ok.push(ok);
+    this.value.push(value);
+    if (k * 2 >= this.table.length) {
+      const old = this.table;
+      this.table = new Int32Array(old.length * 2);
+      for (let j = 0; j < k; j++) this.place(buf, j);
+    }
+    this.place(buf, k);
+    return (this.last = k);
+  }
+
+  private place(buf: Buffer, k: number): void {
+    const mask = this.table.length - 1;
+    let slot = ByteValues.hash(buf, this.start[k]!, this.start[k]! + this.length[k]!) & mask;
+    while (this.table[slot] !== 0) slot = (slot + 1) & mask;
+    this.table[slot] = k + 1;
   }
 }
 
@@ -434,15 +766,110 @@ export function readCsvText(text: string, options: CsvReadOptions = {}): CsvRead
   }
 }
 
+/** A file the byte reader can read: UTF-8 without quotes, one kind of line end. */
+interface PlainFile {
+  buf: Buffer;
+  /** After the byte-order mark. */
+  from: number;
+  crlf: boolean;
+  delimiter: string;
+}
+
+/**
+ * Whether the byte reader can read the file (null: read it as text). Refuses binary files and
+ * other encodings with decodeCsvBytes's messages.
+ */
+function plainFile(bytes: Uint8Array): PlainFile | null {
+  const buf = Buffer.isBuffer(bytes) ? bytes : Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  if (buf.indexOf(0x22) >= 0) return null;
+  if (binaryKind(buf) || utf16Order(buf) || !isUtf8(buf)) return null;
+  const bom = (at: number) => buf[at] === 0xef && buf[at + 1] === 0xbb && buf[at + 2] === 0xbf;
+  const from = bom(0) ? 3 : 0;
+  if (bom(from)) return null;
+  const crlf = buf.indexOf(13, from) >= 0;
+  for (let at = from; at < buf.length; ) {
+    const nl = buf.indexOf(10, at);
+    const end = nl < 0 ? buf.length : nl;
+    const text = buf.toString('utf8', at, crlf && nl >= 0 && buf[end - 1] === 13 ? end - 1 : end);
+    if (text.includes('\r')) return null;
+    if (text.trim() !== '') return { buf, from, crlf, delimiter: detectDelimiter(text) };
+    at = end + 1;
+  }
+  return null;
+}
+
+/** Whether the byte reader reads this file (UTF-8 without quotes; otherwise the text reader does). */
+export function byteReadable(bytes: Uint8Array): boolean {
+  try {
+    return plainFile(bytes) !== null;
+  } catch {
+    return false;
+  }
+}
+
+/** Reads and checks the file's bytes synchronously (the command line): the batch in typed columns. */
+export function readCsvCore(bytes: Uint8Array, options: CsvReadOptions = {}): { core: BatchCore | null; issues: IssueList; layout: ImportLayout | null } {
+  try {
+    const plain = plainFile(bytes);
+    if (plain) {
+      try {
+        const reader = new CsvRowReader(options, plain.delimiter, plain.crlf ? '\r\n' : '\n');
+        reader.feedBytes(plain.buf, plain.from, plain.buf.length, plain.crlf);
+        return { core: reader.finishCore(), issues: reader.issues, layout: reader.layout };
+      } catch (error) {
+        if (!(error instanceof NotPlain)) throw error;
+      }
+    }
+    const prepared = prepare(decodeCsvBytes(bytes));
+    const parsed = Papa.parse<string[]>(prepared.text, { delimiter: prepared.delimiter, skipEmptyLines: false });
+    const reader = new CsvRowReader(options, prepared.delimiter, parsed.meta.linebreak);
+    reader.feed(parsed.data, quoteErrorRows(parsed.errors));
+    return { core: reader.finishCore(), issues: reader.issues, layout: reader.layout };
+  } catch (error) {
+    const refused = refuse(error);
+    return { core: null, issues: refused.issues, layout: null };
+  }
+}
+
+/** Bytes the byte reader reads between two turns of the event loop. */
+const BYTE_SLICE = 4 << 20;
+
+/** The byte reader in slices, giving the event loop a turn between them; null when the file needs the text reader. */
+async function readPlainBytes(plain: PlainFile, options: CsvReadOptions, onProgress?: (done: number, total: number) => void): Promise<CsvReadResult | null> {
+  const { buf, crlf } = plain;
+  const reader = new CsvRowReader(options, plain.delimiter, crlf ? '\r\n' : '\n');
+  try {
+    for (let at = plain.from; at < buf.length; ) {
+      const nl = buf.indexOf(10, Math.min(buf.length, at + BYTE_SLICE));
+      const end = nl < 0 ? buf.length : nl + 1;
+      reader.feedBytes(buf, at, end, crlf);
+      at = end;
+      onProgress?.(at, buf.length);
+      if (at < buf.length) await new Promise((resolve) => setImmediate(resolve));
+    }
+    const batch = reader.finish();
+    return { batch, issues: reader.issues, layout: reader.layout, mapping: reader.mapping };
+  } catch (error) {
+    if (error instanceof NotPlain) return null;
+    return refuse(error);
+  }
+}
+
 const SLICE = 1 << 20;
 
 /**
- * Reads CSV bytes in papaparse chunks through a stream, so the event loop stays free between
- * chunks (progress events go out, other requests are served). `onProgress` gets the share read.
+ * Reads CSV bytes: a UTF-8 file without quotes by the byte reader (CsvRowReader.feedBytes), any
+ * other in papaparse chunks through a stream; either way the event loop gets a turn between
+ * slices (progress events go out, other requests are served). `onProgress` gets the share read.
  */
 export async function readCsvBytes(bytes: Uint8Array, options: CsvReadOptions = {}, onProgress?: (done: number, total: number) => void): Promise<CsvReadResult> {
   let prepared: { text: string; delimiter: string };
   try {
+    const plain = plainFile(bytes);
+    if (plain) {
+      const read = await readPlainBytes(plain, options, onProgress);
+      if (read) return read;
+    }
     prepared = prepare(decodeCsvBytes(bytes));
   } catch (error) {
     return refuse(error);

@@ -81,7 +81,7 @@ const DATE_PATTERNS: Record<DateFormat, { re: RegExp; order: [number, number, nu
   'YYYY/MM/DD': { re: /^(\d{4})\/(\d{1,2})\/(\d{1,2})$/, order: [1, 2, 3], words: 'a date YYYY/MM/DD' },
 };
 
-/** A date in ISO 8601 or the declared format, as ISO YYYY-MM-DD. */
+/** A date in the declared format or in ISO 8601 (always accepted), as ISO YYYY-MM-DD. */
 export function dateSchema(format: DateFormat): ZodType<string, string> {
   const { re, order, words } = DATE_PATTERNS[format];
   return z.string().transform((raw, ctx) => {
@@ -90,12 +90,15 @@ export function dateSchema(format: DateFormat): ZodType<string, string> {
       ctx.addIssue({ code: 'custom', message: 'is blank' });
       return z.NEVER;
     }
-    const m = re.exec(text);
+    // An ISO date is unambiguous, so it is read beside any declared format (files often mix them).
+    const isoMatch = format === 'iso' ? null : DATE_PATTERNS.iso.re.exec(text);
+    const m = isoMatch ?? re.exec(text);
     if (!m) {
-      ctx.addIssue({ code: 'custom', message: `is not ${words}` });
+      ctx.addIssue({ code: 'custom', message: format === 'iso' ? `is not ${words}` : `is not ${words} (or an ISO date YYYY-MM-DD)` });
       return z.NEVER;
     }
-    const iso = `${m[order[0]]!}-${m[order[1]]!.padStart(2, '0')}-${m[order[2]]!.padStart(2, '0')}`;
+    const o = isoMatch ? DATE_PATTERNS.iso.order : order;
+    const iso = `${m[o[0]]!}-${m[o[1]]!.padStart(2, '0')}-${m[o[2]]!.padStart(2, '0')}`;
     if (isoDateToDay(iso) === null) {
       ctx.addIssue({ code: 'custom', message: 'is not a date of the calendar' });
       return z.NEVER;

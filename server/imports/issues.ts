@@ -1,4 +1,4 @@
-import type { ImportIssue } from '../../shared/schemas/imports';
+import type { ImportIssue, ImportIssueKind } from '../../shared/schemas/imports';
 
 /** How many errors and warnings are kept in detail; the rest are only counted. */
 export const ISSUE_DETAIL_LIMIT = 200;
@@ -11,16 +11,38 @@ export function shownValue(value: unknown): string {
   return text.length > VALUE_SHOWN ? `${text.slice(0, VALUE_SHOWN)}…` : text;
 }
 
-/** Collects errors and warnings, keeping the first 200 of each and counting all. */
+/** The kind of a problem: its column and its words without the values (quoted text, numbers, ids). */
+function kindKey(issue: ImportIssue): string {
+  const problem = problemOf(issue)
+    .replace(/"[^"]*"/g, '"…"')
+    .replace(/\(“[^”]*”\)/g, '')
+    .replace(/\bassessment \S+/g, 'assessment …')
+    .replace(/\S*\d\S*/g, '#');
+  return `${issue.column ?? ''}\u0000${problem}`;
+}
+
+/** Collects errors and warnings, keeping the first 200 of each and counting all, in total and by kind. */
 export class IssueList {
   readonly errors: ImportIssue[] = [];
   readonly warnings: ImportIssue[] = [];
   errorCount = 0;
   warningCount = 0;
+  private readonly kinds = new Map<string, ImportIssueKind>();
 
   error(issue: ImportIssue): void {
     this.errorCount++;
-    if (this.errors.length < ISSUE_DETAIL_LIMIT) this.errors.push(issue);
+    const shown = this.errors.length < ISSUE_DETAIL_LIMIT;
+    if (shown) this.errors.push(issue);
+    const key = kindKey(issue);
+    let kind = this.kinds.get(key);
+    if (!kind) this.kinds.set(key, (kind = { column: issue.column, problem: problemOf(issue).trim(), count: 0, shown: 0 }));
+    kind.count++;
+    if (shown) kind.shown++;
+  }
+
+  /** Every kind of error with how many there are and how many of them are among the errors listed (in order of first appearance). */
+  errorKinds(): ImportIssueKind[] {
+    return [...this.kinds.values()].map((k) => ({ ...k }));
   }
 
   warning(issue: ImportIssue): void {

@@ -5,9 +5,9 @@
  * classifier codes the roster does not have unless the lead chose to add them. Reads only.
  */
 import type BetterSqlite3 from 'better-sqlite3';
-import type { ImportCounts } from '../../shared/schemas/imports';
+import type { AthleteChange, ImportCounts } from '../../shared/schemas/imports';
 import { KIND_CODES, type ValidatedBatch } from './batch';
-import { rowIssue, type IssueList } from './issues';
+import { ISSUE_DETAIL_LIMIT, rowIssue, type IssueList } from './issues';
 
 export const NEW = 0;
 export const CHANGED = 1;
@@ -41,6 +41,9 @@ export interface ImportPlan {
   ratingAction: Uint8Array;
   existingRatingId: Int32Array;
   existingRatingClass: Int8Array;
+  /** Stored assessments the batch gives to another athlete (the first 200), and how many in all. */
+  athleteChanges: AthleteChange[];
+  athleteChangeCount: number;
 }
 
 export interface PlanOptions {
@@ -113,6 +116,26 @@ export function planImport(sqlite: BetterSqlite3.Database, federationId: number,
     if (i === undefined) continue;
     existingAssessment[i] = row;
     batchOfDbId.set(row.id, i);
+  }
+
+  // A stored assessment given to another athlete is not a silent change: it is listed for the lead to confirm.
+  const athleteChanges: AthleteChange[] = [];
+  let athleteChangeCount = 0;
+  let athleteCodeOf: Map<number, string> | null = null;
+  for (let i = 0; i < n; i++) {
+    const before = existingAssessment[i];
+    if (!before || athleteIds.get(a.athleteCode[i]!) === before.athlete_id) continue;
+    athleteChangeCount++;
+    if (athleteChanges.length >= ISSUE_DETAIL_LIMIT) continue;
+    athleteCodeOf ??= new Map([...athleteIds].map(([code, id]) => [id, code]));
+    athleteChanges.push({
+      assessmentId: a.externalId[i]!,
+      row: a.row[i]!,
+      line: a.line[i] ?? null,
+      column: 'athlete_code',
+      storedAthlete: athleteCodeOf.get(before.athlete_id) ?? `#${before.athlete_id}`,
+      fileAthlete: a.athleteCode[i]!,
+    });
   }
 
   const assessmentAction = new Uint8Array(n);
@@ -203,6 +226,8 @@ export function planImport(sqlite: BetterSqlite3.Database, federationId: number,
     ratingAction,
     existingRatingId,
     existingRatingClass,
+    athleteChanges,
+    athleteChangeCount,
   };
 }
 

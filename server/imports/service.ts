@@ -6,7 +6,7 @@
  */
 import crypto from 'node:crypto';
 import fs from 'node:fs';
-import type { UploadOptions, DryRun, ImportCounts, ImportView, BatchResult, ImportStatus } from '../../shared/schemas/imports';
+import { STAGED_IMPORT_DAYS, type UploadOptions, type DryRun, type ImportCounts, type ImportView, type BatchResult, type ImportStatus } from '../../shared/schemas/imports';
 import type { FederationAccess } from '../auth/access';
 import type { AppContext } from '../context';
 import { HttpError, notFound } from '../http/errors';
@@ -72,10 +72,13 @@ export async function dryRunCsv(
     counts,
     errorCount: issues.errorCount,
     errors: issues.errors,
+    errorKinds: issues.errorKinds(),
     warningCount: issues.warningCount,
     warnings: issues.warnings,
   });
-  if (!read.batch || read.issues.errorCount > 0) return refused(read.issues, null);
+  if (!read.batch) return refused(read.issues, null);
+  // Compared with the federation's data even when rows have problems, so that every kind of
+  // problem (unknown classifiers too) is counted in this round, not after the first is fixed.
   reporter.report('checking', 0, 1);
   const plan = planImport(ctx.sqlite, federation.id, read.batch, { addClassifiers: options.addClassifiers }, read.issues);
   if (read.issues.errorCount > 0) return refused(read.issues, plan.counts);
@@ -86,8 +89,12 @@ export async function dryRunCsv(
     counts: plan.counts,
     errorCount: 0,
     errors: [],
+    errorKinds: [],
     warningCount: read.issues.warningCount,
     warnings: read.issues.warnings,
+    athleteChanges: plan.athleteChanges,
+    athleteChangeCount: plan.athleteChangeCount,
+    expiresAt: importId === null ? null : expiryOf(ctx, importId),
   });
   if (!planChangesSomething(plan.counts)) return answer(null, 'nothing-to-do');
 
@@ -123,16 +130,78 @@ function importRow(ctx: AppContext, federationId: number, importId: number): Imp
  * Writes a batch as import `importId` in the caller's transaction: plans again against the data
  * as it is now (another import may have come in since the dry run), refuses on any error, writes.
  */
-function writeBatch(ctx: AppContext, federationId: number, importId: number, batch: ValidatedBatch, addClassifiers: boolean): { plan: ImportPlan; issues: IssueList } {
+function writeBatch(
+  ctx: AppContext,
+  federationId: number,
+  importId: number,
+  batch: ValidatedBatch,
+  addClassifiers: boolean,
+  confirmAthleteChanges = true,
+): { plan: ImportPlan; issues: IssueList; unconfirmed?: true } {
   const issues = new IssueList();
   const plan = planImport(ctx.sqlite, federationId, batch, { addClassifiers }, issues);
   if (issues.errorCount > 0) return { plan, issues };
+  if (plan.athleteChangeCount > 0 && !confirmAthleteChanges) return { plan, issues, unconfirmed: true };
   applyPlan(ctx.sqlite, federationId, importId, batch, plan);
   return { plan, issues };
 }
 
+/** When a staged import expires: STAGED_IMPORT_DAYS after it was checked. */
+function expiryOf(ctx: AppContext, importId: number): string | null {
+  const created = ctx.sqlite.prepare('select created_at from imports where id = ?').pluck().get(importId) as string | undefined;
+  if (!created) return null;
+  return new Date(Date.parse(created) + STAGED_IMPORT_DAYS * DAY_MS).toISOString();
+}
+
+const DAY_MS = 24 * 60 * 60 * 1000;
+
+/**
+ * Expires checked files that were never committed: staged imports older than `days` (default
+ * STAGED_IMPORT_DAYS) become `expired` (kept in the history with a note) and their staged batch
+ * is removed. Awaitable; call it at start and once a day. Returns the ids it expired.
+ */
+export async function expireStagedImports(ctx: AppContext, options: { now?: Date; days?: number } = {}): Promise<number[]> {
+  const now = options.now ?? new Date();
+  const cutoff = new Date(now.getTime() - (options.days ?? STAGED_IMPORT_DAYS) * DAY_MS).toISOString();
+  const rows = ctx.sqlite.prepare("select id, federation_id from imports where status = 'staged' and created_at < ?").all(cutoff) as { id: number; federation_id: number }[];
+  const expired: number[] = [];
+  for (const row of rows) {
+    const changed = ctx.sqlite.transaction(() => {
+      const result = ctx.sqlite.prepare("update imports set status = 'expired' where id = ? and status = 'staged'").run(row.id);
+      if (result.changes === 1) auditSync(ctx, row.federation_id, null, 'import.expire', row.id, { expiredAt: now.toISOString(), days: options.days ?? STAGED_IMPORT_DAYS });
+      return result.changes === 1;
+    })();
+    if (!changed) continue;
+    await removeStaged(ctx, row.id);
+    expired.push(row.id);
+  }
+  return expired;
+}
+
+/** Runs expireStagedImports now and then daily; `stop()` ends it; `idle()` awaits the run in progress. */
+export function scheduleStagedImportExpiry(ctx: AppContext, onError: (error: unknown) => void = () => {}): { stop(): void; idle(): Promise<void> } {
+  let running: Promise<void> = Promise.resolve();
+  const run = () => {
+    running = running.then(() => expireStagedImports(ctx)).then(
+      () => undefined,
+      (error: unknown) => onError(error),
+    );
+  };
+  run();
+  const timer = setInterval(run, DAY_MS);
+  timer.unref();
+  return { stop: () => clearInterval(timer), idle: () => running };
+}
+
 /** Commits a staged import in one transaction. */
-export async function commitImport(ctx: AppContext, federation: Federation, userId: number | null, importId: number, reporter: Reporter = silent): Promise<ImportView> {
+export async function commitImport(
+  ctx: AppContext,
+  federation: Federation,
+  userId: number | null,
+  importId: number,
+  reporter: Reporter = silent,
+  options: { confirmAthleteChanges?: boolean } = {},
+): Promise<ImportView> {
   const row = importRow(ctx, federation.id, importId);
   if (row.status !== 'staged') throw new HttpError(409, 'conflict', `The import is ${row.status}, not waiting to be committed`);
   const staged = await readStaged(ctx, importId);
@@ -146,8 +215,9 @@ export async function commitImport(ctx: AppContext, federation: Federation, user
       // Re-read inside the transaction: a concurrent commit of the same import loses here.
       const now = ctx.sqlite.prepare('select status from imports where id = ?').pluck().get(importId);
       if (now !== 'staged') return { conflict: true as const };
-      const written = writeBatch(ctx, federation.id, importId, staged.batch, staged.addClassifiers);
+      const written = writeBatch(ctx, federation.id, importId, staged.batch, staged.addClassifiers, options.confirmAthleteChanges === true);
       if (written.issues.errorCount > 0) return { issues: written.issues };
+      if (written.unconfirmed) return { unconfirmed: written.plan };
       ctx.sqlite
         .prepare("update imports set status = 'committed', counts = ?, committed_at = strftime('%Y-%m-%dT%H:%M:%fZ','now') where id = ?")
         .run(JSON.stringify(written.plan.counts), importId);
@@ -156,6 +226,15 @@ export async function commitImport(ctx: AppContext, federation: Federation, user
     })
     .immediate();
   if ('conflict' in result) throw new HttpError(409, 'conflict', 'The import is no longer waiting to be committed');
+  if ('unconfirmed' in result && result.unconfirmed) {
+    const n = result.unconfirmed.athleteChangeCount;
+    throw new HttpError(
+      409,
+      'conflict',
+      `The file gives ${n} ${n === 1 ? 'stored assessment' : 'stored assessments'} to another athlete: confirm ${n === 1 ? 'this change' : 'these changes'} to commit`,
+      { athleteChangeCount: n, athleteChanges: result.unconfirmed.athleteChanges },
+    );
+  }
   if ('issues' in result && result.issues) {
     throw new HttpError(409, 'conflict', 'The data changed since the dry run and the file no longer passes: check it again', {
       errorCount: result.issues.errorCount,
@@ -267,6 +346,12 @@ function toView(ctx: AppContext, row: HistoryRow): ImportView {
     revertedAt: row.reverted_at,
     revertable: blocker === null,
     revertBlockedBy: blocker,
+    note:
+      row.status === 'expired'
+        ? `Checked but not committed within ${STAGED_IMPORT_DAYS} days: it expired and the checked file was removed. Upload the file again to import it.`
+        : row.status === 'staged'
+          ? `Waiting to be committed; it expires ${new Date(Date.parse(row.created_at) + STAGED_IMPORT_DAYS * DAY_MS).toISOString().slice(0, 10)} if it is not.`
+          : null,
   };
 }
 

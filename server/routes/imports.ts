@@ -142,7 +142,8 @@ export function importsRouter(ctx: AppContext): Router {
     const { federation, userId } = accessOf(req);
     const progress = progressReporter(federation.id, userId, jobOf(req.query));
     try {
-      const view = await commitImport(ctx, federation, userId, idOf(req.params.importId, 'The import'), progress);
+      const body = (req.body ?? {}) as { confirmAthleteChanges?: unknown };
+      const view = await commitImport(ctx, federation, userId, idOf(req.params.importId, 'The import'), progress, { confirmAthleteChanges: body.confirmAthleteChanges === true });
       progress.finish('done');
       res.json(view);
     } catch (error) {

@@ -29,6 +29,28 @@ export const importIssueSchema = z.object({
 });
 export type ImportIssue = z.infer<typeof importIssueSchema>;
 
+/** A kind of problem (its column and its words; the values differ from row to row) and how many rows have it. */
+export const importIssueKindSchema = z.object({
+  column: z.string().nullable(),
+  /** The problem as its first row says it. */
+  problem: z.string(),
+  count: z.number().int(),
+  /** How many of them are among the errors listed. */
+  shown: z.number().int(),
+});
+export type ImportIssueKind = z.infer<typeof importIssueKindSchema>;
+
+/** An assessment already stored that the file gives to another athlete: applied only when the lead confirms it. */
+export const athleteChangeSchema = z.object({
+  assessmentId: z.string(),
+  row: z.number().int(),
+  line: z.number().int().nullable(),
+  column: z.string(),
+  storedAthlete: z.string(),
+  fileAthlete: z.string(),
+});
+export type AthleteChange = z.infer<typeof athleteChangeSchema>;
+
 const changeCountsSchema = z.object({ new: z.number().int(), changed: z.number().int(), unchanged: z.number().int() });
 export type ChangeCounts = z.infer<typeof changeCountsSchema>;
 
@@ -44,7 +66,11 @@ export const importCountsSchema = z.object({
 });
 export type ImportCounts = z.infer<typeof importCountsSchema>;
 
-export const importStatusSchema = z.enum(['staged', 'committed', 'reverted', 'discarded']);
+/** `expired`: checked, never committed, and removed after STAGED_IMPORT_DAYS days. */
+export const importStatusSchema = z.enum(['staged', 'committed', 'reverted', 'discarded', 'expired']);
+
+/** Days a checked file waits for its commit before it expires. */
+export const STAGED_IMPORT_DAYS = 7;
 export type ImportStatus = z.infer<typeof importStatusSchema>;
 
 /** The answer to an upload (a dry run): nothing is written to the federation's data yet. */
@@ -61,6 +87,13 @@ export const dryRunSchema = z.object({
   errors: z.array(importIssueSchema),
   warningCount: z.number().int(),
   warnings: z.array(importIssueSchema),
+  /** Every kind of error, counted in full (the file is read and compared with the data in one round). */
+  errorKinds: z.array(importIssueKindSchema).optional(),
+  /** Stored assessments the file gives to another athlete (the first 200): the commit needs the lead's confirmation. */
+  athleteChanges: z.array(athleteChangeSchema).optional(),
+  athleteChangeCount: z.number().int().optional(),
+  /** When a staged import expires if it is not committed. */
+  expiresAt: z.string().nullable().optional(),
   /** An earlier committed import of the same file, if any. */
   sameFileAs: z.object({ importId: z.number().int(), committedAt: z.string().nullable() }).nullable(),
 });
@@ -79,6 +112,8 @@ export const importViewSchema = z.object({
   /** Whether the caller may revert it now, and if not, why. */
   revertable: z.boolean(),
   revertBlockedBy: z.string().nullable(),
+  /** A note for the history (an expired or a waiting checked file). */
+  note: z.string().nullable().optional(),
 });
 export type ImportView = z.infer<typeof importViewSchema>;
 

@@ -7,8 +7,8 @@ import { federationPath } from './keys';
 export function useCommitImport(federation: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: ({ importId, job }: { importId: number; job: string }) =>
-      api<ImportView>(`${federationPath(federation)}/imports/${importId}/commit?job=${encodeURIComponent(job)}`, { method: 'POST' }),
+    mutationFn: ({ importId, job, confirmAthleteChanges = false }: { importId: number; job: string; confirmAthleteChanges?: boolean }) =>
+      api<ImportView>(`${federationPath(federation)}/imports/${importId}/commit?job=${encodeURIComponent(job)}`, { method: 'POST', body: { confirmAthleteChanges } }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: ['federations', federation] }),
   });
 }

@@ -30,10 +30,24 @@ export function DryRunResult({ result }: { result: DryRun }) {
   return (
     <div className="space-y-5">
       {result.outcome === 'refused' ? (
-        <p role="alert" className="rounded-lg bg-alert-soft px-4 py-3 text-alert">
-          The file was refused and nothing was imported: {number.format(result.errorCount)} {result.errorCount === 1 ? 'problem' : 'problems'}
-          {result.errorCount > result.errors.length ? ` (the first ${result.errors.length} are listed)` : ''}. Correct the file or the mapping and check it again.
-        </p>
+        <div role="alert" className="space-y-2 rounded-lg bg-alert-soft px-4 py-3 text-alert">
+          <p>
+            The file was refused and nothing was imported: {number.format(result.errorCount)} {result.errorCount === 1 ? 'problem' : 'problems'}
+            {result.errorCount > result.errors.length ? ` (the first ${number.format(result.errors.length)} of ${number.format(result.errorCount)} are listed)` : ''}. Correct the
+            file or the mapping and check it again.
+          </p>
+          {(result.errorKinds?.length ?? 0) > 1 || (result.errorKinds ?? []).some((k) => k.shown < k.count) ? (
+            <ul className="list-disc pl-5 text-sm" aria-label="Problems by kind">
+              {(result.errorKinds ?? []).map((k, i) => (
+                <li key={i}>
+                  {k.column ? `${k.column}: ` : ''}
+                  {number.format(k.count)} {k.count === 1 ? 'row' : 'rows'}, for example “{k.problem}”
+                  {k.shown < k.count ? ` (first ${number.format(k.shown)} of ${number.format(k.count)} listed)` : ''}
+                </li>
+              ))}
+            </ul>
+          ) : null}
+        </div>
       ) : result.outcome === 'nothing-to-do' ? (
         <p role="status" className="rounded-lg bg-harbour-soft px-4 py-3">
           Nothing to import: every row is already in the federation’s data
@@ -106,5 +120,47 @@ export function DryRunResult({ result }: { result: DryRun }) {
         </details>
       ) : null}
     </div>
+  );
+}
+
+/**
+ * Stored assessments the file gives to another athlete: listed, and the commit waits until the
+ * lead confirms them (a checkbox with the consequence in words).
+ */
+export function AthleteChangesConfirmation({
+  result,
+  confirmed,
+  onConfirm,
+  disabled,
+}: {
+  result: DryRun;
+  confirmed: boolean;
+  onConfirm: (value: boolean) => void;
+  disabled?: boolean;
+}) {
+  const n = result.athleteChangeCount ?? 0;
+  const changes = result.athleteChanges ?? [];
+  return (
+    <section aria-labelledby="athlete-changes" className="card space-y-3 border-amber bg-amber-soft">
+      <h3 id="athlete-changes">
+        {number.format(n)} {n === 1 ? 'assessment already stored is' : 'assessments already stored are'} given to another athlete
+      </h3>
+      <p className="text-sm">
+        Committing moves {n === 1 ? 'this assessment and its ratings' : 'these assessments and their ratings'} from the stored athlete to the one in the file. Check that the
+        file is right; a revert of the import moves them back.
+      </p>
+      <ul className="list-disc pl-5 text-sm">
+        {changes.map((c) => (
+          <li key={c.assessmentId}>
+            Assessment {c.assessmentId} (row {number.format(c.row)}): stored athlete {c.storedAthlete}, file says {c.fileAthlete}
+          </li>
+        ))}
+        {n > changes.length ? <li>… and {number.format(n - changes.length)} more</li> : null}
+      </ul>
+      <label className="flex items-start gap-2 text-sm">
+        <input type="checkbox" checked={confirmed} onChange={(e) => onConfirm(e.target.checked)} disabled={disabled} />
+        <span>I confirm that {n === 1 ? 'this assessment belongs' : 'these assessments belong'} to the athlete in the file.</span>
+      </label>
+    </section>
   );
 }

@@ -14,6 +14,7 @@ const STATUS_WORDS: Record<ImportView['status'], string> = {
   committed: 'Committed',
   reverted: 'Reverted',
   discarded: 'Discarded',
+  expired: 'Expired (never committed)',
 };
 const SOURCE_WORDS: Record<ImportView['source'], string> = { csv: 'CSV upload', api: 'Batch API', seed: 'Demo data' };
 
@@ -39,7 +40,17 @@ export function ImportHistory({ federation }: { federation: string }) {
     { key: 'source', header: 'Source', cell: (v) => SOURCE_WORDS[v.source] },
     { key: 'fileName', header: 'File', cell: (v) => v.fileName ?? '—' },
     { key: 'counts', header: 'Counts', sortable: false, cell: summary, csv: summary },
-    { key: 'status', header: 'Status', cell: (v) => STATUS_WORDS[v.status] + (v.revertedAt ? ` ${when(v.revertedAt)}` : '') },
+    {
+      key: 'status',
+      header: 'Status',
+      csv: (v) => STATUS_WORDS[v.status] + (v.note ? ` (${v.note})` : ''),
+      cell: (v) => (
+        <>
+          {STATUS_WORDS[v.status] + (v.revertedAt ? ` ${when(v.revertedAt)}` : '')}
+          {v.note ? <span className="block text-xs text-muted">{v.note}</span> : null}
+        </>
+      ),
+    },
     {
       key: 'revertable',
       header: 'Revert',

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { Link } from 'react-router';
 import Papa from 'papaparse';
+import { sniffFile } from '../../../../shared/file-signature';
 import { guessMapping, layoutOf, type ColumnMapping } from '../../../../shared/import-columns';
 import type { DryRun, ImportProgress, ImportView } from '../../../../shared/schemas/imports';
 import { useCurrentFederation } from '../../../app/use-federation';
@@ -12,7 +13,7 @@ import { useMappings } from '../api/list-mappings';
 import { useDryRun } from '../api/upload-dry-run';
 import { ColumnMapping as ColumnMappingStep, type MappingState } from './column-mapping';
 import { CsvPreview } from './csv-preview';
-import { DryRunResult } from './dry-run-result';
+import { AthleteChangesConfirmation, DryRunResult } from './dry-run-result';
 import { FilePicker } from './file-picker';
 import { ImportHistory } from './import-history';
 import { ProgressBar } from './progress-bar';
@@ -24,10 +25,21 @@ interface Preview {
   rows: string[][];
 }
 
-/** Reads the first rows in the browser, for the preview and the guess of the mapping. */
-function readPreview(file: File): Promise<Preview> {
+/** A file the preview refuses before any mapping (a workbook renamed .csv, a PDF…), with the server's words. */
+class NotACsv extends Error {}
+
+/**
+ * Reads the first rows in the browser, for the preview and the guess of the mapping: the first
+ * bytes first, so that a workbook or another binary file is refused before any column is shown,
+ * and UTF-16 text is read by its encoding.
+ */
+async function readPreview(file: File): Promise<Preview> {
+  const head = new Uint8Array(await file.slice(0, 4096).arrayBuffer());
+  const sniffed = sniffFile(head);
+  if ('refused' in sniffed) throw new NotACsv(sniffed.refused);
   return new Promise((resolve, reject) => {
     Papa.parse<string[]>(file, {
+      encoding: sniffed.encoding,
       preview: 11,
       skipEmptyLines: 'greedy',
       complete: (result) => {
@@ -68,9 +80,11 @@ export function ImportsPage() {
   const [progress, setProgress] = useState<{ label: string; value: number | null } | null>(null);
   const [result, setResult] = useState<DryRun | null>(null);
   const [committed, setCommitted] = useState<ImportView | null>(null);
+  const [confirmAthletes, setConfirmAthletes] = useState(false);
 
   const chooseFile = async (chosen: File) => {
     setFile(chosen);
+    setConfirmAthletes(false);
     setResult(null);
     setCommitted(null);
     setUnmapped([]);
@@ -94,6 +108,11 @@ export function ImportsPage() {
       setNote(applied ? `The saved mapping “${applied}” matches this file’s columns and was applied.` : null);
     } catch (error) {
       setPreview(null);
+      if (error instanceof NotACsv) {
+        setFile(null);
+        setPreviewError(`${chosen.name}: ${error.message}`);
+        return;
+      }
       setPreviewError(`The browser could not read the file for a preview (${(error as Error).message}). You can still check it: the server reads it again.`);
     }
   };
@@ -139,7 +158,7 @@ export function ImportsPage() {
       if (p.phase === 'writing') setProgress({ label, value: p.total && p.done === p.total ? 1 : null });
     });
     try {
-      const view = await commit.mutateAsync({ importId: result.importId, job });
+      const view = await commit.mutateAsync({ importId: result.importId, job, confirmAthleteChanges: confirmAthletes });
       setCommitted(view);
       setResult(null);
     } catch {
@@ -160,6 +179,7 @@ export function ImportsPage() {
   };
 
   const busy = progress !== null;
+  const athleteChanges = result?.outcome === 'ready' ? (result.athleteChangeCount ?? 0) : 0;
 
   return (
     <div className="space-y-8">
@@ -176,7 +196,11 @@ export function ImportsPage() {
             Chosen: <strong>{file.name}</strong> ({number.format(Math.ceil(file.size / 1024))} KB)
           </p>
         ) : null}
-        {previewError ? <p className="field-error">{previewError}</p> : null}
+        {previewError ? (
+          <p role="alert" className="field-error">
+            {previewError}
+          </p>
+        ) : null}
         {preview && file ? <CsvPreview headers={preview.headers} rows={preview.rows} fileName={file.name} /> : null}
       </section>
 
@@ -207,7 +231,7 @@ export function ImportsPage() {
             </button>
             {result?.outcome === 'ready' ? (
               <>
-                <button type="button" className="btn btn-primary" onClick={() => void commitImport()} disabled={busy}>
+                <button type="button" className="btn btn-primary" onClick={() => void commitImport()} disabled={busy || (athleteChanges > 0 && !confirmAthletes)}>
                   Commit the import
                 </button>
                 <button
@@ -225,6 +249,9 @@ export function ImportsPage() {
           {dryRun.error ? <ErrorNotice error={dryRun.error} /> : null}
           {commit.error ? <ErrorNotice error={commit.error} /> : null}
           {result ? <DryRunResult result={result} /> : null}
+          {athleteChanges > 0 && result ? (
+            <AthleteChangesConfirmation result={result} confirmed={confirmAthletes} onConfirm={setConfirmAthletes} disabled={busy} />
+          ) : null}
           {committed ? (
             <div role="status" className="space-y-2 rounded-lg bg-ok-soft px-4 py-3 text-ok">
               <p>
