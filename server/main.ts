@@ -3,7 +3,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { clientDist, createApp } from './app';
 import { loadConfig } from './config';
-import type { AppContext } from './context';
+import { closeContext, createContext } from './context';
 import { openDatabase } from './db/connection';
 import { migrateToLatest } from './db/migrate';
 import { isEmpty, seedDemo } from './demo/seed';
@@ -32,7 +32,7 @@ async function main() {
   }
 
   const mailer = await startMailer({ config, db, logger });
-  const ctx: AppContext = { db, sqlite, config, logger, mailer };
+  const ctx = createContext({ db, sqlite, config, logger, mailer });
   const app = createApp(ctx);
   const server = app.listen(config.port, (error?: Error) => {
     // Express 5 hands a listen error (such as a port in use) to this callback instead of throwing.
@@ -45,9 +45,11 @@ async function main() {
 
   const stop = () => {
     server.close(() => {
-      void mailer.close().finally(() => db.destroy().then(() => process.exit(0)));
+      void closeContext(ctx)
+        .then(() => mailer.close())
+        .finally(() => db.destroy().then(() => process.exit(0)));
     });
-    setTimeout(() => process.exit(0), 3000).unref();
+    setTimeout(() => process.exit(0), 10_000).unref();
   };
   process.on('SIGINT', stop);
   process.on('SIGTERM', stop);

@@ -268,6 +268,15 @@ export interface OutboxMessageTable {
   received_at: CreatedAt;
 }
 
+/** A durable background job owed to a subject (server/workers/jobs.ts). */
+export interface BackgroundJobTable {
+  kind: string;
+  subject: number;
+  requested_at: Generated<string>;
+  attempts: Generated<number>;
+  last_error: string | null;
+}
+
 export interface Database {
   federations: FederationTable;
   users: UserTable;
@@ -291,6 +300,7 @@ export interface Database {
   research_exports: ResearchExportTable;
   import_changes: ImportChangeTable;
   import_mappings: ImportMappingTable;
+  background_jobs: BackgroundJobTable;
 }
 
 export type Federation = Selectable<FederationTable>;

@@ -6,19 +6,10 @@ import type { AppContext } from '../context';
 import { forbidden, HttpError } from '../http/errors';
 import { parseWith } from '../http/validate';
 import '../openapi/analytics-routes';
-import { athletesInFilter, federationData, filterOptions, MIN_ATHLETES_FOR_AGGREGATES } from '../services/analytics-data';
-import {
-  boundaries,
-  classDrift,
-  classifierDetail,
-  classifierRows,
-  myAgreement,
-  overviewFigures,
-  pairDetail,
-  pairs,
-  raterDrift,
-} from '../services/analytics';
-import { ensureEvaluated, evaluateFlags, evaluateFlagsOnDataChange, flagsOf, lastEvaluation, saveThresholds, thresholdsOf, updateFlag } from '../services/calibration-flags';
+import { filterKey, MIN_ATHLETES_FOR_AGGREGATES } from '../services/analytics-data';
+import { classifierDetail, classifierRows, myAgreement } from '../services/analytics';
+import { ensureEvaluated, evaluateFlagsInPool, evaluateFlagsOnDataChange, flagsOf, lastEvaluation, saveThresholds, thresholdsOf, updateFlag } from '../services/calibration-flags';
+import type { TaskName, TaskPayload, TaskResult } from '../workers/tasks';
 
 /**
  * The agreement dashboards' API: /api/federations/:federation/analytics/…
@@ -30,6 +21,10 @@ import { ensureEvaluated, evaluateFlags, evaluateFlagsOnDataChange, flagsOf, las
  *   figures → 403;
  * - researcher and read tokens: aggregates only; no view that names a classifier or an athlete
  *   (docs/decisions/0006-dashboards-who-sees-what.md).
+ *
+ * Every figure is computed in the worker pool (server/workers/pool.ts), shared between callers
+ * asking for the same view at the same data version; flags are read here, as they change
+ * without a data change.
  */
 const base = '/federations/:federation/analytics';
 const code = z.string().regex(/^[A-Za-z0-9._-]{1,64}$/, { message: 'is not a classifier code' });
@@ -43,12 +38,12 @@ function filtersOf(req: Request): AnalyticsFilters {
  * not narrow by event (events are not listed for them), and no one but a lead sees aggregates
  * of fewer than MIN_ATHLETES_FOR_AGGREGATES athletes.
  */
-function aggregateFiltersOf(ctx: AppContext, req: Request): AnalyticsFilters {
+async function aggregateFiltersOf(ctx: AppContext, req: Request): Promise<AnalyticsFilters> {
   const access = accessOf(req);
   const filters = filtersOf(req);
   if (access.role === 'lead') return filters;
   if (filters.event && access.role !== 'classifier') throw forbidden('Researchers cannot narrow the figures to one event');
-  const athletes = athletesInFilter(ctx, federationData(ctx, federationOf(access)), access.federation.id, filters);
+  const athletes = await athletesOf(ctx, access, filters);
   if (athletes > 0 && athletes < MIN_ATHLETES_FOR_AGGREGATES) {
     throw new HttpError(422, 'validation_failed', `These filters leave ${athletes} athletes; figures are shown for groups of at least ${MIN_ATHLETES_FOR_AGGREGATES}. Widen the filters.`);
   }
@@ -57,6 +52,36 @@ function aggregateFiltersOf(ctx: AppContext, req: Request): AnalyticsFilters {
 
 function federationOf(access: FederationAccess) {
   return { id: access.federation.id, scaleMin: access.federation.scaleMin, scaleMax: access.federation.scaleMax };
+}
+
+/** A view's figures from the pool, shared by every caller asking for the same key at the same data version. */
+function figures<N extends TaskName>(ctx: AppContext, access: FederationAccess, name: N, payload: TaskPayload<N>, key: string): Promise<TaskResult<N>> {
+  return ctx.pool.run(name, payload, { federationId: access.federation.id, key });
+}
+
+function athletesOf(ctx: AppContext, access: FederationAccess, filters: AnalyticsFilters): Promise<number> {
+  return figures(ctx, access, 'analytics.athletes', { federation: federationOf(access), filters }, filterKey(filters));
+}
+
+function classifierFiguresOf(ctx: AppContext, access: FederationAccess, filters: AnalyticsFilters) {
+  return figures(ctx, access, 'analytics.classifiers', { federation: federationOf(access), filters }, filterKey(filters));
+}
+
+async function classifierDetailOf(ctx: AppContext, access: FederationAccess, filters: AnalyticsFilters, wanted: string) {
+  const thresholds = await thresholdsOf(ctx, access.federation.id);
+  const detail = await figures(
+    ctx,
+    access,
+    'analytics.classifier',
+    { federation: federationOf(access), filters, code: wanted, thresholds },
+    `${wanted}|${thresholds.driftK}|${thresholds.driftH}|${filterKey(filters)}`,
+  );
+  return classifierDetail(ctx, access.federation.id, detail);
+}
+
+async function myAgreementOf(ctx: AppContext, access: FederationAccess, filters: AnalyticsFilters, mine: string) {
+  const [detail, all] = await Promise.all([classifierDetailOf(ctx, access, filters, mine), classifierFiguresOf(ctx, access, filters)]);
+  return myAgreement(detail, all);
 }
 
 async function ownCode(ctx: AppContext, access: FederationAccess): Promise<string> {
@@ -75,26 +100,27 @@ export function analyticsRouter(ctx: AppContext): Router {
   const leadOrClassifier = requireAccess(ctx, { roles: ['lead', 'classifier'] });
   const classifierOnly = requireAccess(ctx, { roles: ['classifier'] });
 
-  router.get(`${base}/filters`, everyone, (req, res) => {
+  router.get(`${base}/filters`, everyone, async (req, res) => {
     const access = accessOf(req);
-    const options = filterOptions(federationData(ctx, federationOf(access)));
+    const options = await figures(ctx, access, 'analytics.filters', { federation: federationOf(access) }, '');
     // Researchers and read tokens get no event list (decision record 0006).
     res.json(access.role === 'lead' || access.role === 'classifier' ? options : { ...options, events: [] });
   });
 
   router.get(`${base}/overview`, everyone, async (req, res) => {
     const access = accessOf(req);
-    const filters = aggregateFiltersOf(ctx, req);
-    const figures = overviewFigures(ctx, federationOf(access), filters);
+    const filters = await aggregateFiltersOf(ctx, req);
+    const overview = await figures(ctx, access, 'analytics.overview', { federation: federationOf(access), filters }, filterKey(filters));
     if (access.role === 'lead') await ensureEvaluated(ctx, access.federation.id);
     const openFlags = access.role === 'lead' ? await flagsOf(ctx, access.federation.id, { activeOnly: true }) : null;
-    res.json({ ...figures, openFlags });
+    res.json({ ...overview, openFlags });
   });
 
   router.get(`${base}/classifiers`, leadOnly, async (req, res) => {
     const access = accessOf(req);
+    const filters = filtersOf(req);
     await ensureEvaluated(ctx, access.federation.id);
-    res.json({ classifiers: await classifierRows(ctx, federationOf(access), filtersOf(req)) });
+    res.json({ classifiers: await classifierRows(ctx, access.federation.id, await classifierFiguresOf(ctx, access, filters)) });
   });
 
   router.get(`${base}/classifiers/:code`, leadOrClassifier, async (req, res) => {
@@ -104,10 +130,10 @@ export function analyticsRouter(ctx: AppContext): Router {
     await ensureEvaluated(ctx, access.federation.id);
     if (access.role === 'classifier') {
       if ((await ownCode(ctx, access)) !== wanted) throw forbidden('Classifiers see their own figures only');
-      res.json(await myAgreement(ctx, federationOf(access), filters, wanted, await thresholdsOf(ctx, access.federation.id)));
+      res.json(await myAgreementOf(ctx, access, filters, wanted));
       return;
     }
-    res.json(await classifierDetail(ctx, federationOf(access), filters, wanted, await thresholdsOf(ctx, access.federation.id)));
+    res.json(await classifierDetailOf(ctx, access, filters, wanted));
   });
 
   router.get(`${base}/me`, classifierOnly, async (req, res) => {
@@ -115,38 +141,46 @@ export function analyticsRouter(ctx: AppContext): Router {
     const mine = await ownCode(ctx, access);
     await ensureEvaluated(ctx, access.federation.id);
     const filters = filtersOf(req);
-    const mineFigures = await myAgreement(ctx, federationOf(access), filters, mine, await thresholdsOf(ctx, access.federation.id));
+    const mineFigures = await myAgreementOf(ctx, access, filters, mine);
     // The federation's spread is an aggregate: not shown for groups that are too small.
-    const athletes = athletesInFilter(ctx, federationData(ctx, federationOf(access)), access.federation.id, filters);
-    if (athletes < MIN_ATHLETES_FOR_AGGREGATES) mineFigures.distribution = { quadraticKappa: [], bias: [], exactWithPanel: [] };
-    res.json(mineFigures);
+    const athletes = await athletesOf(ctx, access, filters);
+    res.json(athletes < MIN_ATHLETES_FOR_AGGREGATES ? { ...mineFigures, distribution: { quadraticKappa: [], bias: [], exactWithPanel: [] } } : mineFigures);
   });
 
-  router.get(`${base}/pairs`, leadOnly, (req, res) => {
+  router.get(`${base}/pairs`, leadOnly, async (req, res) => {
     const access = accessOf(req);
-    res.json(pairs(ctx, federationOf(access), filtersOf(req)));
+    const filters = filtersOf(req);
+    res.json(await figures(ctx, access, 'analytics.pairs', { federation: federationOf(access), filters }, `${filterKey(filters)}|${filters.minShared ?? ''}`));
   });
 
-  router.get(`${base}/pairs/:a/:b`, leadOnly, (req, res) => {
+  router.get(`${base}/pairs/:a/:b`, leadOnly, async (req, res) => {
     const access = accessOf(req);
     const a = parseWith(code, req.params.a, 'classifier code');
     const b = parseWith(code, req.params.b, 'classifier code');
-    res.json(pairDetail(ctx, federationOf(access), filtersOf(req), a, b));
+    const filters = filtersOf(req);
+    res.json(await figures(ctx, access, 'analytics.pair', { federation: federationOf(access), filters, a, b }, `${a}|${b}|${filterKey(filters)}|${filters.minShared ?? ''}`));
   });
 
-  router.get(`${base}/boundaries`, everyone, (req, res) => {
+  router.get(`${base}/boundaries`, everyone, async (req, res) => {
     const access = accessOf(req);
-    res.json(boundaries(ctx, federationOf(access), aggregateFiltersOf(ctx, req)));
+    const filters = await aggregateFiltersOf(ctx, req);
+    res.json(await figures(ctx, access, 'analytics.boundaries', { federation: federationOf(access), filters }, filterKey(filters)));
   });
 
   router.get(`${base}/drift/raters`, leadOnly, async (req, res) => {
     const access = accessOf(req);
-    res.json(raterDrift(ctx, federationOf(access), filtersOf(req), await thresholdsOf(ctx, access.federation.id)));
+    const filters = filtersOf(req);
+    const thresholds = await thresholdsOf(ctx, access.federation.id);
+    res.json(
+      await figures(ctx, access, 'analytics.rater-drift', { federation: federationOf(access), filters, thresholds }, `${thresholds.driftK}|${thresholds.driftH}|${filterKey(filters)}`),
+    );
   });
 
-  router.get(`${base}/drift/classes`, everyone, (req, res) => {
+  router.get(`${base}/drift/classes`, everyone, async (req, res) => {
     const access = accessOf(req);
-    res.json(classDrift(ctx, federationOf(access), aggregateFiltersOf(ctx, req), access.role === 'lead'));
+    const filters = await aggregateFiltersOf(ctx, req);
+    const withChanges = access.role === 'lead';
+    res.json(await figures(ctx, access, 'analytics.class-drift', { federation: federationOf(access), filters, withChanges }, `${withChanges}|${filterKey(filters)}`));
   });
 
   router.get(`${base}/flags`, leadOnly, async (req, res) => {
@@ -157,7 +191,7 @@ export function analyticsRouter(ctx: AppContext): Router {
 
   router.post(`${base}/flags/evaluate`, leadOnly, async (req, res) => {
     const access = accessOf(req);
-    res.json(await evaluateFlags(ctx, access.federation.id));
+    res.json(await evaluateFlagsInPool(ctx, access.federation.id));
   });
 
   router.patch(`${base}/flags/:id`, leadOnly, async (req, res) => {
@@ -178,7 +212,7 @@ export function analyticsRouter(ctx: AppContext): Router {
     const thresholds = parseWith(flagThresholdsSchema, req.body);
     await saveThresholds(ctx, access.federation.id, access.userId, thresholds);
     // New thresholds apply at once.
-    await evaluateFlags(ctx, access.federation.id);
+    await evaluateFlagsInPool(ctx, access.federation.id);
     res.json(thresholds);
   });
 

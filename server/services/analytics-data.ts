@@ -56,7 +56,7 @@ function cacheOf(ctx: AppContext): Map<string, CacheEntry> {
  * it when missing. Entries of older versions are dropped as new ones arrive.
  */
 export function cached<T>(ctx: AppContext, federationId: number, key: string, compute: () => T): T {
-  const version = dataVersion(federationId);
+  const version = dataVersion(ctx, federationId);
   const cache = cacheOf(ctx);
   const fullKey = `${federationId}|${key}`;
   const hit = cache.get(fullKey);
@@ -96,7 +96,7 @@ interface JoinedRow {
 /** Reads the federation's ratings, rosters and events into a RatingSet (cached per data version). */
 export function federationData(ctx: AppContext, federation: { id: number; scaleMin: number; scaleMax: number }): FederationData {
   return cached(ctx, federation.id, 'data', () => {
-    const version = dataVersion(federation.id);
+    const version = dataVersion(ctx, federation.id);
     const rows = ctx.sqlite
       .prepare(
         `select a.external_id, ath.code as athlete_code, ath.category, e.code as event_code, a.assessed_on,

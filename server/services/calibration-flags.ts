@@ -323,6 +323,15 @@ async function notifyLeads(
 const evaluatedOnce = new WeakMap<AppContext, Set<number>>();
 
 /**
+ * Runs evaluateFlags off the request path, in the app's worker pool (server/workers/pool.ts):
+ * the engine's figures on every rating are computed there; new flags' e-mail goes out from here.
+ * Evaluations of one federation asked for at the same data version share one run.
+ */
+export function evaluateFlagsInPool(ctx: AppContext, federationId: number, options: { background?: boolean } = {}): Promise<EvaluateResponse> {
+  return ctx.pool.run('flags.evaluate', { federationId }, { federationId, background: options.background });
+}
+
+/**
  * Evaluates a federation's flags once per process before they are first shown (after a
  * restart, or for data seeded without an import), so the lists are never stale by more than
  * one data change.
@@ -332,24 +341,33 @@ export async function ensureEvaluated(ctx: AppContext, federationId: number): Pr
   if (!done) evaluatedOnce.set(ctx, (done = new Set()));
   if (done.has(federationId)) return;
   done.add(federationId);
-  await evaluateFlags(ctx, federationId);
+  try {
+    await evaluateFlagsInPool(ctx, federationId);
+  } catch (error) {
+    // Not evaluated after all (the pool was busy, say): the next view tries again.
+    done.delete(federationId);
+    throw error;
+  }
 }
 
 const registered = new WeakSet<AppContext>();
 
+/** The durable background job that re-evaluates a federation's flags after its data changed. */
+export const FLAG_EVALUATION_JOB = 'flags.evaluate';
+
 /**
- * Re-evaluates a federation's flags after each data change (imports), in the background. Call
+ * Re-evaluates a federation's flags after each data change (imports), in the background: the
+ * job is tracked by `ctx.jobs` (tests await `ctx.jobs.idle()`) and recorded in background_jobs
+ * until it has run, so an evaluation cut short by a restart runs again at the next start. Call
  * once per app; errors are logged, never thrown into the import that changed the data.
  */
 export function evaluateFlagsOnDataChange(ctx: AppContext): void {
   if (registered.has(ctx)) return;
   registered.add(ctx);
-  onDataChange((federationId) => {
-    setImmediate(() => {
-      void (async () => {
-        const exists = await ctx.db.selectFrom('federations').select('id').where('id', '=', federationId).executeTakeFirst();
-        if (exists) await evaluateFlags(ctx, federationId);
-      })().catch((err: unknown) => ctx.logger.error({ err, federationId }, 'calibration flags evaluation failed'));
-    });
+  ctx.jobs.define(FLAG_EVALUATION_JOB, async (federationId) => {
+    const exists = await ctx.db.selectFrom('federations').select('id').where('id', '=', federationId).executeTakeFirst();
+    if (exists) await evaluateFlagsInPool(ctx, federationId, { background: true });
   });
+  onDataChange(ctx, (federationId) => ctx.jobs.enqueue(FLAG_EVALUATION_JOB, federationId));
+  ctx.jobs.resume(FLAG_EVALUATION_JOB);
 }
