@@ -161,12 +161,28 @@ export async function createExport(db: Db, access: FederationAccess, request: Ex
     ]);
   }
 
+  // The files are built outside any transaction (a large export takes seconds, and a write
+  // transaction would hold SQLite's one write lock all along): the export's id is reserved
+  // first, and the row is written with its files in one short transaction at the end.
+  const exportId = await reserveExportId(db);
+  const createdAt = now.toISOString();
+  const expiresAt = new Date(now.getTime() + EXPORT_KEEP_DAYS * DAY_MS).toISOString();
+  const built = buildExport({
+    federation: { name: access.federation.name, scale: { min: access.federation.scaleMin, max: access.federation.scaleMax } },
+    exportId,
+    exportedAt: createdAt,
+    request,
+    k: settings.minAthletes,
+    key: settings.key,
+    salt: study?.salt ?? randomSecret(),
+    study: study ? { name: study.name } : null,
+    ratings,
+  });
   return db.transaction().execute(async (trx) => {
-    const createdAt = now.toISOString();
-    const expiresAt = new Date(now.getTime() + EXPORT_KEEP_DAYS * DAY_MS).toISOString();
-    const inserted = await trx
+    await trx
       .insertInto('research_exports')
       .values({
+        id: exportId,
         federation_id: federationId,
         user_id: access.userId,
         study_id: study?.id ?? null,
@@ -174,39 +190,44 @@ export async function createExport(db: Db, access: FederationAccess, request: Ex
         min_athletes: settings.minAthletes,
         created_at: createdAt,
         expires_at: expiresAt,
+        counts: JSON.stringify(built.counts),
+        csv: built.csv,
+        json: built.json,
+        dictionary: built.dictionary,
       })
-      .returning('id')
-      .executeTakeFirstOrThrow();
-    const built = buildExport({
-      federation: { name: access.federation.name, scale: { min: access.federation.scaleMin, max: access.federation.scaleMax } },
-      exportId: inserted.id,
-      exportedAt: createdAt,
-      request,
-      k: settings.minAthletes,
-      key: settings.key,
-      salt: study?.salt ?? randomSecret(),
-      study: study ? { name: study.name } : null,
-      ratings,
-    });
-    await trx
-      .updateTable('research_exports')
-      .set({ counts: JSON.stringify(built.counts), csv: built.csv, json: built.json, dictionary: built.dictionary })
-      .where('id', '=', inserted.id)
       .execute();
     await audit(trx, {
       federationId,
       userId: access.userId,
       action: 'export.create',
       entity: 'research_export',
-      entityId: inserted.id,
+      entityId: exportId,
       detail: { scope: request.scope, fields: request.fields, dateMode: request.dateMode, studyId: study?.id ?? null, k: settings.minAthletes, rows: built.counts.rows, suppressed: built.counts.suppressed },
     });
     return exportView(
-      { id: inserted.id, created_at: createdAt, expires_at: expiresAt, request: JSON.stringify(request), min_athletes: settings.minAthletes, counts: JSON.stringify(built.counts), csv: built.csv, study_id: study?.id ?? null, study_name: study?.name ?? null },
+      { id: exportId, created_at: createdAt, expires_at: expiresAt, request: JSON.stringify(request), min_athletes: settings.minAthletes, counts: JSON.stringify(built.counts), csv: built.csv, study_id: study?.id ?? null, study_name: study?.name ?? null },
       access.federation.slug,
       now,
     );
   });
+}
+
+/**
+ * Takes the next id of research_exports without writing a row (SQLite's AUTOINCREMENT counter in
+ * sqlite_sequence moves; an id reserved and not used is simply skipped).
+ */
+async function reserveExportId(db: Db): Promise<number> {
+  // Single statements, each atomic, so that two connections never take the same id.
+  for (let attempt = 0; attempt < 5; attempt++) {
+    const moved = await sql<{ seq: number }>`update sqlite_sequence set seq = seq + 1 where name = 'research_exports' returning seq`.execute(db);
+    if (moved.rows[0]) return moved.rows[0].seq;
+    const first = await sql<{ seq: number }>`insert into sqlite_sequence (name, seq)
+      select 'research_exports', coalesce(max(id), 0) + 1 from research_exports
+       where not exists (select 1 from sqlite_sequence where name = 'research_exports')
+      returning seq`.execute(db);
+    if (first.rows[0]) return first.rows[0].seq;
+  }
+  throw new Error('Could not reserve an id for the research export');
 }
 
 /** Clears the files of expired exports of a federation (the rows stay as the record). */
