@@ -9,7 +9,8 @@
  *   while it runs, and its result is kept (a small LRU on the main thread) until the federation's
  *   data version moves.
  * - Fairness: at most `perFederation` tasks of one federation run at once, so one federation
- *   cannot take every worker; waiting tasks start in order of arrival among those allowed.
+ *   cannot take every worker; waiting requests start in order of arrival among those allowed,
+ *   before any waiting background work.
  * - Never a hang: the wait is bounded (queue length and time). A request that cannot get a
  *   worker in time gets a 503 with Retry-After (`{error: {code: 'busy', message}}`). Background
  *   work (flag evaluation) waits as long as it takes and is never refused.
@@ -177,7 +178,9 @@ export class Admission {
 
   private pump(): void {
     while (this.running < this.options.threads) {
-      const i = this.waiting.findIndex((w) => this.canStart(w.federationId));
+      // Requests first (someone is waiting for the answer), then background work.
+      let i = this.waiting.findIndex((w) => !w.background && this.canStart(w.federationId));
+      if (i < 0) i = this.waiting.findIndex((w) => this.canStart(w.federationId));
       if (i < 0) return;
       const [next] = this.waiting.splice(i, 1);
       this.running++;

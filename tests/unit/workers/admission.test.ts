@@ -106,3 +106,17 @@ describe('data versions belong to one app', () => {
     expect(heard).toHaveLength(2);
   });
 });
+
+describe('Admission order', () => {
+  it('starts a waiting request before waiting background work', async () => {
+    const a = new Admission({ ...options, threads: 1, perFederation: 1 });
+    const order: string[] = [];
+    const first = await a.acquire(1);
+    const background = a.acquire(1, true).then((r) => (order.push('background'), r));
+    const request = a.acquire(1).then((r) => (order.push('request'), r));
+    first();
+    (await request)();
+    (await background)();
+    expect(order).toEqual(['request', 'background']);
+  });
+});
