@@ -156,15 +156,25 @@ try {
     categories: string[];
   };
   timeline.exportStart = now();
-  const exported = await fetch(`${api}/federations/${FEDERATION}/exports`, {
-    method: 'POST',
-    headers: { cookie, 'content-type': 'application/json', origin },
-    body: JSON.stringify({
-      scope: { seasons: options.seasons, eventLevels: options.eventLevels, categories: options.categories, kinds: ['first', 'review', 'protest'] },
-      fields: ['athlete', 'panel_class', 'kind', 'season', 'event', 'event_level', 'category', 'date'],
-      dateMode: 'month',
-    }),
-  });
+  // A busy pool answers 503 with Retry-After: do as a client should, a bounded number of times.
+  let exported: Response | null = null;
+  let exportRefusals = 0;
+  for (let attempt = 0; attempt < 10; attempt++) {
+    exported = await fetch(`${api}/federations/${FEDERATION}/exports`, {
+      method: 'POST',
+      headers: { cookie, 'content-type': 'application/json', origin },
+      body: JSON.stringify({
+        scope: { seasons: options.seasons, eventLevels: options.eventLevels, categories: options.categories, kinds: ['first', 'review', 'protest'] },
+        fields: ['athlete', 'panel_class', 'kind', 'season', 'event', 'event_level', 'category', 'date'],
+        dateMode: 'month',
+      }),
+    });
+    if (exported.status !== 503) break;
+    exportRefusals++;
+    await exported.arrayBuffer();
+    await new Promise((r) => setTimeout(r, 1000 * Number(exported!.headers.get('retry-after') ?? 5)));
+  }
+  if (!exported) throw new Error('no export answer');
   const exportBody = (await exported.json()) as { counts?: { rows: number } };
   timeline.exportEnd = now();
   if (exported.status !== 201) throw new Error(`export failed: ${exported.status} ${JSON.stringify(exportBody).slice(0, 300)}`);
@@ -217,7 +227,7 @@ try {
   console.log(`load benchmark: server process with its worker pool on loopback, ${os.availableParallelism()} cores, Node ${process.version}`);
   console.log(`machine load average (1 min) ${loadBefore.toFixed(1)} before, ${loadAfter.toFixed(1)} after: on a shared machine the latencies include waiting for a core`);
   console.log(
-    `dry run ${((timeline.dryRunEnd - timeline.importStart) / 1000).toFixed(1)} s, commit ${((timeline.commitEnd - timeline.dryRunEnd) / 1000).toFixed(1)} s, export ${((timeline.exportEnd - timeline.exportStart) / 1000).toFixed(1)} s (${exportBody.counts?.rows ?? '?'} rows)`,
+    `dry run ${((timeline.dryRunEnd - timeline.importStart) / 1000).toFixed(1)} s, commit ${((timeline.commitEnd - timeline.dryRunEnd) / 1000).toFixed(1)} s, export ${((timeline.exportEnd - timeline.exportStart) / 1000).toFixed(1)} s (${exportBody.counts?.rows ?? '?'} rows; ${exportRefusals} answer(s) 503 before it started)`,
   );
   console.log(
     `${'window'.padEnd(w)}  ${'s'.padStart(5)} | ${'overview n'.padStart(10)} ${'p50'.padStart(6)} ${'p99'.padStart(6)} ${'max'.padStart(6)} ${'err'.padStart(4)} | ${'health n'.padStart(8)} ${'p50'.padStart(5)} ${'p99'.padStart(5)} ${'max'.padStart(5)} ${'err'.padStart(4)} | health max ≤ ${HEALTH_TARGET_MS} ms`,
@@ -245,6 +255,7 @@ try {
       export: timeline.exportEnd - timeline.exportStart,
     },
     exportRows: exportBody.counts?.rows ?? null,
+    exportRefusals,
     coldStatuses: samples.cold.map((s) => s.status),
     windows,
   };
