@@ -92,7 +92,7 @@ function summary(list: Sample[], errs: number[], from: number, to: number) {
 }
 
 function cannon(url: string, connections: number, cookie: string, kind: 'overview' | 'health') {
-  const instance = autocannon({ url, connections, duration: 300, timeout: 10, headers: { cookie } });
+  const instance = autocannon({ url, connections, duration: 900, timeout: 10, headers: { cookie } });
   instance.on('response', (_client, statusCode, _bytes, responseTime) => samples[kind].push({ at: now() - responseTime, ms: responseTime, status: statusCode }));
   instance.on('reqError', () => errors[kind].push(now()));
   const done = new Promise<void>((resolve) => instance.on('done', () => resolve()));
@@ -179,7 +179,7 @@ try {
   timeline.exportEnd = now();
   if (exported.status !== 201) throw new Error(`export failed: ${exported.status} ${JSON.stringify(exportBody).slice(0, 300)}`);
 
-  // 2. Until 30 s of load and 20 s after the commit have both passed (bounded by the 300 s of the cannons).
+  // 2. Until 30 s of load and 20 s after the commit have both passed (bounded by the 900 s of the cannons).
   const until = Math.max(t0 + LOAD_SECONDS * 1000, timeline.commitEnd + AFTER_COMMIT_SECONDS * 1000);
   while (now() < until) await new Promise((r) => setTimeout(r, 200));
   load.stop();
