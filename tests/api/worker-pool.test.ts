@@ -89,6 +89,17 @@ describe('the worker pool on a database file', () => {
     expect(after.shared - before.shared).toBeGreaterThanOrEqual(5);
   });
 
+  it('brings an HttpError thrown in a worker back as the same answer', async () => {
+    const missing = await get(`${base}/classifiers/NOPE-99`);
+    expect(missing.status).toBe(404);
+    expect(((await missing.json()) as { error: { code: string; message: string } }).error).toEqual({
+      code: 'not_found',
+      message: 'The classifier NOPE-99 was not found',
+    });
+    const same = await get(`${base}/pairs/C01/C01`);
+    expect(same.status).toBe(400);
+  });
+
   it('commits an import in a worker; the data version moves here and the flag evaluation is awaitable', async () => {
     const lead = await signedInAgent(t.app, LEAD);
     const fedId = federationId(t.ctx);
