@@ -4,7 +4,7 @@ import path from 'node:path';
 import { clientDist, createApp } from './app';
 import { loadPasswordEstimator } from './auth/password-strength';
 import { ConfigError, loadConfig } from './config';
-import type { AppContext } from './context';
+import { closeContext, createContext } from './context';
 import { openDatabase } from './db/connection';
 import { migrateToLatest } from './db/migrate';
 import { isEmpty, seedDemo } from './demo/seed';
@@ -62,7 +62,7 @@ async function main() {
   // The password estimator's dictionaries take a moment to load: before listening, not in a request.
   await loadPasswordEstimator();
   const mailer = await startMailer({ config, db, logger });
-  const ctx: AppContext = { db, sqlite, config, logger, mailer };
+  const ctx = createContext({ db, sqlite, config, logger, mailer });
   // Removes the files of expired research exports now and every hour.
   const exportCleanup = scheduleExportCleanup(ctx);
   const app = createApp(ctx);
@@ -84,10 +84,11 @@ async function main() {
     stagedExpiry.stop();
     server.close(() => {
       void Promise.all([exportCleanup.stop(), exerciseScheduler.stop(), stagedExpiry.idle()])
+        .then(() => closeContext(ctx))
         .then(() => mailer.close())
         .finally(() => db.destroy().then(() => process.exit(0)));
     });
-    setTimeout(() => process.exit(0), 3000).unref();
+    setTimeout(() => process.exit(0), 10_000).unref();
   };
   process.on('SIGINT', stop);
   process.on('SIGTERM', stop);

@@ -346,6 +346,15 @@ export interface ExerciseFlagLinkTable {
   linked_at: ColumnType<string, string | undefined, string>;
 }
 
+/** A durable background job owed to a subject (server/workers/jobs.ts). */
+export interface BackgroundJobTable {
+  kind: string;
+  subject: number;
+  requested_at: Generated<string>;
+  attempts: Generated<number>;
+  last_error: string | null;
+}
+
 export interface Database {
   federations: FederationTable;
   users: UserTable;
@@ -375,6 +384,7 @@ export interface Database {
   exercise_assignments: ExerciseAssignmentTable;
   exercise_answers: ExerciseAnswerTable;
   exercise_flag_links: ExerciseFlagLinkTable;
+  background_jobs: BackgroundJobTable;
 }
 
 export type Federation = Selectable<FederationTable>;

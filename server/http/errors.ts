@@ -21,14 +21,21 @@ export class HttpError extends Error {
   readonly status: number;
   readonly code: ErrorCode;
   readonly details: unknown;
+  /** Response headers to send with the error (e.g. Retry-After on a 503). */
+  readonly headers: Record<string, string> | undefined;
 
-  constructor(status: number, code: ErrorCode, message: string, details?: unknown) {
+  constructor(status: number, code: ErrorCode, message: string, details?: unknown, headers?: Record<string, string>) {
     super(message);
     this.status = status;
     this.code = code;
     this.details = details;
+    this.headers = headers;
   }
 }
+
+/** 503 with Retry-After: the server is too busy to answer this now; the client may try again. */
+export const busy = (message: string, retryAfterSeconds: number) =>
+  new HttpError(503, 'busy', message, undefined, { 'retry-after': String(Math.max(1, Math.ceil(retryAfterSeconds))) });
 
 export const notFound = (what: string) => new HttpError(404, 'not_found', `${what} was not found`);
 export const forbidden = (message = 'You do not have access to this') => new HttpError(403, 'forbidden', message);
@@ -97,7 +104,8 @@ export function errorHandler(options: { exposeStacks: boolean; logger?: LoggerLi
       error: { code: error.code, message: error.message },
     };
     if (error.details !== undefined) body.error.details = error.details;
-    if (options.exposeStacks && error.status >= 500 && err instanceof Error) body.error.stack = err.stack;
+    if (options.exposeStacks && error.status >= 500 && error.status !== 503 && err instanceof Error) body.error.stack = err.stack;
+    if (error.headers) res.set(error.headers);
     res.status(error.status).json(body);
   };
 }

@@ -246,7 +246,7 @@ export async function commitImport(
   const view = importView(ctx, federation.id, importId);
   // Last, with nothing awaited after it: listeners may start background work (flag evaluation)
   // that should not hold up the answer to the lead.
-  bumpDataVersion(federation.id);
+  bumpDataVersion(ctx, federation.id);
   return view;
 }
 
@@ -293,7 +293,7 @@ export async function revertImport(ctx: AppContext, federation: Federation, user
   }
   reporter.report('reverting', 1, 1);
   const view = importView(ctx, federation.id, importId);
-  bumpDataVersion(federation.id);
+  bumpDataVersion(ctx, federation.id);
   return view;
 }
 
@@ -409,7 +409,7 @@ export function importBatch(
       return { importId, counts: written.plan.counts };
     })
     .immediate();
-  bumpDataVersion(federation.id);
+  bumpDataVersion(ctx, federation.id);
   return { status: 201, body: { importId: result.importId, outcome: 'committed', counts: result.counts, warnings } };
 }
 

@@ -6,7 +6,7 @@ import { z } from 'zod';
 import { createStudySchema, exportFileSchema, exportRequestSchema, exportSettingsSchema } from '../../shared/schemas/exports';
 import { accessOf, requireAccess } from '../auth/access';
 import type { AppContext } from '../context';
-import { closeStudy, createExport, createStudy, exportFile, exportOptions, listMyExports, settingsView, updateSettings } from '../exports/service';
+import { closeStudy, createStudy, exportFile, exportOptions, listMyExports, settingsView, updateSettings } from '../exports/service';
 import { parseWith } from '../http/validate';
 
 const idParam = z.coerce.number().int().positive();
@@ -30,7 +30,9 @@ export function exportsRouter(ctx: AppContext): Router {
 
   router.post('/federations/:federation/exports', exporters, async (req, res) => {
     const body = parseWith(exportRequestSchema, req.body, 'export request');
-    res.status(201).json(await createExport(ctx, accessOf(req), body));
+    const access = accessOf(req);
+    // Reading the scope and building the files is heavy: it runs in the worker pool.
+    res.status(201).json(await ctx.pool.run('exports.create', { access, request: body }, { federationId: access.federation.id }));
   });
 
   router.get('/federations/:federation/exports/settings', leads, async (req, res) => {

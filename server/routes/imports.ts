@@ -17,7 +17,7 @@ import { HttpError, notFound } from '../http/errors';
 import { parseWith } from '../http/validate';
 import { toBatchIssue } from '../imports/api-batch';
 import { progressReporter, streamProgress, JOB_ID } from '../imports/progress';
-import { BatchRefused, commitImport, discardImport, dryRunCsv, importBatch, importView, listImports, MAX_UPLOAD_BYTES, revertImport, takeUpload } from '../imports/service';
+import { BatchRefused, discardImport, importBatch, importView, listImports, MAX_UPLOAD_BYTES, takeUpload } from '../imports/service';
 import { audit } from '../services/audit';
 
 const uploadFolder = path.join(os.tmpdir(), 'panelwise-uploads');
@@ -124,7 +124,9 @@ export function importsRouter(ctx: AppContext): Router {
     }
     const progress = progressReporter(federation.id, userId, jobOf(req.query));
     try {
-      const result = await dryRunCsv(ctx, federation, userId, { bytes, name: Buffer.from(file.originalname, 'latin1').toString('utf8').slice(0, 200) || null }, options, progress);
+      const name = Buffer.from(file.originalname, 'latin1').toString('utf8').slice(0, 200) || null;
+      // Reading, checking and comparing the file is heavy: it runs in the worker pool.
+      const result = await ctx.pool.run('imports.dry-run', { federation, userId, file: { bytes, name }, options }, { federationId: federation.id, onProgress: progress.report });
       progress.finish('done');
       res.json(result);
     } catch (error) {
@@ -142,8 +144,13 @@ export function importsRouter(ctx: AppContext): Router {
     const { federation, userId } = accessOf(req);
     const progress = progressReporter(federation.id, userId, jobOf(req.query));
     try {
+      const importId = idOf(req.params.importId, 'The import');
       const body = (req.body ?? {}) as { confirmAthleteChanges?: unknown };
-      const view = await commitImport(ctx, federation, userId, idOf(req.params.importId, 'The import'), progress, { confirmAthleteChanges: body.confirmAthleteChanges === true });
+      const view = await ctx.pool.run(
+        'imports.commit',
+        { federation, userId, importId, confirmAthleteChanges: body.confirmAthleteChanges === true },
+        { federationId: federation.id, onProgress: progress.report },
+      );
       progress.finish('done');
       res.json(view);
     } catch (error) {
@@ -156,7 +163,8 @@ export function importsRouter(ctx: AppContext): Router {
     const { federation, userId } = accessOf(req);
     const progress = progressReporter(federation.id, userId, jobOf(req.query));
     try {
-      const view = await revertImport(ctx, federation, userId, idOf(req.params.importId, 'The import'), progress);
+      const importId = idOf(req.params.importId, 'The import');
+      const view = await ctx.pool.run('imports.revert', { federation, userId, importId }, { federationId: federation.id, onProgress: progress.report });
       progress.finish('done');
       res.json(view);
     } catch (error) {

@@ -59,7 +59,7 @@ function cacheOf(ctx: AppContext): Map<string, CacheEntry> {
  * it when missing. Entries of older versions are dropped as new ones arrive.
  */
 export function cached<T>(ctx: AppContext, federationId: number, key: string, compute: () => T): T {
-  const version = dataVersion(federationId);
+  const version = dataVersion(ctx, federationId);
   const cache = cacheOf(ctx);
   const fullKey = `${federationId}|${key}`;
   const hit = cache.get(fullKey);
@@ -79,7 +79,10 @@ export function cached<T>(ctx: AppContext, federationId: number, key: string, co
   return value;
 }
 
-/** Forgets every cached result of a context (tests that change data without an import). */
+/**
+ * Forgets every cached result of a context in this thread. Results shared by the pool are keyed on
+ * the data version: after changing data without an import, bump `ctx.dataVersions` instead.
+ */
 export function clearAnalyticsCache(ctx: AppContext): void {
   caches.delete(ctx);
 }
@@ -99,7 +102,7 @@ interface JoinedRow {
 /** Reads the federation's ratings, rosters and events into a RatingSet (cached per data version). */
 export function federationData(ctx: AppContext, federation: { id: number; scaleMin: number; scaleMax: number }): FederationData {
   return cached(ctx, federation.id, 'data', () => {
-    const version = dataVersion(federation.id);
+    const version = dataVersion(ctx, federation.id);
     const rows = ctx.sqlite
       .prepare(
         `select a.external_id, ath.code as athlete_code, ath.category, e.code as event_code, a.assessed_on,

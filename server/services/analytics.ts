@@ -227,7 +227,7 @@ export function coefficientsTable(report: AgreementReport): Coefficient[] {
 // ---------------------------------------------------------------------------------------------
 // Classifiers
 
-type ClassifierFigures = Omit<ClassifierRow, 'flags'>;
+export type ClassifierFigures = Omit<ClassifierRow, 'flags'>;
 
 interface SeverityFigures {
   byCode: Map<string, SeverityStat>;
@@ -258,7 +258,8 @@ export function severityNetwork(ctx: AppContext, federation: FederationRef, filt
 
 const NO_SEVERITY: SeverityStat = { value: null, se: null, ci95: null, n: 0, links: 0, reason: 'no rating in these filters' };
 
-function classifierFigures(ctx: AppContext, federation: FederationRef, filters: AnalyticsFilters): ClassifierFigures[] {
+/** Every classifier's figures against the rest of the panel (no flags: they change without a data change). */
+export function classifierFigures(ctx: AppContext, federation: FederationRef, filters: AnalyticsFilters): ClassifierFigures[] {
   const { data, set } = load(ctx, federation, filters);
   return cached(ctx, federation.id, `classifiers|${filterKey(filters)}`, () => {
     const medians = othersMedian(set);
@@ -280,9 +281,9 @@ function classifierFigures(ctx: AppContext, federation: FederationRef, filters: 
   });
 }
 
-export async function classifierRows(ctx: AppContext, federation: FederationRef, filters: AnalyticsFilters): Promise<ClassifierRow[]> {
-  const figures = classifierFigures(ctx, federation, filters);
-  const flags = await flagsOf(ctx, federation.id, { activeOnly: true });
+/** The classifiers' rows: their figures with their active flags (read now). */
+export async function classifierRows(ctx: AppContext, federationId: number, figures: readonly ClassifierFigures[]): Promise<ClassifierRow[]> {
+  const flags = await flagsOf(ctx, federationId, { activeOnly: true });
   return figures.map((f) => ({
     ...f,
     flags: flags.filter((g) => g.classifierCode === f.code).map((g) => ({ id: g.id, rule: g.rule, status: g.status })),
@@ -338,13 +339,16 @@ export function driftSeries(set: RatingSet, code: string): ClassifierDetail['dri
   };
 }
 
-export async function classifierDetail(
+export type ClassifierDetailFigures = Omit<ClassifierDetail, 'flags' | 'row'> & { row: ClassifierFigures };
+
+/** One classifier's figures (404 for a code not in the roster); flags are added by classifierDetail. */
+export function classifierDetailFigures(
   ctx: AppContext,
   federation: FederationRef,
   filters: AnalyticsFilters,
   code: string,
   _thresholds: FlagThresholds,
-): Promise<ClassifierDetail> {
+): ClassifierDetailFigures {
   const { data, set } = load(ctx, federation, filters);
   const roster = requireClassifier(data, code);
   const figures = cached(ctx, federation.id, `classifier|${code}|${filterKey(filters)}`, () => {
@@ -368,21 +372,18 @@ export async function classifierDetail(
       drift: driftSeries(set, code),
     };
   });
-  const flags = (await flagsOf(ctx, federation.id, { activeOnly: false })).filter((f) => f.classifierCode === code);
+  return { code, name: roster.name, ...figures };
+}
+
+/** One classifier's figures with their flags (read now). */
+export async function classifierDetail(ctx: AppContext, federationId: number, figures: ClassifierDetailFigures): Promise<ClassifierDetail> {
+  const flags = (await flagsOf(ctx, federationId, { activeOnly: false })).filter((f) => f.classifierCode === figures.code);
   const activeFlags = flags.filter((f) => f.status !== 'closed').map((f) => ({ id: f.id, rule: f.rule, status: f.status }));
-  return { code, name: roster.name, ...figures, row: { ...figures.row, flags: activeFlags }, flags };
+  return { ...figures, row: { ...figures.row, flags: activeFlags }, flags };
 }
 
 /** The classifier's own figures, and the federation's spread without names or codes. */
-export async function myAgreement(
-  ctx: AppContext,
-  federation: FederationRef,
-  filters: AnalyticsFilters,
-  code: string,
-  thresholds: FlagThresholds,
-): Promise<MyAgreement> {
-  const detail = await classifierDetail(ctx, federation, filters, code, thresholds);
-  const all = classifierFigures(ctx, federation, filters);
+export function myAgreement(detail: ClassifierDetail, all: readonly ClassifierFigures[]): MyAgreement {
   const sorted = (pick: (c: ClassifierFigures) => number | null) =>
     all
       .map(pick)

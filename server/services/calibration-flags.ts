@@ -336,7 +336,7 @@ export interface EvaluateOptions {
  * flags and flags that stopped holding, when the thresholds say so.
  */
 export async function evaluateFlags(ctx: AppContext, federationId: number, options: EvaluateOptions = {}): Promise<EvaluateResponse> {
-  const version = dataVersion(federationId);
+  const version = dataVersion(ctx, federationId);
   const federation = await ctx.db
     .selectFrom('federations')
     .select(['id', 'slug', 'name', 'scale_min as scaleMin', 'scale_max as scaleMax'])
@@ -489,6 +489,14 @@ function markEvaluated(ctx: AppContext, federationId: number, version: number): 
 }
 
 /**
+ * Runs evaluateFlags off the request path, in the app's worker pool (server/workers/pool.ts):
+ * the engine's figures on every rating are computed there; new flags' e-mail goes out from here.
+ */
+export function evaluateFlagsInPool(ctx: AppContext, federationId: number, options: { background?: boolean; cause?: string } = {}): Promise<EvaluateResponse> {
+  return ctx.pool.run('flags.evaluate', { federationId, cause: options.cause }, { federationId, background: options.background });
+}
+
+/**
  * Evaluates a federation's flags before they are shown whenever they were not yet evaluated at
  * the federation's current data version (after a restart, for data seeded without an import,
  * or when a read arrives before the background evaluation of a data change has finished), so
@@ -502,24 +510,30 @@ export async function ensureEvaluated(ctx: AppContext, federationId: number): Pr
       await entry.running.catch(() => undefined);
       continue;
     }
-    if (entry && entry.version === dataVersion(federationId)) return;
+    if (entry && entry.version === dataVersion(ctx, federationId)) return;
     await runEvaluation(ctx, federationId, 'a data change');
   }
 }
 
-/** One evaluation at a time per federation; callers share the one in flight. */
-async function runEvaluation(ctx: AppContext, federationId: number, cause: string): Promise<void> {
+/**
+ * One evaluation at a time per federation, in the pool; callers share the one in flight. The
+ * main thread records the data version it was asked at (the worker evaluates at least that one).
+ */
+export async function runEvaluation(ctx: AppContext, federationId: number, cause: string, options: { background?: boolean } = {}): Promise<EvaluateResponse | undefined> {
   const state = stateOf(ctx);
   let entry = state.get(federationId);
   if (!entry) state.set(federationId, (entry = { version: -1 }));
   if (entry.running) {
     await entry.running;
-    return;
+    return undefined;
   }
-  const running = evaluateFlags(ctx, federationId, { cause });
+  const version = dataVersion(ctx, federationId);
+  const running = evaluateFlagsInPool(ctx, federationId, { cause, background: options.background });
   entry.running = running;
   try {
-    await running;
+    const result = await running;
+    markEvaluated(ctx, federationId, version);
+    return result;
   } finally {
     entry.running = undefined;
   }
@@ -527,20 +541,23 @@ async function runEvaluation(ctx: AppContext, federationId: number, cause: strin
 
 const registered = new WeakSet<AppContext>();
 
+/** The durable background job that re-evaluates a federation's flags after its data changed. */
+export const FLAG_EVALUATION_JOB = 'flags.evaluate';
+
 /**
  * Re-evaluates a federation's flags after each data change (imports committed or reverted), in
- * the background; reads wait for it through `ensureEvaluated`. Call once per app; errors are
- * logged, never thrown into the import that changed the data.
+ * the background: the job is tracked by `ctx.jobs` (tests await `ctx.jobs.idle()`) and recorded
+ * in background_jobs until it has run, so an evaluation cut short by a restart runs again at the
+ * next start; reads wait for it through `ensureEvaluated`. Call once per app; errors are logged,
+ * never thrown into the import that changed the data.
  */
 export function evaluateFlagsOnDataChange(ctx: AppContext): void {
   if (registered.has(ctx)) return;
   registered.add(ctx);
-  onDataChange((federationId) => {
-    setImmediate(() => {
-      void (async () => {
-        const exists = await ctx.db.selectFrom('federations').select('id').where('id', '=', federationId).executeTakeFirst();
-        if (exists) await runEvaluation(ctx, federationId, 'a data change (an import committed or reverted)');
-      })().catch((err: unknown) => ctx.logger.error({ err, federationId }, 'calibration flags evaluation failed'));
-    });
+  ctx.jobs.define(FLAG_EVALUATION_JOB, async (federationId) => {
+    const exists = await ctx.db.selectFrom('federations').select('id').where('id', '=', federationId).executeTakeFirst();
+    if (exists) await runEvaluation(ctx, federationId, 'a data change (an import committed or reverted)', { background: true });
   });
+  onDataChange(ctx, (federationId) => ctx.jobs.enqueue(FLAG_EVALUATION_JOB, federationId));
+  ctx.jobs.resume(FLAG_EVALUATION_JOB);
 }

@@ -2,23 +2,50 @@
  * A per-federation counter that moves whenever the federation's panel decisions change (an
  * import committed or reverted, a batch posted through the API). Caches of computed results
  * key on it, so a change invalidates them without anyone having to know which caches exist.
- * In-process: a restart starts every cache empty anyway.
+ *
+ * The counters and their listeners belong to one app (`ctx.dataVersions`): two apps in one
+ * process (tests) never share them, and a restart starts every cache empty anyway. Worker
+ * threads (server/workers) follow the main thread's counters: each task carries the version
+ * it was asked at, and a change made inside a worker is reported back and bumped here.
  */
-const versions = new Map<number, number>();
-const listeners = new Set<(federationId: number) => void>();
+import type { AppContext } from '../context';
 
-export function dataVersion(federationId: number): number {
-  return versions.get(federationId) ?? 0;
+export class DataVersions {
+  private readonly versions = new Map<number, number>();
+  private readonly listeners = new Set<(federationId: number) => void>();
+
+  of(federationId: number): number {
+    return this.versions.get(federationId) ?? 0;
+  }
+
+  /** Moves the counter and tells every listener (call after the change has committed). */
+  bump(federationId: number): void {
+    this.versions.set(federationId, this.of(federationId) + 1);
+    for (const listener of this.listeners) listener(federationId);
+  }
+
+  /** Sets the counter without telling anyone (a worker following the main thread). */
+  follow(federationId: number, version: number): void {
+    this.versions.set(federationId, version);
+  }
+
+  /** Runs `listener` after every bump; returns a function that stops it. */
+  onChange(listener: (federationId: number) => void): () => void {
+    this.listeners.add(listener);
+    return () => this.listeners.delete(listener);
+  }
+}
+
+export function dataVersion(ctx: Pick<AppContext, 'dataVersions'>, federationId: number): number {
+  return ctx.dataVersions.of(federationId);
 }
 
 /** Call after a transaction that changed a federation's assessments or ratings has committed. */
-export function bumpDataVersion(federationId: number): void {
-  versions.set(federationId, dataVersion(federationId) + 1);
-  for (const listener of listeners) listener(federationId);
+export function bumpDataVersion(ctx: Pick<AppContext, 'dataVersions'>, federationId: number): void {
+  ctx.dataVersions.bump(federationId);
 }
 
-/** Runs `listener` after every bump; returns a function that stops it. */
-export function onDataChange(listener: (federationId: number) => void): () => void {
-  listeners.add(listener);
-  return () => listeners.delete(listener);
+/** Runs `listener` after every bump of this app's counters; returns a function that stops it. */
+export function onDataChange(ctx: Pick<AppContext, 'dataVersions'>, listener: (federationId: number) => void): () => void {
+  return ctx.dataVersions.onChange(listener);
 }

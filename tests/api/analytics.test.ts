@@ -34,7 +34,6 @@ import {
   type RatingSet,
 } from '../../server/analysis';
 import { generateScenario, DEMO_SCENARIO } from '../../server/demo/generator';
-import { bumpDataVersion } from '../../server/services/data-version';
 import { DEFAULT_FLAG_THRESHOLDS } from '../../shared/schemas/analytics';
 import { DEFAULT_SCALE } from '../../shared/scale';
 import { createTestApp, signedInAgent, type TestApp } from '../helpers/test-app';
@@ -337,13 +336,13 @@ describe('agreement dashboards API', () => {
     );
     for (const c of cs) t.ctx.sqlite.prepare('insert into ratings (assessment_id, classifier_id, sport_class) values (?, ?, 5)').run(id, c.id);
     expect((await lead.get(`${base}/overview`)).body.counts.assessments).toBe(before);
-    bumpDataVersion(fed.id);
+    t.ctx.dataVersions.bump(fed.id);
     expect((await lead.get(`${base}/overview`)).body.counts.assessments).toBe(before + 1);
     t.ctx.sqlite.prepare('delete from ratings where assessment_id = ?').run(id);
     t.ctx.sqlite.prepare('delete from assessments where id = ?').run(id);
-    bumpDataVersion(fed.id);
-    // Let the background re-evaluation of the flags settle before the next test.
-    await new Promise((r) => setTimeout(r, 300));
+    t.ctx.dataVersions.bump(fed.id);
+    // Let the background re-evaluation of the flags finish before the next test.
+    await t.ctx.jobs.idle();
   });
 
   it('calibration flags: evaluated against the engine, kept with the lead’s status, e-mailed when new, not reopened on the same ratings', async () => {

@@ -195,7 +195,7 @@ describe('privacy that survives differencing', () => {
     const ids = moved.map((m) => m.id).join(',');
     t.ctx.sqlite.prepare(`update athletes set category = 'masters' where id in (${ids})`).run();
     const fed = t.ctx.sqlite.prepare("select id from federations where slug = 'kestrel-coast'").get() as { id: number };
-    bumpDataVersion(fed.id);
+    bumpDataVersion(t.ctx, fed.id);
     try {
       const scope = { seasons: ['2023-24'], eventLevels: ['national', 'championship'], categories: ['men', 'women'], kinds: ['review'] as Kind[] };
       const body = (categories: string[]): ExportRequest => ({ scope: { ...scope, categories }, fields: ['athlete', 'category'], dateMode: 'month' });
@@ -207,7 +207,7 @@ describe('privacy that survives differencing', () => {
       expect((await researcher.get(`${analytics}/overview?category=masters`)).body.counts.assessments).toBe(0);
     } finally {
       t.ctx.sqlite.prepare(`update athletes set category = 'junior' where id in (${ids})`).run();
-      bumpDataVersion(fed.id);
+      bumpDataVersion(t.ctx, fed.id);
     }
   });
 
@@ -228,14 +228,14 @@ describe('privacy that survives differencing', () => {
         .run(fed.id, athlete.id, event.id).lastInsertRowid,
     );
     for (const c of cs) t.ctx.sqlite.prepare('insert into ratings (assessment_id, classifier_id, sport_class) values (?, ?, 5)').run(id, c.id);
-    bumpDataVersion(fed.id);
+    bumpDataVersion(t.ctx, fed.id);
     try {
       const again = await researcher.post(exportsBase).send(full).expect(422);
       expect(again.body.error.message).toMatch(/by 1 athlete only, fewer than k = 5/);
     } finally {
       t.ctx.sqlite.prepare('delete from ratings where assessment_id = ?').run(id);
       t.ctx.sqlite.prepare('delete from assessments where id = ?').run(id);
-      bumpDataVersion(fed.id);
+      bumpDataVersion(t.ctx, fed.id);
     }
     // Back as it was: the same export is allowed again.
     await researcher.post(exportsBase).send(full).expect(201);

@@ -9,7 +9,6 @@ import type { AddressInfo } from 'node:net';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApiToken } from '../../server/services/api-tokens';
-import { dataVersion } from '../../server/services/data-version';
 import { createTestApp, signedInAgent, tableCounts, type TestApp } from '../helpers/test-app';
 import { dataCounts, FEDERATION, federationId, fixture, LEAD, settled, upload } from './imports/helpers';
 
@@ -46,11 +45,11 @@ describe('a valid long CSV', () => {
     expect({ ...afterDry, imports: before.imports }).toEqual(before);
     expect(afterDry.imports).toBe(before.imports + 1);
 
-    const version = dataVersion(fedId);
+    const version = t.ctx.dataVersions.of(fedId);
     const commit = await lead.post(`/api/federations/${FEDERATION}/imports/${dry.body.importId}/commit`);
     expect(commit.status).toBe(200);
     expect(commit.body).toMatchObject({ status: 'committed', source: 'csv', fileName: 'long-valid.csv', by: 'Demo Lead', revertable: true });
-    expect(dataVersion(fedId)).toBe(version + 1);
+    expect(t.ctx.dataVersions.of(fedId)).toBe(version + 1);
     const afterCommit = tableCounts(t.ctx);
     expect(afterCommit.assessments).toBe(before.assessments + 6);
     expect(afterCommit.ratings).toBe(before.ratings + 14);
@@ -75,7 +74,7 @@ describe('a valid long CSV', () => {
     const revert = await lead.post(`/api/federations/${FEDERATION}/imports/${dry.body.importId}/revert`);
     expect(revert.status).toBe(200);
     expect(revert.body.status).toBe('reverted');
-    expect(dataVersion(fedId)).toBe(version + 2);
+    expect(t.ctx.dataVersions.of(fedId)).toBe(version + 2);
     const afterRevert = tableCounts(t.ctx);
     for (const table of ['assessments', 'ratings', 'classifiers', 'athletes', 'events', 'import_changes']) expect(afterRevert[table]).toBe(before[table]);
     expect(t.ctx.sqlite.prepare("select action from audit_log where entity = 'import' and entity_id = ? order by id").pluck().all(String(dry.body.importId))).toEqual([

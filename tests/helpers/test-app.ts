@@ -2,12 +2,13 @@ import type { Express } from 'express';
 import request from 'supertest';
 import { createApp } from '../../server/app';
 import { loadConfig } from '../../server/config';
-import type { AppContext } from '../../server/context';
+import { closeContext, createContext, type AppContext } from '../../server/context';
 import { openDatabase } from '../../server/db/connection';
 import { migrateToLatest } from '../../server/db/migrate';
 import { DEMO_PASSWORD, seedDemo } from '../../server/demo/seed';
 import { createLogger } from '../../server/logger';
 import { startMailer } from '../../server/mail/mailer';
+import type { PoolOptions } from '../../server/workers/pool';
 
 export interface TestApp {
   ctx: AppContext;
@@ -17,9 +18,11 @@ export interface TestApp {
 
 /**
  * A freshly migrated throw-away database (in memory unless a file is given) and the app on it,
- * without a port. With `seed: 'demo'` it holds the demo federation and accounts.
+ * without a port. With `seed: 'demo'` it holds the demo federation and accounts. Heavy work runs
+ * in worker threads on a file database, in process on `:memory:` (server/workers/pool.ts); await
+ * `t.ctx.jobs.idle()` before checking what background work (flag evaluation) writes.
  */
-export async function createTestApp(options: { seed?: 'demo' | 'none'; databasePath?: string } = {}): Promise<TestApp> {
+export async function createTestApp(options: { seed?: 'demo' | 'none'; databasePath?: string; pool?: Partial<PoolOptions> } = {}): Promise<TestApp> {
   const databasePath = options.databasePath ?? ':memory:';
   const { db, sqlite } = openDatabase(databasePath);
   await migrateToLatest(db);
@@ -28,12 +31,13 @@ export async function createTestApp(options: { seed?: 'demo' | 'none'; databaseP
   const logger = createLogger('test');
   // E-mail goes to a local fake SMTP server that keeps every message in outbox_messages.
   const mailer = await startMailer({ config, db, logger });
-  const ctx: AppContext = { db, sqlite, config, logger, mailer };
+  const ctx = createContext({ db, sqlite, config, logger, mailer }, { pool: options.pool });
   const app = createApp(ctx, { serveClient: false });
   return {
     ctx,
     app,
     close: async () => {
+      await closeContext(ctx);
       await mailer.close();
       await db.destroy();
     },

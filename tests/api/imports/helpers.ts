@@ -35,17 +35,12 @@ export function federationId(ctx: AppContext, slug = FEDERATION): number {
 export type { Express };
 
 /**
- * Waits until background work caused by an earlier data change (the calibration flags are
- * re-evaluated after each commit or revert, and may write flags, audit entries and e-mail) has
- * written what it writes, so that a "nothing written" check measures only the request under test.
+ * Waits until the background work caused by an earlier data change has finished (the
+ * calibration flags are re-evaluated after each commit or revert, and may write flags, audit
+ * entries and e-mail): `ctx.jobs.idle()` resolves once every tracked job has settled, so a
+ * "nothing written" check measures only the request under test. Then counts.
  */
 export async function settled(ctx: AppContext, count: (ctx: AppContext) => Record<string, number>): Promise<Record<string, number>> {
-  let last = JSON.stringify(count(ctx));
-  for (let quiet = 0, i = 0; quiet < 3 && i < 100; i++) {
-    await new Promise((r) => setTimeout(r, 20));
-    const now = JSON.stringify(count(ctx));
-    quiet = now === last ? quiet + 1 : 0;
-    last = now;
-  }
-  return JSON.parse(last) as Record<string, number>;
+  await ctx.jobs.idle();
+  return count(ctx);
 }
