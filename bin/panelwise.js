@@ -2,7 +2,7 @@
 // Runs the Panelwise command line (server/cli/panelwise.ts). The TypeScript sources are bundled
 // once with esbuild into node_modules/.cache/panelwise-cli/ and the bundle runs in this process;
 // the bundle is built again when one of its source files changes (their sizes and times are kept
-// beside it). Without esbuild (an install without development packages) it runs the sources
+// beside it); the operator's commands always run from the sources. Without esbuild (an install without development packages) it runs the sources
 // through tsx in a child process, passing arguments, standard streams and the exit code through.
 import { spawn } from 'node:child_process';
 import fs from 'node:fs';
@@ -73,8 +73,13 @@ function viaTsx() {
   });
 }
 
-let ready = fresh();
-if (!ready) {
+// The operator's commands (create-owner, backup, restore, disable-demo) open the database and run
+// migrations from their folder: they run from the sources, not from the bundle.
+const OPERATOR_COMMANDS = ['create-owner', 'backup', 'restore', 'disable-demo'];
+const operator = OPERATOR_COMMANDS.includes(process.argv[2] ?? '');
+
+let ready = !operator && fresh();
+if (!ready && !operator) {
   try {
     fs.mkdirSync(cacheDir, { recursive: true });
     ready = await build();
