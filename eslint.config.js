@@ -4,7 +4,7 @@
  * React hooks, and the import boundaries of the architecture (DEVELOPERS.md):
  *
  *   client   src/components, src/lib  →  src/features/<feature>  →  src/app
- *            (a feature never imports another feature, nor the app shell)
+ *            (a feature imports no other feature's components — only its api/ hooks — nor the app shell)
  *   server   routes → services → db / analysis; analysis is pure (no I/O of any kind)
  *   shared/  imports nothing from src/ or server/
  *
@@ -50,8 +50,8 @@ const boundaries = [
     patterns: [
       restrict(['**/app/**'], 'A feature does not import the app shell (src/app); move what it needs to src/lib or src/components.'),
       restrict(
-        features.filter((f) => f !== feature).flatMap((f) => [`**/features/${f}/**`, `../../${f}/**`, `../${f}/**`]),
-        `A feature does not import another feature's internals; move what both need to src/lib or src/components.`,
+        features.filter((f) => f !== feature).flatMap((f) => [`**/features/${f}/components/**`, `../../${f}/components/**`, `**/features/${f}/routes`, `../../${f}/routes`]),
+        `A feature does not import another feature's components; use its api/ hooks, or move what both need to src/lib or src/components.`,
       ),
     ],
   })),

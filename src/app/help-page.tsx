@@ -1,8 +1,8 @@
 import { useEffect } from 'react';
 import { Link, useLocation } from 'react-router';
 import { Caution } from '../components/caution';
-import { useCurrentFederation } from './use-federation';
-import { usePageTitle } from './page-title';
+import { useCurrentFederation } from '../lib/use-federation';
+import { usePageTitle } from '../lib/page-title';
 
 /**
  * How to read the figures and the calibration flags, inside the app (the repository's

@@ -2,12 +2,13 @@ import { useEffect, useId, useState } from 'react';
 import { NavLink, Navigate, Outlet, useLocation, useNavigate, useParams } from 'react-router';
 import { BrandMark } from '../components/brand';
 import { Loading } from '../components/status';
-import { useSession, useSignOut } from '../features/session/api/session';
-import { ForbiddenPage } from './error-pages';
-import { useFilterSearch } from './filter-search';
+import { useSession, useSignOut } from '../lib/session';
+import { ForbiddenPage } from '../components/error-pages';
+import { useFilterSearch } from '../lib/filter-search';
 import { navFor } from './nav';
 import { GuardedOutlet } from './page-access';
-import { usePageTitle, useFallbackTitle } from './page-title';
+import { usePageTitle } from '../lib/page-title';
+import { useFallbackTitle } from './page-title';
 
 const ROLE_NAMES = { lead: 'Classification lead', classifier: 'Classifier', researcher: 'Researcher' } as const;
 

@@ -1,7 +1,7 @@
 import { Outlet, useLocation, useParams } from 'react-router';
 import type { Role } from '../../shared/schemas/common';
 import type { MembershipView } from '../../shared/schemas/session';
-import { ForbiddenPage } from './error-pages';
+import { ForbiddenPage } from '../components/error-pages';
 import { NAV_ITEMS } from './nav';
 
 /** Pages below /f/:federation that are not in the navigation but are kept to some roles. */

@@ -4,7 +4,7 @@ import { exerciseRoutes } from '../features/exercises/routes';
 import { memberRoutes, ownerRoute } from '../features/members/routes';
 import { accessLinkRoutes } from '../features/session/routes';
 import { SignInPage } from '../features/session/components/sign-in-page';
-import { ExpiredLinkPage, ForbiddenPage, NotFoundPage, RouteErrorPage } from './error-pages';
+import { ExpiredLinkPage, ForbiddenPage, NotFoundPage, RouteErrorPage } from '../components/error-pages';
 import { Loading } from '../components/status';
 import { FederationLayout, HomeRedirect, RequireSession } from './layout';
 

@@ -6,7 +6,7 @@ import { Loading } from '../../components/status';
  * The agreement dashboards' pages, lazy-loaded (React.lazy): the charts library stays out of
  * the first chunk. Added to the federation's routes in src/app/router.tsx.
  */
-const OverviewPage = lazy(() => import('../overview/components/overview-page').then((m) => ({ default: m.OverviewPage })));
+const OverviewPage = lazy(() => import('./components/overview-page').then((m) => ({ default: m.OverviewPage })));
 const ClassifiersPage = lazy(() => import('./components/classifiers-page').then((m) => ({ default: m.ClassifiersPage })));
 const ClassifierPage = lazy(() => import('./components/classifier-page').then((m) => ({ default: m.ClassifierPage })));
 const PairsPage = lazy(() => import('./components/pairs-page').then((m) => ({ default: m.PairsPage })));

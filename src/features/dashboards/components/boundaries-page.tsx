@@ -1,8 +1,8 @@
-import { useCurrentFederation } from '../../../app/use-federation';
+import { useCurrentFederation } from '../../../lib/use-federation';
 import { DataTable } from '../../../components/data-table';
 import { useBoundaries } from '../api/get-boundaries';
-import { BoundaryBars, BoundaryTrend } from './charts';
-import { pct } from './format';
+import { BoundaryBars, BoundaryTrend } from '../../../components/charts';
+import { pct } from '../../../lib/stat-format';
 import { PageFrame, QueryState } from './page-frame';
 import { useAnalyticsFilters } from './use-analytics-filters';
 

@@ -1,9 +1,9 @@
 import type { ClassifierDetail, MyAgreement } from '../../../../shared/schemas/analytics';
 import { FLAG_RULE_LABELS, FLAG_STATUS_LABELS } from '../../../../shared/schemas/analytics';
-import { BoundaryBars, ConfusionChart, DistributionChart, LevelChangeChart, TrendChart } from './charts';
+import { BoundaryBars, ConfusionChart, DistributionChart, LevelChangeChart, TrendChart } from '../../../components/charts';
 import { FlagLapse } from './flag-lapse';
 import { formatPoints, formatSigned, plural } from '../../../lib/format';
-import { integer, num, pct, signed, withInterval } from './format';
+import { integer, num, pct, signed, withInterval } from '../../../lib/stat-format';
 
 function StatCard({ label, value, detail, testId }: { label: string; value: string; detail?: string; testId?: string }) {
   return (

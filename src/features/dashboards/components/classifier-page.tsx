@@ -1,5 +1,5 @@
 import { Link, useLocation, useParams } from 'react-router';
-import { useCurrentFederation } from '../../../app/use-federation';
+import { useCurrentFederation } from '../../../lib/use-federation';
 import { useClassifier } from '../api/get-classifier';
 import { ClassifierFigures } from './classifier-figures';
 import { PageFrame, QueryState } from './page-frame';

@@ -1,10 +1,10 @@
 import { Link, useLocation } from 'react-router';
 import { FLAG_RULE_LABELS, FLAG_STATUS_LABELS, type ClassifierRow } from '../../../../shared/schemas/analytics';
-import { useCurrentFederation } from '../../../app/use-federation';
+import { useCurrentFederation } from '../../../lib/use-federation';
 import { DataTable, type DataTableColumn } from '../../../components/data-table';
 import { useClassifiers } from '../api/get-classifiers';
 import { formatNumber } from '../../../lib/format';
-import { num, pct, signed } from './format';
+import { num, pct, signed } from '../../../lib/stat-format';
 import { PageFrame, QueryState } from './page-frame';
 import { PanelNetworkChart } from './panel-network-chart';
 import { Sparkline } from './sparkline';

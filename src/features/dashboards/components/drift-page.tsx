@@ -1,15 +1,15 @@
 import * as Plot from '@observablehq/plot';
 import { Link } from 'react-router';
 import { ASSESSMENT_KIND_LABELS, type AssessmentKind } from '../../../../shared/schemas/common';
-import { useFilterSearch } from '../../../app/filter-search';
-import { useCurrentFederation } from '../../../app/use-federation';
+import { useFilterSearch } from '../../../lib/filter-search';
+import { useCurrentFederation } from '../../../lib/use-federation';
 import { DataTable } from '../../../components/data-table';
 import { CHART_COLORS, INK, PlotFigure } from '../../../components/plot-figure';
 import { useClassDrift } from '../api/get-class-drift';
 import { useRaterDrift } from '../api/get-rater-drift';
-import { MultiLineChart, SeasonDistributionChart } from './charts';
+import { MultiLineChart, SeasonDistributionChart } from '../../../components/charts';
 import { formatDate } from '../../../lib/format';
-import { integer, num, pct, withInterval } from './format';
+import { integer, num, pct, withInterval } from '../../../lib/stat-format';
 import { PageFrame, QueryState } from './page-frame';
 import { useAnalyticsFilters, type AnalyticsFiltersState } from './use-analytics-filters';
 

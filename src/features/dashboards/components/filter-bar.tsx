@@ -1,7 +1,7 @@
 import { useId } from 'react';
 import { ASSESSMENT_KIND_LABELS } from '../../../../shared/schemas/common';
 import { DEFAULT_MIN_SHARED } from '../../../../shared/schemas/analytics';
-import { useFederation } from '../../../app/use-federation';
+import { useFederation } from '../../../lib/use-federation';
 import { useFilterOptions } from '../api/get-filter-options';
 import type { AnalyticsFiltersState } from './use-analytics-filters';
 

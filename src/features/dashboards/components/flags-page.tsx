@@ -1,7 +1,7 @@
 import { useId, useState } from 'react';
 import { Link } from 'react-router';
 import { FLAG_RULE_LABELS, FLAG_STATUS_LABELS, type CalibrationFlag } from '../../../../shared/schemas/analytics';
-import { useCurrentFederation } from '../../../app/use-federation';
+import { useCurrentFederation } from '../../../lib/use-federation';
 import { DataTable } from '../../../components/data-table';
 import { ErrorNotice } from '../../../components/status';
 import { formatCount, formatDate, formatDateTime, formatInteger, formatNumber } from '../../../lib/format';

@@ -1,4 +1,4 @@
-import { useCurrentFederation } from '../../../app/use-federation';
+import { useCurrentFederation } from '../../../lib/use-federation';
 import { useMyAgreement } from '../api/get-my-agreement';
 import { ClassifierFigures } from './classifier-figures';
 import { PageFrame, QueryState } from './page-frame';

@@ -1,4 +1,4 @@
-import { usePageTitle } from '../../../app/page-title';
+import { usePageTitle } from '../../../lib/page-title';
 import { Caution } from '../../../components/caution';
 import { QueryState as SharedQueryState } from '../../../components/query-state';
 import { FilterBar } from './filter-bar';

@@ -1,13 +1,13 @@
 import * as Plot from '@observablehq/plot';
 import { useSearchParams } from 'react-router';
 import type { PairCell } from '../../../../shared/schemas/analytics';
-import { useCurrentFederation } from '../../../app/use-federation';
+import { useCurrentFederation } from '../../../lib/use-federation';
 import { DataTable } from '../../../components/data-table';
 import { CHART_COLORS, INK, PlotFigure } from '../../../components/plot-figure';
 import { usePair } from '../api/get-pair';
 import { usePairs } from '../api/get-pairs';
-import { ConfusionChart } from './charts';
-import { integer, num, pct, withInterval } from './format';
+import { ConfusionChart } from '../../../components/charts';
+import { integer, num, pct, withInterval } from '../../../lib/stat-format';
 import { PageFrame, QueryState } from './page-frame';
 import { useAnalyticsFilters } from './use-analytics-filters';
 import type { AnalyticsFilters } from '../../../../shared/schemas/analytics';

@@ -4,7 +4,7 @@ import type {
   PanelNetworkData,
 } from "../../../../shared/schemas/analytics";
 import { CHART_COLORS, INK, PlotFigure } from "../../../components/plot-figure";
-import { integer } from "./format";
+import { integer } from "../../../lib/stat-format";
 
 export interface NetworkCell {
   a: string;

@@ -1,5 +1,5 @@
 import type { QuarterStat } from '../../../../shared/schemas/analytics';
-import { num } from './format';
+import { num } from '../../../lib/stat-format';
 
 /**
  * A small inline trend of quarterly values for table rows (a table decoration: its numbers are in

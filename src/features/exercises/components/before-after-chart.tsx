@@ -1,8 +1,8 @@
 import * as Plot from '@observablehq/plot';
 import type { BeforeAfter } from '../../../../shared/schemas/exercises';
 import { CHART_COLORS, MUTED, PlotFigure } from '../../../components/plot-figure';
-import { Legend } from '../../dashboards/components/charts';
-import { pct } from '../../dashboards/components/format';
+import { Legend } from '../../../components/charts';
+import { pct } from '../../../lib/stat-format';
 
 const PHASES = ['before', 'during', 'after'] as const;
 const PHASE_LABELS = { before: 'Before the exercise', during: 'Quarter of the exercise', after: 'After the exercise' } as const;

@@ -2,7 +2,7 @@ import { useId, useState } from 'react';
 import { Link, useParams } from 'react-router';
 import { SKILL_LABELS, SKILLS, type AnswerView, type ExerciseCaseView, type ExerciseDetail, type Skill } from '../../../../shared/schemas/exercises';
 import { formatClass, scaleClasses } from '../../../../shared/scale';
-import { useCurrentFederation } from '../../../app/use-federation';
+import { useCurrentFederation } from '../../../lib/use-federation';
 import { Caution } from '../../../components/caution';
 import { DataTable } from '../../../components/data-table';
 import { ErrorNotice, Loading } from '../../../components/status';

@@ -5,7 +5,7 @@ import { Caution } from '../../../components/caution';
 import { DataTable } from '../../../components/data-table';
 import { ErrorNotice } from '../../../components/status';
 import { useFlags } from '../../dashboards/api/get-flags';
-import { num, pct, signed, withInterval } from '../../dashboards/components/format';
+import { num, pct, signed, withInterval } from '../../../lib/stat-format';
 import { useCloseFlagWithExercise } from '../api/close-flag';
 import { BeforeAfterChart } from './before-after-chart';
 

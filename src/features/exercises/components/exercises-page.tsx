@@ -1,6 +1,6 @@
 import { Link } from 'react-router';
 import { EXERCISE_STATUS_LABELS, type ExerciseSummary } from '../../../../shared/schemas/exercises';
-import { useCurrentFederation } from '../../../app/use-federation';
+import { useCurrentFederation } from '../../../lib/use-federation';
 import { DataTable } from '../../../components/data-table';
 import { ErrorNotice, Loading } from '../../../components/status';
 import { useExercises } from '../api/get-exercises';

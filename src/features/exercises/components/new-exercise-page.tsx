@@ -2,7 +2,7 @@ import { useEffect, useId, useState } from 'react';
 import { Link, useNavigate, useSearchParams } from 'react-router';
 import { SKILL_LABELS, SKILLS, type ExerciseInput, type Skill } from '../../../../shared/schemas/exercises';
 import { DEFAULT_SCALE, formatClass, scaleClasses } from '../../../../shared/scale';
-import { useCurrentFederation } from '../../../app/use-federation';
+import { useCurrentFederation } from '../../../lib/use-federation';
 import { ErrorNotice, Loading } from '../../../components/status';
 import { ApiError } from '../../../lib/api-client';
 import { useClassifiers } from '../../dashboards/api/get-classifiers';

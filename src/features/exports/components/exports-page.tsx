@@ -1,6 +1,6 @@
-import { useCurrentFederation } from '../../../app/use-federation';
+import { useCurrentFederation } from '../../../lib/use-federation';
 import { Caution } from '../../../components/caution';
-import { usePageTitle } from '../../../app/page-title';
+import { usePageTitle } from '../../../lib/page-title';
 import { QueryState } from '../../../components/query-state';
 import { useExportOptions } from '../api/get-export-options';
 import { ExportForm } from './export-form';

@@ -4,7 +4,7 @@ import Papa from 'papaparse';
 import { sniffFile } from '../../../../shared/file-signature';
 import { guessMapping, layoutOf, type ColumnMapping } from '../../../../shared/import-columns';
 import type { DryRun, ImportProgress, ImportView } from '../../../../shared/schemas/imports';
-import { useCurrentFederation } from '../../../app/use-federation';
+import { useCurrentFederation } from '../../../lib/use-federation';
 import { ErrorNotice } from '../../../components/status';
 import { useCommitImport } from '../api/commit-import';
 import { useDiscardImport } from '../api/discard-import';

@@ -1,12 +1,12 @@
 import { Link } from 'react-router';
 import type { InvitationView, MemberView } from '../../../../shared/schemas/access';
-import { useCurrentFederation } from '../../../app/use-federation';
+import { useCurrentFederation } from '../../../lib/use-federation';
 import { DataTable, type DataTableColumn } from '../../../components/data-table';
-import { usePageTitle } from '../../../app/page-title';
+import { usePageTitle } from '../../../lib/page-title';
 import { useConfirm } from '../../../components/confirm-dialog';
 import { QueryState } from '../../../components/query-state';
 import { ErrorNotice } from '../../../components/status';
-import { useSession } from '../../session/api/session';
+import { useSession } from '../../../lib/session';
 import { useMembers } from '../api/get-members';
 import { useRevokeInvitation } from '../api/revoke-invitation';
 import { ApiTokensSection } from './api-tokens-section';

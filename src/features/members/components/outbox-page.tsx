@@ -1,8 +1,8 @@
-import { useCurrentFederation } from '../../../app/use-federation';
-import { usePageTitle } from '../../../app/page-title';
+import { useCurrentFederation } from '../../../lib/use-federation';
+import { usePageTitle } from '../../../lib/page-title';
 import { QueryState } from '../../../components/query-state';
 import { useOutbox } from '../api/get-outbox';
-import { OutboxList } from './outbox-list';
+import { OutboxList } from '../../../components/outbox-list';
 
 /** The e-mails about this federation kept by the local mail server (never in production). */
 export function OutboxPage() {

@@ -2,7 +2,7 @@ import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/r
 import type { AcceptNewUser, AcceptResult, InvitationPreview } from '../../../../shared/schemas/access';
 import type { SessionView } from '../../../../shared/schemas/session';
 import { api } from '../../../lib/api-client';
-import { sessionQueryOptions } from './session';
+import { sessionQueryOptions } from '../../../lib/session';
 
 /** What an invitation link offers (410 when it expired or was used). */
 export function invitationQueryOptions(token: string) {

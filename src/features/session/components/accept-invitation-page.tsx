@@ -2,12 +2,12 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useForm } from 'react-hook-form';
 import { Link, useNavigate, useParams } from 'react-router';
 import { acceptNewUserSchema, type AcceptNewUser, type AcceptResult, PASSWORD_MIN } from '../../../../shared/schemas/access';
-import { ExpiredLinkPage } from '../../../app/error-pages';
+import { ExpiredLinkPage } from '../../../components/error-pages';
 import { ErrorState, Loading } from '../../../components/status';
 import { ApiError } from '../../../lib/api-client';
 import { useAcceptInvitation, useInvitation } from '../api/invitation';
-import { useSession } from '../api/session';
-import { usePageTitle } from '../../../app/page-title';
+import { useSession } from '../../../lib/session';
+import { usePageTitle } from '../../../lib/page-title';
 import { FormAlert, PublicFrame } from './public-frame';
 
 const ROLE_WORDS = { lead: 'classification lead', classifier: 'classifier', researcher: 'researcher' } as const;

@@ -3,7 +3,7 @@ import { useForm } from 'react-hook-form';
 import { Link } from 'react-router';
 import { resetRequestSchema, type ResetRequest } from '../../../../shared/schemas/access';
 import { useRequestPasswordReset } from '../api/password-reset';
-import { usePageTitle } from '../../../app/page-title';
+import { usePageTitle } from '../../../lib/page-title';
 import { FormAlert, PublicFrame } from './public-frame';
 
 export function ForgotPasswordPage() {

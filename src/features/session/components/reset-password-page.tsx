@@ -2,11 +2,11 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useForm } from 'react-hook-form';
 import { useNavigate, useParams } from 'react-router';
 import { resetPasswordSchema, type ResetPassword, PASSWORD_MIN } from '../../../../shared/schemas/access';
-import { ExpiredLinkPage } from '../../../app/error-pages';
+import { ExpiredLinkPage } from '../../../components/error-pages';
 import { ErrorState, Loading } from '../../../components/status';
 import { ApiError } from '../../../lib/api-client';
 import { usePasswordReset, useResetPassword } from '../api/password-reset';
-import { usePageTitle } from '../../../app/page-title';
+import { usePageTitle } from '../../../lib/page-title';
 import { FormAlert, PublicFrame } from './public-frame';
 
 export function ResetPasswordPage() {

@@ -2,8 +2,8 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useForm } from 'react-hook-form';
 import { Link, Navigate, useNavigate, useSearchParams } from 'react-router';
 import { signInSchema, type SignIn } from '../../../../shared/schemas/session';
-import { useSession, useSignIn } from '../api/session';
-import { usePageTitle } from '../../../app/page-title';
+import { useSession, useSignIn } from '../../../lib/session';
+import { usePageTitle } from '../../../lib/page-title';
 import { PublicFrame } from './public-frame';
 
 export function SignInPage() {

@@ -1,6 +1,6 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { SessionView, SignedOutView, SignIn } from '../../../../shared/schemas/session';
-import { api, ApiError } from '../../../lib/api-client';
+import type { SessionView, SignedOutView, SignIn } from '../../shared/schemas/session';
+import { api, ApiError } from './api-client';
 
 /** The signed-in user and their memberships; null when nobody is signed in. */
 export function sessionQueryOptions() {

@@ -1,11 +1,11 @@
 import { Link } from 'react-router';
 import { FLAG_RULE_LABELS, FLAG_STATUS_LABELS, type Coefficient, type Overview } from '../../../../shared/schemas/analytics';
-import { useFilterSearch } from '../../../app/filter-search';
-import { useCurrentFederation } from '../../../app/use-federation';
+import { useFilterSearch } from '../../../lib/filter-search';
+import { useCurrentFederation } from '../../../lib/use-federation';
 import { DataTable } from '../../../components/data-table';
-import { TrendChart } from '../../dashboards/components/charts';
+import { TrendChart } from '../../../components/charts';
 import { FlagLapse } from '../../dashboards/components/flag-lapse';
-import { integer, num, pct } from '../../dashboards/components/format';
+import { integer, num, pct } from '../../../lib/stat-format';
 import { PageFrame, QueryState } from '../../dashboards/components/page-frame';
 import { useAnalyticsFilters } from '../../dashboards/components/use-analytics-filters';
 import { useOverview } from '../api/get-overview';

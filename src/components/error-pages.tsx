@@ -1,5 +1,5 @@
 import { Link, isRouteErrorResponse, useRouteError } from 'react-router';
-import { usePageTitle } from './page-title';
+import { usePageTitle } from '../lib/page-title';
 
 function Message({ title, children }: { title: string; children: React.ReactNode }) {
   usePageTitle(title);

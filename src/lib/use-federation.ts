@@ -1,6 +1,6 @@
 import { useParams } from 'react-router';
 import type { MembershipView } from '../../shared/schemas/session';
-import { useSession } from '../features/session/api/session';
+import { useSession } from './session';
 
 /** The membership of the federation in the URL (/f/:federation/…), or null when the user has none. */
 export function useFederation(): MembershipView | null {

@@ -1,5 +1,5 @@
-import type { Stat } from '../../../../shared/schemas/analytics';
-import { formatInteger, formatNumber, formatPercent, formatSigned } from '../../../lib/format';
+import type { Stat } from '../../shared/schemas/analytics';
+import { formatInteger, formatNumber, formatPercent, formatSigned } from './format';
 
 /**
  * The dashboards' short names for the app's formatter (src/lib/format.ts): fixed decimals with a

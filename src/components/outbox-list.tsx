@@ -1,5 +1,5 @@
-import type { OutboxMessage } from '../../../../shared/schemas/access';
-import { formatDateTime } from '../../../lib/format';
+import type { OutboxMessage } from '../../shared/schemas/access';
+import { formatDateTime } from '../lib/format';
 
 /** Messages kept by the local mail server, newest first, with their links. */
 export function OutboxList({ messages }: { messages: OutboxMessage[] }) {

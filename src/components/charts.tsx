@@ -1,9 +1,9 @@
 import * as Plot from '@observablehq/plot';
-import type { Confusion, QuarterStat } from '../../../../shared/schemas/analytics';
-import { CHART_COLORS, INK, MUTED, PlotFigure } from '../../../components/plot-figure';
-import { categoryAxis, quarterRange, withQuarterGaps, yearTickFormat, yearTicks, type CategoryAxis } from '../../../lib/charts/axes';
-import { formatPoints } from '../../../lib/format';
-import { num } from './format';
+import type { Confusion, QuarterStat } from '../../shared/schemas/analytics';
+import { CHART_COLORS, INK, MUTED, PlotFigure } from './plot-figure';
+import { categoryAxis, quarterRange, withQuarterGaps, yearTickFormat, yearTicks, type CategoryAxis } from '../lib/charts/axes';
+import { formatPoints } from '../lib/format';
+import { num } from '../lib/stat-format';
 
 /**
  * The dashboards' charts, each a PlotFigure with a title, labelled axes (with units) and a text
