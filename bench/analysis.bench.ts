@@ -39,13 +39,13 @@ function generate(): RatingRow[] {
       if (rows.length >= RATINGS) break;
       const u = rng.next();
       const noise = u < 0.15 ? -1 : u > 0.85 ? 1 : 0;
-      const v = Math.min(9, Math.max(2, truth + noise + (rng.next() < 0.3 ? bias[c]! : 0)));
+      const v = Math.min(9, Math.max(2, truth + noise + (rng.next() < 0.3 ? bias[c] : 0)));
       rows.push({
         assessmentId: `AS${a}`,
         athleteCode: `A${a % 90_000}`,
         eventCode: `E${a % 400}`,
         assessedOn: date,
-        classifierCode: codes[c]!,
+        classifierCode: codes[c],
         sportClass: v,
         panelClass: rng.next() < 0.8 ? truth : null,
         kind,
@@ -58,7 +58,7 @@ function generate(): RatingRow[] {
 function median(xs: number[]): number {
   const s = [...xs].sort((a, b) => a - b);
   const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
 }
 
 function time(fn: () => unknown): number {

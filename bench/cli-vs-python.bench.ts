@@ -33,7 +33,7 @@ const csv = path.join(dir, 'big.csv');
 function median(xs: number[]): number {
   const s = [...xs].sort((a, b) => a - b);
   const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
 }
 
 const hasPython =
@@ -52,13 +52,13 @@ function measure(command: string[], out: string): Run {
   const stats = path.join(dir, 'time.txt');
   const argv = hasTime ? [gnuTime, '-o', stats, '-f', '%e %M', ...command] : command;
   const t0 = performance.now();
-  const r = spawnSync(argv[0]!, argv.slice(1), { stdio: ['ignore', outFd, 'pipe'], cwd: root, maxBuffer: 1 << 26 });
+  const r = spawnSync(argv[0], argv.slice(1), { stdio: ['ignore', outFd, 'pipe'], cwd: root, maxBuffer: 1 << 26 });
   const wall = (performance.now() - t0) / 1000;
   fs.closeSync(outFd);
   if (r.status !== 0) throw new Error(`${command.join(' ')} failed (${r.status}): ${String(r.stderr).slice(0, 2000)}`);
   if (!hasTime) return { wallS: wall, peakMiB: null };
   const [elapsed, kb] = fs.readFileSync(stats, 'utf8').trim().split(/\s+/).slice(-2).map(Number);
-  return { wallS: elapsed!, peakMiB: kb! / 1024 };
+  return { wallS: elapsed, peakMiB: kb / 1024 };
 }
 
 const g0 = performance.now();
@@ -76,7 +76,7 @@ if (!hasTime) console.log('GNU time (/usr/bin/time) is not installed: wall times
 
 // Build the command line's bundle before measuring (the first run after a change builds it).
 const cli = [process.execPath, path.join(root, 'bin/panelwise.js'), 'analyze'];
-spawnSync(cli[0]!, [...cli.slice(1), path.join(root, 'fixtures/analysis/small-long.csv')], { stdio: 'ignore', cwd: root });
+spawnSync(cli[0], [...cli.slice(1), path.join(root, 'fixtures/analysis/small-long.csv')], { stdio: 'ignore', cwd: root });
 const pipeline = [python, path.join(shared, 'py_reference_pipeline.py')];
 
 const cliRuns: Run[] = [];
@@ -98,7 +98,7 @@ for (let i = 0; i < RUNS; i++) {
 }
 fs.rmSync(dir, { recursive: true, force: true });
 
-const med = (runs: Run[], key: keyof Run) => (runs.length === 0 || runs[0]![key] === null ? null : median(runs.map((r) => r[key] as number)));
+const med = (runs: Run[], key: keyof Run) => (runs.length === 0 || runs[0][key] === null ? null : median(runs.map((r) => r[key] as number)));
 const out = {
   benchmark: 'cli-vs-python',
   ratings: RATINGS,

@@ -26,7 +26,7 @@ const REQUESTS = Number(process.env.BENCH_REQUESTS ?? 40);
 function median(xs: number[]): number {
   const s = [...xs].sort((a, b) => a - b);
   const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
 }
 
 const dir = mkdtempSync(path.join(os.tmpdir(), 'panelwise-bench-dash-'));
@@ -67,23 +67,23 @@ await medianOf('/api/health', 20);
 
 const runs: Record<string, number[]> = { floor: [], overviewWarm: [], overviewCold: [], ...Object.fromEntries(views.slice(1).map((v) => [v, []])) };
 for (let r = 0; r < RUNS; r++) {
-  runs.floor!.push(await medianOf('/api/health'));
-  runs.overviewWarm!.push(await medianOf(`${base}/overview`));
+  runs.floor.push(await medianOf('/api/health'));
+  runs.overviewWarm.push(await medianOf(`${base}/overview`));
   t.ctx.dataVersions.bump(federationId);
   // Let the background flag re-evaluation after the bump finish before timing.
   await t.ctx.jobs.idle();
-  runs.overviewCold!.push(await timed(`${base}/overview`));
-  for (const v of views.slice(1)) runs[v]!.push(await medianOf(base + v, 10));
+  runs.overviewCold.push(await timed(`${base}/overview`));
+  for (const v of views.slice(1)) runs[v].push(await medianOf(base + v, 10));
 }
 
-const floorMs = median(runs.floor!);
+const floorMs = median(runs.floor);
 const rows = [
   { name: 'GET /api/health (floor)', key: 'floor', targetMs: null as number | null },
   { name: 'overview, warm', key: 'overviewWarm', targetMs: 100 },
   { name: 'overview, cold (after a data change)', key: 'overviewCold', targetMs: null },
   ...views.slice(1).map((v) => ({ name: `${v.slice(1)}, warm`, key: v, targetMs: null })),
 ].map((r) => {
-  const medianMs = median(runs[r.key]!);
+  const medianMs = median(runs[r.key]);
   return { name: r.name, medianMs, ratioToFloor: medianMs / floorMs, targetMs: r.targetMs, withinTarget: r.targetMs === null ? null : medianMs < r.targetMs };
 });
 

@@ -32,7 +32,7 @@ const csvPath = path.join(dir, 'ratings.csv');
 function median(xs: number[]): number {
   const s = [...xs].sort((a, b) => a - b);
   const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
 }
 
 async function freshApp(run: number, name: string): Promise<TestApp> {
@@ -60,9 +60,9 @@ function floorRun(t: TestApp, text: string): number {
     .transaction(() => {
       const dbId: number[] = [];
       for (let i = 0; i < a.externalId.length; i++) {
-        dbId.push(Number(insertAssessment.run(federationId, a.externalId[i], athletes.get(a.athleteCode[i]!), events.get(a.eventCode[i]!), a.assessedOn[i], 'first', a.panelClass[i], a.note[i], importId).lastInsertRowid));
+        dbId.push(Number(insertAssessment.run(federationId, a.externalId[i], athletes.get(a.athleteCode[i]), events.get(a.eventCode[i]), a.assessedOn[i], 'first', a.panelClass[i], a.note[i], importId).lastInsertRowid));
       }
-      for (let k = 0; k < r.assessment.length; k++) insertRating.run(dbId[r.assessment[k]!], classifiers.get(r.classifierCode[k]!), r.sportClass[k], importId);
+      for (let k = 0; k < r.assessment.length; k++) insertRating.run(dbId[r.assessment[k]], classifiers.get(r.classifierCode[k]), r.sportClass[k], importId);
     })
     .immediate();
   return performance.now() - t0;

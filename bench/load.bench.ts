@@ -81,14 +81,14 @@ async function startServer(port: number): Promise<ChildProcess> {
 
 function percentile(sorted: number[], p: number): number | null {
   if (sorted.length === 0) return null;
-  return sorted[Math.min(sorted.length - 1, Math.max(0, Math.ceil((p / 100) * sorted.length) - 1))]!;
+  return sorted[Math.min(sorted.length - 1, Math.max(0, Math.ceil((p / 100) * sorted.length) - 1))];
 }
 
 function summary(list: Sample[], errs: number[], from: number, to: number) {
   const inWindow = list.filter((s) => s.at >= from && s.at <= to);
   const ms = inWindow.map((s) => s.ms).sort((a, b) => a - b);
   const bad = inWindow.filter((s) => s.status < 200 || s.status >= 300).length + errs.filter((t) => t >= from && t <= to).length;
-  return { n: inWindow.length, p50: percentile(ms, 50), p99: percentile(ms, 99), max: ms.length ? ms[ms.length - 1]! : null, errors: bad };
+  return { n: inWindow.length, p50: percentile(ms, 50), p99: percentile(ms, 99), max: ms.length ? ms[ms.length - 1] : null, errors: bad };
 }
 
 function cannon(url: string, connections: number, cookie: string, kind: 'overview' | 'health') {
@@ -109,7 +109,7 @@ function cannon(url: string, connections: number, cookie: string, kind: 'overvie
 await writeLongCsv(csvPath, { ratings: RATINGS, prefix: 'LOAD-', compact: true });
 const csvBytes = fs.readFileSync(csvPath);
 
-const loadBefore = os.loadavg()[0]!;
+const loadBefore = os.loadavg()[0];
 const port = process.env.BENCH_LOAD_PORT ? Number(process.env.BENCH_LOAD_PORT) : await freePort();
 const server = await startServer(port);
 const origin = `http://127.0.0.1:${port}`;
@@ -223,7 +223,7 @@ try {
 
   const f = (x: number | null) => (x === null ? '—' : x.toFixed(0));
   const w = Math.max(...windows.map((r) => r.window.length));
-  const loadAfter = os.loadavg()[0]!;
+  const loadAfter = os.loadavg()[0];
   console.log(`load benchmark: server process with its worker pool on loopback, ${os.availableParallelism()} cores, Node ${process.version}`);
   console.log(`machine load average (1 min) ${loadBefore.toFixed(1)} before, ${loadAfter.toFixed(1)} after: on a shared machine the latencies include waiting for a core`);
   console.log(

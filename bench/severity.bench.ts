@@ -23,7 +23,7 @@ const RUNS = Number(process.env.BENCH_RUNS ?? 7);
 function median(xs: number[]): number {
   const s = [...xs].sort((a, b) => a - b);
   const m = s.length >> 1;
-  return s.length % 2 ? s[m]! : (s[m - 1]! + s[m]!) / 2;
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
 }
 
 function time(fn: () => unknown): number {
@@ -35,8 +35,8 @@ function time(fn: () => unknown): number {
 /** The floor: one pass over the ratings, summing classes per classifier. */
 function onePass(set: RatingSet): number {
   const sums = new Float64Array(set.classifierCodes.length);
-  for (let p = 0; p < set.ratingCount; p++) sums[set.ratingClassifier[p]!]! += set.ratingClass[p]!;
-  return sums[0]!;
+  for (let p = 0; p < set.ratingCount; p++) sums[set.ratingClassifier[p]] += set.ratingClass[p];
+  return sums[0];
 }
 
 function demoSet(): RatingSet {

@@ -44,9 +44,9 @@ export function bootstrapPatterns(
   const seed = options.seed ?? 1;
   const K = frequency.length;
   let N = 0;
-  for (let k = 0; k < K; k++) N += frequency[k]!;
+  for (let k = 0; k < K; k++) N += frequency[k];
   const unitPattern = new Int32Array(N);
-  for (let k = 0, u = 0; k < K; k++) for (let f = 0; f < frequency[k]!; f++) unitPattern[u++] = k;
+  for (let k = 0, u = 0; k < K; k++) for (let f = 0; f < frequency[k]; f++) unitPattern[u++] = k;
   const values = new Float64Array(B);
   let defined = 0;
   let undefinedReplicates = 0;
@@ -62,7 +62,7 @@ export function bootstrapPatterns(
       x = Math.imul(x ^ (x >>> 15), x | 1);
       x ^= x + Math.imul(x ^ (x >>> 7), x | 61);
       const u = (x ^ (x >>> 14)) >>> 0;
-      weights[unitPattern[(u * toIndex) | 0]!]!++;
+      weights[unitPattern[(u * toIndex) | 0]]++;
     }
     const v = N === 0 ? null : stat(weights);
     if (v === null || !Number.isFinite(v)) undefinedReplicates++;

@@ -71,7 +71,7 @@ export function benjaminiHochberg(p: readonly (number | null)[]): (number | null
   idx.sort((a, b) => a[0] - b[0]);
   let running = 1;
   for (let r = m - 1; r >= 0; r--) {
-    const [v, i] = idx[r]!;
+    const [v, i] = idx[r];
     running = Math.min(running, (v * m) / (r + 1));
     out[i] = running;
   }
@@ -83,10 +83,10 @@ export function meanTest(values: ArrayLike<number>): { n: number; mean: number; 
   const n = values.length;
   if (n < 2) return null;
   let s = 0;
-  for (let i = 0; i < n; i++) s += values[i]!;
+  for (let i = 0; i < n; i++) s += values[i];
   const mean = s / n;
   let ss = 0;
-  for (let i = 0; i < n; i++) ss += (values[i]! - mean) ** 2;
+  for (let i = 0; i < n; i++) ss += (values[i] - mean) ** 2;
   const sd = Math.sqrt(ss / (n - 1));
   const se = sd / Math.sqrt(n);
   const tq = jStat.studentt.inv(0.975, n - 1);
@@ -100,13 +100,13 @@ export function meanTest(values: ArrayLike<number>): { n: number; mean: number; 
 export function changePointStatistic(x: ArrayLike<number>, minSegment: number): { statistic: number; k: number } {
   const n = x.length;
   let total = 0;
-  for (let i = 0; i < n; i++) total += x[i]!;
+  for (let i = 0; i < n; i++) total += x[i];
   const mean = total / n;
   let s = 0;
   let best = -1;
   let bestK = -1;
   for (let k = 1; k < n; k++) {
-    s += x[k - 1]! - mean;
+    s += x[k - 1] - mean;
     if (k < minSegment || n - k < minSegment) continue;
     const v = Math.abs(s) / Math.sqrt((k * (n - k)) / n);
     if (v > best + 1e-12) {
@@ -136,9 +136,9 @@ export function changePointTest(x: ArrayLike<number>, seed: number, minSegment =
   const observed = changePointStatistic(x, minSegment);
   if (observed.k < 0) return null;
   let before = 0;
-  for (let i = 0; i < observed.k; i++) before += x[i]!;
+  for (let i = 0; i < observed.k; i++) before += x[i];
   let all = before;
-  for (let i = observed.k; i < n; i++) all += x[i]!;
+  for (let i = observed.k; i < n; i++) all += x[i];
   const meanBefore = before / observed.k;
   const meanAfter = (all - before) / (n - observed.k);
   const base = { n, statistic: observed.statistic, k: observed.k, meanBefore, meanAfter };
@@ -151,7 +151,7 @@ export function changePointTest(x: ArrayLike<number>, seed: number, minSegment =
   while (l < DRIFT_PERMUTATIONS) {
     for (let i = n - 1; i > 0; i--) {
       const j = rng.nextInt(i + 1);
-      const t = work[i]!;
+      const t = work[i];
       work[i] = work[j]!;
       work[j] = t;
     }
@@ -246,12 +246,12 @@ export interface CalibrationOptions {
 function agreementShares(set: RatingSet, ci: number, assessments: Int32Array): Float64Array {
   const out = new Float64Array(assessments.length);
   for (let i = 0; i < assessments.length; i++) {
-    const a = assessments[i]!;
+    const a = assessments[i];
     let own = -1;
-    for (let p = set.ratingStart[a]!; p < set.ratingStart[a + 1]!; p++) if (set.ratingClassifier[p] === ci) own = set.ratingClass[p]!;
+    for (let p = set.ratingStart[a]; p < set.ratingStart[a + 1]; p++) if (set.ratingClassifier[p] === ci) own = set.ratingClass[p]!;
     let same = 0;
     let others = 0;
-    for (let p = set.ratingStart[a]!; p < set.ratingStart[a + 1]!; p++) {
+    for (let p = set.ratingStart[a]; p < set.ratingStart[a + 1]; p++) {
       if (set.ratingClassifier[p] === ci) continue;
       others++;
       if (set.ratingClass[p] === own) same++;
@@ -265,10 +265,10 @@ function agreementShares(set: RatingSet, ci: number, assessments: Int32Array): F
 function othersPairShares(set: RatingSet, ci: number, fromDay: number, toDay: number): number[] {
   const out: number[] = [];
   for (let a = 0; a < set.assessmentCount; a++) {
-    const d = set.day[a]!;
+    const d = set.day[a];
     if (d < fromDay || d > toDay) continue;
-    const s = set.ratingStart[a]!;
-    const e = set.ratingStart[a + 1]!;
+    const s = set.ratingStart[a];
+    const e = set.ratingStart[a + 1];
     let pairs = 0;
     let same = 0;
     for (let p = s; p < e; p++) {
@@ -287,10 +287,10 @@ function othersPairShares(set: RatingSet, ci: number, fromDay: number, toDay: nu
 function meanVar(values: ArrayLike<number>): { mean: number; variance: number } {
   const n = values.length;
   let s = 0;
-  for (let i = 0; i < n; i++) s += values[i]!;
+  for (let i = 0; i < n; i++) s += values[i];
   const mean = s / n;
   let ss = 0;
-  for (let i = 0; i < n; i++) ss += (values[i]! - mean) ** 2;
+  for (let i = 0; i < n; i++) ss += (values[i] - mean) ** 2;
   return { mean, variance: n > 1 ? ss / (n - 1) : 0 };
 }
 
@@ -303,7 +303,7 @@ export function evaluateCalibration(set: RatingSet, th: CalibrationThresholds, o
   let codes = options.codes;
   if (!codes) {
     const used = new Uint8Array(set.classifierCodes.length);
-    for (let p = 0; p < set.ratingCount; p++) used[set.ratingClassifier[p]!] = 1;
+    for (let p = 0; p < set.ratingCount; p++) used[set.ratingClassifier[p]] = 1;
     codes = set.classifierCodes.filter((_, i) => used[i] === 1);
   }
   const out: ClassifierCalibration[] = [];
@@ -347,7 +347,7 @@ export function evaluateCalibration(set: RatingSet, th: CalibrationThresholds, o
     if (agreement.n < Math.max(2, th.minRatings) || ci < 0) agreement.reason = `fewer than ${th.minRatings} ratings in a panel`;
     else {
       const own = meanVar(agreementShares(set, ci, series.assessment.subarray(aStart)));
-      const others = othersPairShares(set, ci, series.day[aStart]!, series.day[total - 1]!);
+      const others = othersPairShares(set, ci, series.day[aStart], series.day[total - 1]);
       agreement.rate = own.mean;
       const se = Math.sqrt(own.variance / agreement.n);
       agreement.ci95 = [Math.max(0, own.mean - Z95 * se), Math.min(1, own.mean + Z95 * se)];

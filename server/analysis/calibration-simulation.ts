@@ -46,7 +46,7 @@ function sample(rng: Prng, n: number, k: number): number[] {
   const idx = Array.from({ length: n }, (_, i) => i);
   for (let i = 0; i < k; i++) {
     const j = i + rng.nextInt(n - i);
-    [idx[i], idx[j]] = [idx[j]!, idx[i]!];
+    [idx[i], idx[j]] = [idx[j], idx[i]];
   }
   return idx.slice(0, k);
 }
@@ -68,7 +68,7 @@ export function simulateFederation(options: SimulationOptions): SimulatedFederat
   const athletes = Array.from({ length: 15 * C }, () => {
     let u = rng.next();
     let cls = 0;
-    while (cls < 7 && (u -= CLASS_WEIGHTS[cls]!) > 0) cls++;
+    while (cls < 7 && (u -= CLASS_WEIGHTS[cls]) > 0) cls++;
     const value = 1 + cls / 2;
     let profile = value + (rng.next() - 0.5) * 0.24;
     if ((value === 1 || value === 1.5) && rng.next() < 0.4) profile = 1.25 + (rng.next() - 0.5) * 0.12;
@@ -88,7 +88,7 @@ export function simulateFederation(options: SimulationOptions): SimulatedFederat
   for (let a = 0; a < A; a++) {
     const event = Math.floor((a * events.length) / A);
     const size = rng.next() < 0.15 ? 2 : 3;
-    panels.push({ day: events[event]! + (a % 3), athlete: rng.nextInt(athletes.length), members: sample(rng, C, size) });
+    panels.push({ day: events[event] + (a % 3), athlete: rng.nextInt(athletes.length), members: sample(rng, C, size) });
   }
   const plantedIndex = options.effect ? rng.nextInt(C) : -1;
   let changeIndex: number | undefined;
@@ -103,24 +103,24 @@ export function simulateFederation(options: SimulationOptions): SimulatedFederat
     const assessmentId = `S-${a + 1}`;
     const date = dayToIsoDate(p.day);
     for (const c of p.members) {
-      let value = athletes[p.athlete]! + normal(rng) * noise[c]!;
+      let value = athletes[p.athlete] + normal(rng) * noise[c];
       const effect = c === plantedIndex ? options.effect : undefined;
       if (effect?.kind === 'lean') value += effect.shift;
-      if (effect?.kind === 'drift' && seen[c]! >= changeIndex!) value += effect.shift;
+      if (effect?.kind === 'drift' && seen[c] >= changeIndex!) value += effect.shift;
       let half = Math.min(DEFAULT_SCALE.max, Math.max(DEFAULT_SCALE.min, Math.round(value * 2)));
       if (effect?.kind === 'erratic' && rng.next() < effect.rate) {
         const up = half === DEFAULT_SCALE.min ? true : half === DEFAULT_SCALE.max ? false : rng.next() < 0.5;
         half += up ? 1 : -1;
       }
-      seen[c]!++;
-      rows.push({ assessmentId, athleteCode: `A${p.athlete}`, eventCode: `E${p.day}`, assessedOn: date, classifierCode: codes[c]!, sportClass: half, kind: 'first' });
+      seen[c]++;
+      rows.push({ assessmentId, athleteCode: `A${p.athlete}`, eventCode: `E${p.day}`, assessedOn: date, classifierCode: codes[c], sportClass: half, kind: 'first' });
     }
   });
   const set = buildRatingSet(rows, DEFAULT_SCALE);
   return {
     set,
     classifiers: codes,
-    planted: options.effect ? { code: codes[plantedIndex]!, effect: options.effect, ...(changeIndex !== undefined ? { changeIndex } : {}) } : null,
+    planted: options.effect ? { code: codes[plantedIndex], effect: options.effect, ...(changeIndex !== undefined ? { changeIndex } : {}) } : null,
   };
 }
 
@@ -191,7 +191,7 @@ export function runScenario(scenario: Scenario, federations: number, seed: numbe
     falseFlag: { bias: share(falseFlag.bias), drift: share(falseFlag.drift), agreement: share(falseFlag.agreement), any: share(falseFlag.any) },
     planted: scenario.effect ? { bias: share(planted.bias), drift: share(planted.drift), agreement: share(planted.agreement) } : null,
     driftDirectionRight: isDrift ? (planted.drift === 0 ? null : directionRight / planted.drift) : null,
-    medianChangeError: isDrift && errors.length > 0 ? errors[Math.floor((errors.length - 1) / 2)]! : null,
+    medianChangeError: isDrift && errors.length > 0 ? errors[Math.floor((errors.length - 1) / 2)] : null,
   };
 }
 

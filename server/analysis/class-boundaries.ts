@@ -23,20 +23,20 @@ export function classBoundaries(t: CountTable, scale: ClassScale): BoundarySplit
   const touched = new Float64Array(q);
   const split = new Float64Array(q);
   for (let i = 0; i < rows; i++) {
-    if (totals[i]! < 2) continue;
-    const w = weights[i]!;
+    if (totals[i] < 2) continue;
+    const w = weights[i];
     const off = i * q;
     for (let j = 0; j + 1 < q; j++) {
-      const lo = counts[off + j]!;
-      const hi = counts[off + j + 1]!;
-      if (lo > 0 || hi > 0) touched[j]! += w;
-      if (lo > 0 && hi > 0) split[j]! += w;
+      const lo = counts[off + j];
+      const hi = counts[off + j + 1];
+      if (lo > 0 || hi > 0) touched[j] += w;
+      if (lo > 0 && hi > 0) split[j] += w;
     }
   }
   const out: BoundarySplit[] = [];
   for (let j = 0; j + 1 < q; j++) {
-    const s = proportionStat(split[j]!, touched[j]!);
-    out.push({ ...s, lower: formatClass(scale.min + j), upper: formatClass(scale.min + j + 1), splitRate: s.value, splits: split[j]! });
+    const s = proportionStat(split[j], touched[j]);
+    out.push({ ...s, lower: formatClass(scale.min + j), upper: formatClass(scale.min + j + 1), splitRate: s.value, splits: split[j] });
   }
   return out;
 }

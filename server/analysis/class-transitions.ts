@@ -14,16 +14,16 @@ export function assessmentOutcomes(set: RatingSet): Int32Array {
   const out = new Int32Array(set.assessmentCount).fill(-1);
   const scratch: number[] = [];
   for (let a = 0; a < set.assessmentCount; a++) {
-    if (set.panelClass[a]! >= 0) {
+    if (set.panelClass[a] >= 0) {
       out[a] = set.panelClass[a]!;
       continue;
     }
     scratch.length = 0;
-    for (let p = set.ratingStart[a]!; p < set.ratingStart[a + 1]!; p++) scratch.push(set.ratingClass[p]!);
+    for (let p = set.ratingStart[a]; p < set.ratingStart[a + 1]; p++) scratch.push(set.ratingClass[p]);
     if (scratch.length === 0) continue;
     scratch.sort((x, y) => x - y);
     const m = scratch.length;
-    const med = m % 2 === 1 ? scratch[(m - 1) / 2]! : (scratch[m / 2 - 1]! + scratch[m / 2]!) / 2;
+    const med = m % 2 === 1 ? scratch[(m - 1) / 2] : (scratch[m / 2 - 1] + scratch[m / 2]) / 2;
     if (Number.isInteger(med)) out[a] = med;
   }
   return out;
@@ -48,8 +48,8 @@ export interface ClassTransitions {
 export function classTransitions(set: RatingSet): ClassTransitions {
   const q = set.q;
   const outcome = assessmentOutcomes(set);
-  const order = Array.from({ length: set.assessmentCount }, (_, a) => a).filter((a) => outcome[a]! >= 0);
-  order.sort((x, y) => set.athlete[x]! - set.athlete[y]! || set.day[x]! - set.day[y]! || x - y);
+  const order = Array.from({ length: set.assessmentCount }, (_, a) => a).filter((a) => outcome[a] >= 0);
+  order.sort((x, y) => set.athlete[x] - set.athlete[y] || set.day[x] - set.day[y] || x - y);
   const flat = new Float64Array(q * q);
   let n = 0;
   let changed = 0;
@@ -59,23 +59,23 @@ export function classTransitions(set: RatingSet): ClassTransitions {
   let protestsChanged = 0;
   const changes: ClassTransitions['changes'] = [];
   for (let i = 1; i < order.length; i++) {
-    const prev = order[i - 1]!;
-    const cur = order[i]!;
+    const prev = order[i - 1];
+    const cur = order[i];
     if (set.athlete[prev] !== set.athlete[cur]) continue;
-    const from = outcome[prev]!;
-    const to = outcome[cur]!;
-    flat[from * q + to]!++;
+    const from = outcome[prev];
+    const to = outcome[cur];
+    flat[from * q + to]++;
     n++;
     const diff = from !== to;
     if (diff) {
       changed++;
       changes.push({
-        athleteCode: set.athleteCodes[set.athlete[cur]!]!,
+        athleteCode: set.athleteCodes[set.athlete[cur]],
         from: classLabel(set, from),
         to: classLabel(set, to),
-        on: dayToIsoDate(set.day[cur]!),
-        kind: ['first', 'review', 'protest'][set.kind[cur]!]!,
-        assessmentId: set.assessmentIds[cur]!,
+        on: dayToIsoDate(set.day[cur]),
+        kind: ['first', 'review', 'protest'][set.kind[cur]],
+        assessmentId: set.assessmentIds[cur],
       });
     }
     if (set.kind[cur] === 1) {

@@ -27,13 +27,13 @@ export function classifierBoundarySplits(m: ConfusionMatrix): ClassifierBoundary
     let touching = 0;
     for (let r = 0; r < q; r++) {
       for (let c = 0; c < q; c++) {
-        if (r === j || r === j + 1 || c === j || c === j + 1) touching += m.counts[r]![c]!;
+        if (r === j || r === j + 1 || c === j || c === j + 1) touching += m.counts[r][c];
       }
     }
-    const above = m.counts[j + 1]![j]!;
-    const below = m.counts[j]![j + 1]!;
+    const above = m.counts[j + 1][j];
+    const below = m.counts[j][j + 1];
     const s = proportionStat(above + below, touching);
-    out.push({ ...s, lower: m.classes[j]!, upper: m.classes[j + 1]!, touching, above, below, splitRate: s.value });
+    out.push({ ...s, lower: m.classes[j], upper: m.classes[j + 1], touching, above, below, splitRate: s.value });
   }
   return out;
 }

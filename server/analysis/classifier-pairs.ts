@@ -26,16 +26,16 @@ export function pairTables(set: RatingSet): PairTables {
   const tables = new Int32Array(C * C * qq);
   const { ratingStart, ratingClassifier, ratingClass } = set;
   for (let a = 0; a < set.assessmentCount; a++) {
-    const s = ratingStart[a]!;
-    const e = ratingStart[a + 1]!;
+    const s = ratingStart[a];
+    const e = ratingStart[a + 1];
     for (let i = s; i < e; i++) {
-      const ci = ratingClassifier[i]!;
-      const ki = ratingClass[i]!;
+      const ci = ratingClassifier[i];
+      const ki = ratingClass[i];
       for (let j = i + 1; j < e; j++) {
-        const cj = ratingClassifier[j]!;
-        const kj = ratingClass[j]!;
-        if (ci < cj) tables[(ci * C + cj) * qq + ki * q + kj]!++;
-        else tables[(cj * C + ci) * qq + kj * q + ki]!++;
+        const cj = ratingClassifier[j];
+        const kj = ratingClass[j];
+        if (ci < cj) tables[(ci * C + cj) * qq + ki * q + kj]++;
+        else tables[(cj * C + ci) * qq + kj * q + ki]++;
       }
     }
   }
@@ -72,7 +72,7 @@ export function pairAgreementFromTable(table: ArrayLike<number>, q: number): Omi
   let within = 0;
   for (let i = 0; i < q; i++) {
     for (let j = 0; j < q; j++) {
-      const c = table[i * q + j]!;
+      const c = table[i * q + j];
       n += c;
       if (i === j) exact += c;
       if (Math.abs(i - j) <= 1) within += c;
@@ -98,10 +98,10 @@ export function classifierPairs(set: RatingSet, minShared = 2, pt: PairTables = 
     for (let b = a + 1; b < C; b++) {
       const t = pt.tables.subarray((a * C + b) * qq, (a * C + b + 1) * qq);
       let n = 0;
-      for (let i = 0; i < qq; i++) n += t[i]!;
+      for (let i = 0; i < qq; i++) n += t[i];
       if (n < minShared) continue;
-      const ca = set.classifierCodes[a]!;
-      const cb = set.classifierCodes[b]!;
+      const ca = set.classifierCodes[a];
+      const cb = set.classifierCodes[b];
       // Every statistic here is symmetric in the two classifiers; list the pair in code order.
       const [first, second] = ca < cb ? [ca, cb] : [cb, ca];
       out.push({ a: first, b: second, ...pairAgreementFromTable(t, q) });

@@ -51,15 +51,15 @@ export function othersMedian(set: RatingSet): Float64Array {
   const { ratingStart, ratingClass } = set;
   let scratch = new Int32Array(16);
   for (let a = 0; a < set.assessmentCount; a++) {
-    const s = ratingStart[a]!;
-    const m = ratingStart[a + 1]! - s;
+    const s = ratingStart[a];
+    const m = ratingStart[a + 1] - s;
     if (m < 2) continue;
     if (m > scratch.length) scratch = new Int32Array(m * 2);
     for (let i = 0; i < m; i++) {
       // insertion sort of the panel's classes
-      const v = ratingClass[s + i]!;
+      const v = ratingClass[s + i];
       let j = i - 1;
-      while (j >= 0 && scratch[j]! > v) {
+      while (j >= 0 && scratch[j] > v) {
         scratch[j + 1] = scratch[j]!;
         j--;
       }
@@ -67,10 +67,10 @@ export function othersMedian(set: RatingSet): Float64Array {
     }
     const k = m - 1; // number of others
     for (let i = 0; i < m; i++) {
-      const v = ratingClass[s + i]!;
+      const v = ratingClass[s + i];
       let pos = 0;
       while (scratch[pos] !== v) pos++;
-      const at = (idx: number): number => scratch[idx < pos ? idx : idx + 1]!;
+      const at = (idx: number): number => scratch[idx < pos ? idx : idx + 1];
       out[s + i] = k % 2 === 1 ? at((k - 1) / 2) : (at(k / 2 - 1) + at(k / 2)) / 2;
     }
   }
@@ -118,32 +118,32 @@ export function classifiersVsPanel(set: RatingSet, medians: Float64Array = other
   }));
   const { ratingAssessment, ratingClassifier, ratingClass, panelClass } = set;
   for (let p = 0; p < set.ratingCount; p++) {
-    const c = acc[ratingClassifier[p]!]!;
+    const c = acc[ratingClassifier[p]];
     c.ratings++;
-    const med = medians[p]!;
+    const med = medians[p];
     if (Number.isNaN(med)) continue;
-    const own = ratingClass[p]!;
+    const own = ratingClass[p];
     const d = own - med;
     c.devs.push(d / 2);
     if (d === 0) c.exact++;
     if (Math.abs(d) <= 1) c.within++;
-    const fin = panelClass[ratingAssessment[p]!]!;
+    const fin = panelClass[ratingAssessment[p]];
     if (fin >= 0) {
       const df = own - fin;
       c.finalDevs.push(df / 2);
       if (df === 0) c.finalExact++;
       if (Math.abs(df) <= 1) c.finalWithin++;
     }
-    c.table[own * q + referenceClass(own, med, fin)]!++;
+    c.table[own * q + referenceClass(own, med, fin)]++;
   }
   const wq = agreementWeights(q, 'quadratic');
   const out: ClassifierVsPanel[] = [];
   for (let i = 0; i < C; i++) {
-    const c = acc[i]!;
+    const c = acc[i];
     if (c.ratings === 0) continue;
     const n = c.devs.length;
     out.push({
-      code: set.classifierCodes[i]!,
+      code: set.classifierCodes[i],
       n,
       ratings: c.ratings,
       meanDeviation: meanStat(c.devs),
@@ -175,17 +175,17 @@ export function classifierDeviations(set: RatingSet, classifierCode: string, med
   const ci = set.classifierCodes.indexOf(classifierCode);
   const items: number[] = [];
   if (ci >= 0) {
-    for (let p = 0; p < set.ratingCount; p++) if (set.ratingClassifier[p] === ci && !Number.isNaN(medians[p]!)) items.push(p);
+    for (let p = 0; p < set.ratingCount; p++) if (set.ratingClassifier[p] === ci && !Number.isNaN(medians[p])) items.push(p);
   }
   items.sort((x, y) => {
-    const ax = set.ratingAssessment[x]!;
-    const ay = set.ratingAssessment[y]!;
-    return set.day[ax]! - set.day[ay]! || ax - ay;
+    const ax = set.ratingAssessment[x];
+    const ay = set.ratingAssessment[y];
+    return set.day[ax] - set.day[ay] || ax - ay;
   });
   return {
     code: classifierCode,
-    assessment: Int32Array.from(items, (p) => set.ratingAssessment[p]!),
-    day: Int32Array.from(items, (p) => set.day[set.ratingAssessment[p]!]!),
-    deviation: Float64Array.from(items, (p) => (set.ratingClass[p]! - medians[p]!) / 2),
+    assessment: Int32Array.from(items, (p) => set.ratingAssessment[p]),
+    day: Int32Array.from(items, (p) => set.day[set.ratingAssessment[p]]),
+    deviation: Float64Array.from(items, (p) => (set.ratingClass[p] - medians[p]) / 2),
   };
 }

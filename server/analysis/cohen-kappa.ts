@@ -38,25 +38,25 @@ const EPS = 1e-12;
  */
 export function kappaFromTable(table: ArrayLike<number>, q: number, weights: ArrayLike<number>): KappaResult {
   let N = 0;
-  for (let i = 0; i < q * q; i++) N += table[i]!;
+  for (let i = 0; i < q * q; i++) N += table[i];
   const none = (reason: string, n: number): KappaResult => ({ ...undefinedStat(n, reason), se0: null, z: null, p: null, observed: null, expected: null });
   if (N <= 0) return none('no shared assessments', 0);
   const row = new Float64Array(q);
   const col = new Float64Array(q);
   for (let i = 0; i < q; i++) {
     for (let j = 0; j < q; j++) {
-      const p = table[i * q + j]! / N;
-      row[i]! += p;
-      col[j]! += p;
+      const p = table[i * q + j] / N;
+      row[i] += p;
+      col[j] += p;
     }
   }
   let po = 0;
   let pe = 0;
   for (let i = 0; i < q; i++) {
     for (let j = 0; j < q; j++) {
-      const w = weights[i * q + j]!;
-      po += (w * table[i * q + j]!) / N;
-      pe += w * row[i]! * col[j]!;
+      const w = weights[i * q + j];
+      po += (w * table[i * q + j]) / N;
+      pe += w * row[i] * col[j];
     }
   }
   if (1 - pe <= EPS) {
@@ -67,21 +67,21 @@ export function kappaFromTable(table: ArrayLike<number>, q: number, weights: Arr
   const wCol = new Float64Array(q);
   for (let i = 0; i < q; i++) {
     for (let j = 0; j < q; j++) {
-      const w = weights[i * q + j]!;
-      wRow[i]! += col[j]! * w;
-      wCol[j]! += row[i]! * w;
+      const w = weights[i * q + j];
+      wRow[i] += col[j] * w;
+      wCol[j] += row[i] * w;
     }
   }
   let s = 0;
   let s0 = 0;
   for (let i = 0; i < q; i++) {
     for (let j = 0; j < q; j++) {
-      const w = weights[i * q + j]!;
-      const pij = table[i * q + j]! / N;
-      const a = w - (wRow[i]! + wCol[j]!) * (1 - kappa);
+      const w = weights[i * q + j];
+      const pij = table[i * q + j] / N;
+      const a = w - (wRow[i] + wCol[j]) * (1 - kappa);
       s += pij * a * a;
-      const b = w - (wRow[i]! + wCol[j]!);
-      s0 += row[i]! * col[j]! * b * b;
+      const b = w - (wRow[i] + wCol[j]);
+      s0 += row[i] * col[j] * b * b;
     }
   }
   const denom = N * (1 - pe) * (1 - pe);
@@ -124,7 +124,7 @@ export function contingencyTable(a: readonly (number | null)[], b: readonly (num
     const x = a[i];
     const y = b[i];
     if (x === null || y === null || x === undefined || y === undefined) continue;
-    t[x * q + y]!++;
+    t[x * q + y]++;
   }
   return t;
 }

@@ -21,8 +21,8 @@ function toMatrix(flat: ArrayLike<number>, q: number): { counts: number[][]; n: 
   for (let i = 0; i < q; i++) {
     const row: number[] = [];
     for (let j = 0; j < q; j++) {
-      row.push(flat[i * q + j]!);
-      n += flat[i * q + j]!;
+      row.push(flat[i * q + j]);
+      n += flat[i * q + j];
     }
     counts.push(row);
   }
@@ -36,9 +36,9 @@ export function confusionWithPanel(set: RatingSet, classifierCode: string): Conf
   const ci = set.classifierCodes.indexOf(classifierCode);
   for (let p = 0; p < set.ratingCount; p++) {
     if (set.ratingClassifier[p] !== ci) continue;
-    const fin = set.panelClass[set.ratingAssessment[p]!]!;
+    const fin = set.panelClass[set.ratingAssessment[p]];
     if (fin < 0) continue;
-    flat[set.ratingClass[p]! * q + fin]!++;
+    flat[set.ratingClass[p] * q + fin]++;
   }
   const classes = Array.from({ length: q }, (_, i) => classLabel(set, i));
   return { classes, rowsAre: classifierCode, columnsAre: 'panel final class', ...toMatrix(flat, q) };
@@ -57,11 +57,11 @@ export function confusionBetween(set: RatingSet, a: string, b: string, pt?: Pair
   for (let s = 0; s < set.assessmentCount; s++) {
     let ca = -1;
     let cb = -1;
-    for (let p = set.ratingStart[s]!; p < set.ratingStart[s + 1]!; p++) {
+    for (let p = set.ratingStart[s]; p < set.ratingStart[s + 1]; p++) {
       if (set.ratingClassifier[p] === ia) ca = set.ratingClass[p]!;
       else if (set.ratingClassifier[p] === ib) cb = set.ratingClass[p]!;
     }
-    if (ca >= 0 && cb >= 0) flat[ca * q + cb]!++;
+    if (ca >= 0 && cb >= 0) flat[ca * q + cb]++;
   }
   return { classes, rowsAre: a, columnsAre: b, ...toMatrix(flat, q) };
 }

@@ -28,10 +28,10 @@ export function countTable(set: RatingSet): CountTable {
   const counts = new Int32Array(A * q);
   const totals = new Int32Array(A);
   for (let a = 0; a < A; a++) {
-    const s = ratingStart[a]!;
-    const e = ratingStart[a + 1]!;
+    const s = ratingStart[a];
+    const e = ratingStart[a + 1];
     const base = a * q;
-    for (let p = s; p < e; p++) counts[base + ratingClass[p]!]!++;
+    for (let p = s; p < e; p++) counts[base + ratingClass[p]]++;
     totals[a] = e - s;
   }
   return { q, rows: A, counts, totals, weights: new Int32Array(A).fill(1) };
@@ -59,7 +59,7 @@ export function countTableFromRatings(rows: readonly (readonly (number | null)[]
   return countTableFromRows(
     rows.map((r) => {
       const c = new Array<number>(q).fill(0);
-      for (const v of r) if (v !== null) c[v]!++;
+      for (const v of r) if (v !== null) c[v]++;
       return c;
     }),
     q,
@@ -78,7 +78,7 @@ export interface PatternTable extends CountTable {
 export function compressPatterns(table: CountTable, minTotal = 1): PatternTable {
   const { q, rows, counts, totals, weights } = table;
   let maxTotal = 0;
-  for (let i = 0; i < rows; i++) if (totals[i]! > maxTotal) maxTotal = totals[i]!;
+  for (let i = 0; i < rows; i++) if (totals[i] > maxTotal) maxTotal = totals[i]!;
   const base = maxTotal + 1;
   const numericKey = Math.pow(base, q) < Number.MAX_SAFE_INTEGER;
   const index = new Map<number | string, number>();
@@ -88,12 +88,12 @@ export function compressPatterns(table: CountTable, minTotal = 1): PatternTable 
   let pWeights: Int32Array = new Int32Array(16);
   let k = 0;
   for (let i = 0; i < rows; i++) {
-    if (totals[i]! < minTotal) continue;
+    if (totals[i] < minTotal) continue;
     const off = i * q;
     let key: number | string;
     if (numericKey) {
       let h = 0;
-      for (let j = 0; j < q; j++) h = h * base + counts[off + j]!;
+      for (let j = 0; j < q; j++) h = h * base + counts[off + j];
       key = h;
     } else {
       key = Array.prototype.join.call(counts.subarray(off, off + q), ',');
@@ -111,7 +111,7 @@ export function compressPatterns(table: CountTable, minTotal = 1): PatternTable 
       pCounts.set(counts.subarray(off, off + q), id * q);
       pTotals[id] = totals[i]!;
     }
-    pWeights[id]! += weights[i]!;
+    pWeights[id] += weights[i];
     unitPattern[i] = id;
   }
   return {

@@ -59,7 +59,7 @@ export function cusum(values: ArrayLike<number>, options: CusumOptions & { sigma
   let sp = 0;
   let sm = 0;
   for (let t = 0; t < n; t++) {
-    const z = (values[t]! - target) / sigma;
+    const z = (values[t] - target) / sigma;
     sp = Math.max(0, sp + z - k);
     sm = Math.max(0, sm - z - k);
     upper[t] = sp;
@@ -94,7 +94,7 @@ export function classifierDrift(set: RatingSet, classifierCode: string, options:
   let sigma = options.sigma;
   if (sigma === undefined) {
     const all: number[] = [];
-    for (let p = 0; p < set.ratingCount; p++) if (!Number.isNaN(medians[p]!)) all.push((set.ratingClass[p]! - medians[p]!) / 2);
+    for (let p = 0; p < set.ratingCount; p++) if (!Number.isNaN(medians[p])) all.push((set.ratingClass[p] - medians[p]) / 2);
     const s = all.length > 1 ? sampleStandardDeviation(all) : 0;
     sigma = s > 0 ? s : 0.25; // a quarter point when nobody ever deviates
   }
@@ -110,8 +110,8 @@ export function classifierDrift(set: RatingSet, classifierCode: string, options:
     alarm: first
       ? {
           index: first.index,
-          date: dayToIsoDate(series.day[first.index]!),
-          assessmentId: set.assessmentIds[series.assessment[first.index]!]!,
+          date: dayToIsoDate(series.day[first.index]),
+          assessmentId: set.assessmentIds[series.assessment[first.index]],
           direction: first.direction,
         }
       : null,

@@ -132,8 +132,8 @@ export function caseSpreads(cases: readonly ScoredCase[], answers: readonly Scor
     if (n === 0) {
       return { caseId: c.id, reference: c.reference, answers: 0, counts, lowest: null, highest: null, rangePoints: null, exactShare: null, split: false, boundary: null, lower: null, upper: null };
     }
-    const lowest = counts[0]!.sportClass;
-    const highest = counts[counts.length - 1]!.sportClass;
+    const lowest = counts[0].sportClass;
+    const highest = counts[counts.length - 1].sportClass;
     const exactShare = (tally.get(c.reference) ?? 0) / n;
     const split = highest > lowest;
     let boundary: number | null = null;
@@ -161,8 +161,8 @@ export function caseSpreads(cases: readonly ScoredCase[], answers: readonly Scor
       exactShare,
       split,
       boundary,
-      lower: boundary === null ? null : sideOf(list.filter((a) => a.sportClass <= boundary!)),
-      upper: boundary === null ? null : sideOf(list.filter((a) => a.sportClass > boundary!)),
+      lower: boundary === null ? null : sideOf(list.filter((a) => a.sportClass <= boundary)),
+      upper: boundary === null ? null : sideOf(list.filter((a) => a.sportClass > boundary)),
     };
   });
 }

@@ -58,17 +58,17 @@ function fleissSums(t: CountTable): FleissSums {
   let ratings = 0;
   let invPairs = 0;
   for (let i = 0; i < rows; i++) {
-    const n = totals[i]!;
-    const w = weights[i]!;
+    const n = totals[i];
+    const w = weights[i];
     if (n < 2 || w === 0) continue;
     const off = i * q;
     let agree = 0;
     for (let j = 0; j < q; j++) {
-      const c = counts[off + j]!;
+      const c = counts[off + j];
       if (c === 0) continue;
       agree += c * (c - 1);
-      classRatings[j]! += w * c;
-      classDisagree[j]! += (w * c * (n - c)) / (n - 1);
+      classRatings[j] += w * c;
+      classDisagree[j] += (w * c * (n - c)) / (n - 1);
     }
     const pairs = n * (n - 1);
     units += w;
@@ -85,7 +85,7 @@ export function fleissKappaValue(t: CountTable): number | null {
   if (s.units === 0) return null;
   let pq = 0;
   for (let j = 0; j < t.q; j++) {
-    const p = s.classRatings[j]! / s.ratings;
+    const p = s.classRatings[j] / s.ratings;
     pq += p * (1 - p);
   }
   if (pq <= EPS) return null;
@@ -114,7 +114,7 @@ export function fleissKappa(t: CountTable): FleissKappaResult {
   let pq = 0;
   let pqqp = 0;
   for (let j = 0; j < q; j++) {
-    const p = s.classRatings[j]! / s.ratings;
+    const p = s.classRatings[j] / s.ratings;
     shares.push(p);
     pq += p * (1 - p);
     pqqp += p * (1 - p) * (1 - 2 * p);
@@ -124,7 +124,7 @@ export function fleissKappa(t: CountTable): FleissKappaResult {
   const byClass: StatResult[] = shares.map((p, j) => {
     const d = p * (1 - p);
     if (d <= EPS) return undefinedStat(N, p === 0 ? 'class not used' : 'every rating is this class');
-    const k = 1 - s.classDisagree[j]! / (s.ratings * d);
+    const k = 1 - s.classDisagree[j] / (s.ratings * d);
     const se0 = Math.sqrt(factor);
     return { value: k, se: se0, ci95: waldInterval(k, se0), n: N };
   });
@@ -172,15 +172,15 @@ export function fleissKappaMeanShares(t: CountTable): StatResult {
   const pi = new Float64Array(q);
   let units1 = 0;
   for (let i = 0; i < rows; i++) {
-    const n = totals[i]!;
-    const w = weights[i]!;
+    const n = totals[i];
+    const w = weights[i];
     if (n < 1 || w === 0) continue;
     units1 += w;
-    for (let j = 0; j < q; j++) pi[j]! += (w * counts[i * q + j]!) / n;
+    for (let j = 0; j < q; j++) pi[j] += (w * counts[i * q + j]) / n;
   }
   let pq = 0;
   for (let j = 0; j < q; j++) {
-    const p = pi[j]! / units1;
+    const p = pi[j] / units1;
     pq += p * (1 - p);
   }
   if (pq <= EPS) return undefinedStat(s.units, 'expected agreement is 1 (every rating is the same class)');

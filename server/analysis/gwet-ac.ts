@@ -36,7 +36,7 @@ export function gwetAC(t: CountTable, weighting: Weighting = 'unweighted', wMatr
   const { q, rows, counts, totals, weights } = t;
   const W = wMatrix ?? agreementWeights(q, weighting);
   let Tw = 0;
-  for (let i = 0; i < q * q; i++) Tw += W[i]!;
+  for (let i = 0; i < q * q; i++) Tw += W[i];
   const pi = new Float64Array(q);
   let n = 0;
   let n2 = 0;
@@ -44,20 +44,20 @@ export function gwetAC(t: CountTable, weighting: Weighting = 'unweighted', wMatr
   const paUnit = new Float64Array(rows);
   const star = new Float64Array(q);
   for (let i = 0; i < rows; i++) {
-    const r = totals[i]!;
-    const w = weights[i]!;
+    const r = totals[i];
+    const w = weights[i];
     if (r < 1 || w === 0) continue;
     const off = i * q;
     n += w;
-    for (let k = 0; k < q; k++) pi[k]! += (w * counts[off + k]!) / r;
+    for (let k = 0; k < q; k++) pi[k] += (w * counts[off + k]) / r;
     if (r < 2) continue;
     n2 += w;
     let s = 0;
     for (let k = 0; k < q; k++) {
-      const rk = counts[off + k]!;
+      const rk = counts[off + k];
       if (rk === 0) continue;
       let st = 0;
-      for (let l = 0; l < q; l++) st += W[k * q + l]! * counts[off + l]!;
+      for (let l = 0; l < q; l++) st += W[k * q + l] * counts[off + l];
       star[k] = st;
       s += rk * (st - 1);
     }
@@ -67,9 +67,9 @@ export function gwetAC(t: CountTable, weighting: Weighting = 'unweighted', wMatr
   }
   const base = { observed: null, expected: null, seAdvisory: true as const };
   if (n2 === 0) return { ...undefinedStat(0, 'no assessment has two or more ratings'), ...base };
-  for (let k = 0; k < q; k++) pi[k] = pi[k]! / n;
+  for (let k = 0; k < q; k++) pi[k] = pi[k] / n;
   let spq = 0;
-  for (let k = 0; k < q; k++) spq += pi[k]! * (1 - pi[k]!);
+  for (let k = 0; k < q; k++) spq += pi[k] * (1 - pi[k]);
   const c = q > 1 ? Tw / (q * (q - 1)) : 0;
   const pe = c * spq;
   const pa = sumPa / n2;
@@ -79,14 +79,14 @@ export function gwetAC(t: CountTable, weighting: Weighting = 'unweighted', wMatr
   let ss = 0;
   if (n > 1) {
     for (let i = 0; i < rows; i++) {
-      const r = totals[i]!;
-      const w = weights[i]!;
+      const r = totals[i];
+      const w = weights[i];
       if (r < 1 || w === 0) continue;
       const off = i * q;
       // p_a|i = (n / n₂) · (unit agreement) for r_i ≥ 2, else 0, so that its mean over the n units is p_a.
-      const aci = ((r >= 2 ? (n / n2) * paUnit[i]! : 0) - pe) / (1 - pe);
+      const aci = ((r >= 2 ? (n / n2) * paUnit[i] : 0) - pe) / (1 - pe);
       let pei = 0;
-      for (let k = 0; k < q; k++) pei += (counts[off + k]! * (1 - pi[k]!)) / r;
+      for (let k = 0; k < q; k++) pei += (counts[off + k] * (1 - pi[k])) / r;
       pei *= c;
       const x = aci - (2 * (1 - ac) * (pei - pe)) / (1 - pe) - ac;
       ss += w * x * x;

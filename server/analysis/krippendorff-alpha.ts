@@ -28,19 +28,19 @@ export function coincidenceMatrix(t: CountTable): { o: Float64Array; marginals: 
   const o = new Float64Array(q * q);
   let units = 0;
   for (let i = 0; i < rows; i++) {
-    const m = totals[i]!;
-    const w = weights[i]!;
+    const m = totals[i];
+    const w = weights[i];
     if (m < 2 || w === 0) continue;
     units += w;
     const off = i * q;
     const f = w / (m - 1);
     for (let c = 0; c < q; c++) {
-      const nc = counts[off + c]!;
+      const nc = counts[off + c];
       if (nc === 0) continue;
       for (let k = 0; k < q; k++) {
-        const nk = counts[off + k]!;
+        const nk = counts[off + k];
         if (nk === 0) continue;
-        o[c * q + k]! += f * nc * (c === k ? nk - 1 : nk);
+        o[c * q + k] += f * nc * (c === k ? nk - 1 : nk);
       }
     }
   }
@@ -48,7 +48,7 @@ export function coincidenceMatrix(t: CountTable): { o: Float64Array; marginals: 
   let n = 0;
   for (let c = 0; c < q; c++) {
     let s = 0;
-    for (let k = 0; k < q; k++) s += o[c * q + k]!;
+    for (let k = 0; k < q; k++) s += o[c * q + k];
     marginals[c] = s;
     n += s;
   }
@@ -64,16 +64,16 @@ export function alphaDistances(metric: AlphaMetric, values: ArrayLike<number>, m
       let x = 0;
       if (c === k) x = 0;
       else if (metric === 'nominal') x = 1;
-      else if (metric === 'interval') x = (values[c]! - values[k]!) ** 2;
+      else if (metric === 'interval') x = (values[c] - values[k]) ** 2;
       else if (metric === 'ratio') {
-        const s = values[c]! + values[k]!;
-        x = s === 0 ? 0 : ((values[c]! - values[k]!) / s) ** 2;
+        const s = values[c] + values[k];
+        x = s === 0 ? 0 : ((values[c] - values[k]) / s) ** 2;
       } else {
         const lo = Math.min(c, k);
         const hi = Math.max(c, k);
         let g = 0;
-        for (let h = lo; h <= hi; h++) g += marginals[h]!;
-        x = (g - (marginals[c]! + marginals[k]!) / 2) ** 2;
+        for (let h = lo; h <= hi; h++) g += marginals[h];
+        x = (g - (marginals[c] + marginals[k]) / 2) ** 2;
       }
       d[c * q + k] = x;
     }
@@ -96,10 +96,10 @@ export function krippendorffAlpha(t: CountTable, metric: AlphaMetric, values?: A
   let exp = 0;
   for (let c = 0; c < q; c++) {
     for (let k = 0; k < q; k++) {
-      const x = d[c * q + k]!;
+      const x = d[c * q + k];
       if (x === 0) continue;
-      obs += o[c * q + k]! * x;
-      exp += marginals[c]! * marginals[k]! * x;
+      obs += o[c * q + k] * x;
+      exp += marginals[c] * marginals[k] * x;
     }
   }
   const Do = obs / n;

@@ -40,8 +40,8 @@ export function observedAgreement(t: CountTable): ObservedAgreement {
   let sqExact = 0;
   let sqWithin = 0;
   for (let i = 0; i < rows; i++) {
-    const n = totals[i]!;
-    const w = weights[i]!;
+    const n = totals[i];
+    const w = weights[i];
     if (n < 2 || w === 0) continue;
     const off = i * q;
     let lo = -1;
@@ -49,12 +49,12 @@ export function observedAgreement(t: CountTable): ObservedAgreement {
     let same = 0;
     let near = 0;
     for (let j = 0; j < q; j++) {
-      const c = counts[off + j]!;
+      const c = counts[off + j];
       if (c === 0) continue;
       if (lo < 0) lo = j;
       hi = j;
       same += c * (c - 1);
-      if (j + 1 < q) near += 2 * c * counts[off + j + 1]!;
+      if (j + 1 < q) near += 2 * c * counts[off + j + 1];
     }
     const pairs = n * (n - 1);
     const pe = same / pairs;

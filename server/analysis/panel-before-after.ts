@@ -55,8 +55,8 @@ function windowFigures(set: RatingSet, code: string, assessments: readonly numbe
   if (!c) return emptyWindow(reason);
   return {
     n: assessments.length,
-    from: dayToIsoDate(days[0]!),
-    to: dayToIsoDate(days[days.length - 1]!),
+    from: dayToIsoDate(days[0]),
+    to: dayToIsoDate(days[days.length - 1]),
     exactWithPanel: c.exactWithPanel,
     withinHalfWithPanel: c.withinHalfWithPanel,
     quadraticKappaWithPanel: c.quadraticKappaWithPanel,
@@ -75,12 +75,12 @@ export function panelBeforeAfter(set: RatingSet, code: string, opensOn: string, 
   const beforeIdx: number[] = [];
   const afterIdx: number[] = [];
   for (let i = 0; i < series.day.length; i++) {
-    if (series.day[i]! < open) beforeIdx.push(i);
-    else if (series.day[i]! > close) afterIdx.push(i);
+    if (series.day[i] < open) beforeIdx.push(i);
+    else if (series.day[i] > close) afterIdx.push(i);
   }
   const lastBefore = beforeIdx.slice(Math.max(0, beforeIdx.length - window));
   const firstAfter = afterIdx.slice(0, window);
-  const pick = (idx: number[]) => [idx.map((i) => series.assessment[i]!), idx.map((i) => series.day[i]!)] as const;
+  const pick = (idx: number[]) => [idx.map((i) => series.assessment[i]), idx.map((i) => series.day[i])] as const;
   const [ba, bd] = pick(lastBefore);
   const [aa, ad] = pick(firstAfter);
 
@@ -88,14 +88,14 @@ export function panelBeforeAfter(set: RatingSet, code: string, opensOn: string, 
   const openQuarter = dayToQuarter(open);
   const closeQuarter = dayToQuarter(close);
   for (let i = 0; i < series.day.length; i++) {
-    const day = series.day[i]!;
+    const day = series.day[i];
     const quarter = dayToQuarter(day);
     let g = groups.get(quarter);
     if (!g) {
       const phase = quarter < openQuarter ? 'before' : quarter > closeQuarter ? 'after' : 'during';
       groups.set(quarter, (g = { devs: [], phase }));
     }
-    g.devs.push(series.deviation[i]!);
+    g.devs.push(series.deviation[i]);
   }
   const quarters = [...groups.entries()]
     .sort(([x], [y]) => (x < y ? -1 : x > y ? 1 : 0))

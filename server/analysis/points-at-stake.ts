@@ -56,13 +56,13 @@ export function pointsAtStake(set: RatingSet): { federation: PointsAtStake; clas
   const per: Acc[] = Array.from({ length: C }, () => ({ n: 0, sum: 0, sumSq: 0, off: 0 }));
   const all: Acc = { n: 0, sum: 0, sumSq: 0, off: 0 };
   for (let a = 0; a < set.assessmentCount; a++) {
-    const s = set.ratingStart[a]!;
-    const e = set.ratingStart[a + 1]!;
-    const fin = set.panelClass[a]!;
+    const s = set.ratingStart[a];
+    const e = set.ratingStart[a + 1];
+    const fin = set.panelClass[a];
     if (e - s < 2 || fin < 0) continue;
     for (let p = s; p < e; p++) {
-      const d = Math.abs(set.ratingClass[p]! - fin) / 2;
-      for (const acc of [per[set.ratingClassifier[p]!]!, all]) {
+      const d = Math.abs(set.ratingClass[p] - fin) / 2;
+      for (const acc of [per[set.ratingClassifier[p]], all]) {
         acc.n++;
         acc.sum += d;
         acc.sumSq += d * d;
@@ -72,7 +72,7 @@ export function pointsAtStake(set: RatingSet): { federation: PointsAtStake; clas
   }
   const classifiers = new Map<string, PointsAtStake>();
   per.forEach((acc, i) => {
-    if (acc.n > 0) classifiers.set(set.classifierCodes[i]!, finish(acc));
+    if (acc.n > 0) classifiers.set(set.classifierCodes[i], finish(acc));
   });
   return { federation: finish(all), classifiers };
 }
@@ -101,8 +101,8 @@ export function twoRaterTable(counts: readonly (readonly number[])[]): CountTabl
   const totals = new Int32Array(cells.length).fill(2);
   const weights = new Int32Array(cells.length);
   cells.forEach(([r, c, m], i) => {
-    table[i * q + r]!++;
-    table[i * q + c]!++;
+    table[i * q + r]++;
+    table[i * q + c]++;
     weights[i] = m;
   });
   return { q, rows: cells.length, counts: table, totals, weights };

@@ -21,7 +21,7 @@ export function seriesByQuarter<R>(set: RatingSet, statistic: (quarter: RatingSe
   const quarterOf = new Int32Array(set.assessmentCount);
   const names: string[] = [];
   for (let a = 0; a < set.assessmentCount; a++) {
-    const label = dayToQuarter(set.day[a]!);
+    const label = dayToQuarter(set.day[a]);
     let i = labels.get(label);
     if (i === undefined) {
       i = names.length;
@@ -42,10 +42,10 @@ export function deviationByQuarter(set: RatingSet, classifierCode: string): Quar
   const series = classifierDeviations(set, classifierCode, othersMedian(set));
   const groups = new Map<string, number[]>();
   for (let i = 0; i < series.day.length; i++) {
-    const label = dayToQuarter(series.day[i]!);
+    const label = dayToQuarter(series.day[i]);
     let g = groups.get(label);
     if (!g) groups.set(label, (g = []));
-    g.push(series.deviation[i]!);
+    g.push(series.deviation[i]);
   }
   return [...groups.entries()]
     .sort(([x], [y]) => (x < y ? -1 : x > y ? 1 : 0))

@@ -142,7 +142,7 @@ export function buildRatingSet(rows: readonly RatingRow[], scale: ClassScale): R
   let firstRow = new Int32Array(cap);
 
   for (let r = 0; r < n; r++) {
-    const row = rows[r]!;
+    const row = rows[r];
     const id = row.assessmentId;
     if (typeof id !== 'string' || id.trim() === '') throw new RatingInputError(r, 'assessmentId', id, 'is blank');
     const cc = row.classifierCode;
@@ -189,33 +189,33 @@ export function buildRatingSet(rows: readonly RatingRow[], scale: ClassScale): R
       event[a] = ev;
       firstRow[a] = r;
     } else {
-      const first = firstRow[a]!;
+      const first = firstRow[a];
       if (athlete[a] !== ath) throw new RatingInputError(r, 'athleteCode', row.athleteCode, `differs from row ${first + 1} of assessment ${id}`);
       if (event[a] !== ev) throw new RatingInputError(r, 'eventCode', row.eventCode, `differs from row ${first + 1} of assessment ${id}`);
       if (day[a] !== dayNumber) throw new RatingInputError(r, 'assessedOn', row.assessedOn, `differs from row ${first + 1} of assessment ${id}`);
       if (kind[a] !== kindIndex) throw new RatingInputError(r, 'kind', k, `differs from row ${first + 1} of assessment ${id}`);
       if (pcIndex !== panel[a]) {
         // A panel class written on only some rows of the assessment is accepted; two different ones are not.
-        if (pcIndex >= 0 && panel[a]! >= 0) throw new RatingInputError(r, 'panelClass', pc, `differs from an earlier row of assessment ${id}`);
+        if (pcIndex >= 0 && panel[a] >= 0) throw new RatingInputError(r, 'panelClass', pc, `differs from an earlier row of assessment ${id}`);
         if (pcIndex >= 0) panel[a] = pcIndex;
       }
     }
     rowAssessment[r] = a;
     rowClassifier[r] = intern(classifierMap, classifierCodes, cc);
     rowClass[r] = classIndex(row.sportClass, scale);
-    count[a]!++;
+    count[a]++;
   }
 
   const A = assessmentIds.length;
   const ratingStart = new Int32Array(A + 1);
-  for (let a = 0; a < A; a++) ratingStart[a + 1] = ratingStart[a]! + count[a]!;
+  for (let a = 0; a < A; a++) ratingStart[a + 1] = ratingStart[a] + count[a];
   const fill = ratingStart.slice(0, A);
   const ratingAssessment = new Int32Array(n);
   const ratingClassifier = new Int32Array(n);
   const ratingClass = new Int32Array(n);
   for (let r = 0; r < n; r++) {
-    const a = rowAssessment[r]!;
-    const pos = fill[a]!++;
+    const a = rowAssessment[r];
+    const pos = fill[a]++;
     ratingAssessment[pos] = a;
     ratingClassifier[pos] = rowClassifier[r]!;
     ratingClass[pos] = rowClass[r]!;
@@ -223,8 +223,8 @@ export function buildRatingSet(rows: readonly RatingRow[], scale: ClassScale): R
   // The same classifier twice on one assessment is an input error.
   const seen = new Int32Array(classifierCodes.length).fill(-1);
   for (let a = 0; a < A; a++) {
-    for (let p = ratingStart[a]!; p < ratingStart[a + 1]!; p++) {
-      const c = ratingClassifier[p]!;
+    for (let p = ratingStart[a]; p < ratingStart[a + 1]; p++) {
+      const c = ratingClassifier[p];
       if (seen[c] === a) {
         const row = findRow(rowAssessment, rowClassifier, a, c, 2);
         throw new RatingInputError(row, 'classifierCode', classifierCodes[c], `rates assessment ${assessmentIds[a]} twice`);
@@ -280,7 +280,7 @@ export function subsetRatingSet(set: RatingSet, keep: (assessment: number, set: 
   for (let a = 0; a < A; a++) {
     if (keep(a, set)) {
       chosen[m++] = a;
-      ratings += set.ratingStart[a + 1]! - set.ratingStart[a]!;
+      ratings += set.ratingStart[a + 1] - set.ratingStart[a];
     }
   }
   const ratingStart = new Int32Array(m + 1);
@@ -295,9 +295,9 @@ export function subsetRatingSet(set: RatingSet, keep: (assessment: number, set: 
   const assessmentIds: string[] = new Array<string>(m);
   let pos = 0;
   for (let i = 0; i < m; i++) {
-    const a = chosen[i]!;
+    const a = chosen[i];
     ratingStart[i] = pos;
-    for (let p = set.ratingStart[a]!; p < set.ratingStart[a + 1]!; p++) {
+    for (let p = set.ratingStart[a]; p < set.ratingStart[a + 1]; p++) {
       ratingAssessment[pos] = i;
       ratingClassifier[pos] = set.ratingClassifier[p]!;
       ratingClass[pos] = set.ratingClass[p]!;
@@ -355,13 +355,13 @@ export function filterRatingSet(set: RatingSet, filter: AssessmentFilter): Ratin
   const kindMask = filter.kinds ? ASSESSMENT_KINDS.map((k) => filter.kinds!.includes(k)) : null;
   const classifierSet = filter.classifierCodes ? codeMask(set.classifierCodes, filter.classifierCodes) : null;
   return subsetRatingSet(set, (a) => {
-    const d = set.day[a]!;
+    const d = set.day[a];
     if (d < from || d > to) return false;
-    if (eventSet && !eventSet[set.event[a]!]) return false;
-    if (athleteSet && !athleteSet[set.athlete[a]!]) return false;
-    if (kindMask && !kindMask[set.kind[a]!]) return false;
+    if (eventSet && !eventSet[set.event[a]]) return false;
+    if (athleteSet && !athleteSet[set.athlete[a]]) return false;
+    if (kindMask && !kindMask[set.kind[a]]) return false;
     if (classifierSet) {
-      for (let p = set.ratingStart[a]!; p < set.ratingStart[a + 1]!; p++) if (classifierSet[set.ratingClassifier[p]!]) return true;
+      for (let p = set.ratingStart[a]; p < set.ratingStart[a + 1]; p++) if (classifierSet[set.ratingClassifier[p]]) return true;
       return false;
     }
     return true;
@@ -371,7 +371,7 @@ export function filterRatingSet(set: RatingSet, filter: AssessmentFilter): Ratin
 function codeMask(dictionary: readonly string[], wanted: readonly string[]): Uint8Array {
   const want = new Set(wanted);
   const mask = new Uint8Array(dictionary.length);
-  for (let i = 0; i < dictionary.length; i++) if (want.has(dictionary[i]!)) mask[i] = 1;
+  for (let i = 0; i < dictionary.length; i++) if (want.has(dictionary[i])) mask[i] = 1;
   return mask;
 }
 

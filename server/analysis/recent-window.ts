@@ -31,7 +31,7 @@ export function recentPanelComparison(set: RatingSet, classifierCode: string, wi
   const total = series.assessment.length;
   const start = Math.max(0, total - Math.max(0, Math.floor(window)));
   const keep = new Uint8Array(set.assessmentCount);
-  for (let i = start; i < total; i++) keep[series.assessment[i]!] = 1;
+  for (let i = start; i < total; i++) keep[series.assessment[i]] = 1;
   const n = total - start;
   if (n === 0) return { code: classifierCode, window, n: 0, from: null, to: null, comparison: null };
   const sub = subsetRatingSet(set, (a) => keep[a] === 1);
@@ -40,8 +40,8 @@ export function recentPanelComparison(set: RatingSet, classifierCode: string, wi
     code: classifierCode,
     window,
     n,
-    from: dayToIsoDate(series.day[start]!),
-    to: dayToIsoDate(series.day[total - 1]!),
+    from: dayToIsoDate(series.day[start]),
+    to: dayToIsoDate(series.day[total - 1]),
     comparison,
   };
 }

@@ -93,7 +93,7 @@ export function analyzeRatings(set: RatingSet, options: AnalyzeOptions = {}): Ag
   // Identical panels merged once; every count-table statistic reads the patterns.
   const patterns: CountTable = compressPatterns(table, 1);
   let analysable = 0;
-  for (let a = 0; a < table.rows; a++) if (table.totals[a]! >= 2) analysable++;
+  for (let a = 0; a < table.rows; a++) if (table.totals[a] >= 2) analysable++;
   const points = Float64Array.from({ length: q }, (_, i) => classPoints(set, i));
 
   const agreement = observedAgreement(patterns);
@@ -180,7 +180,7 @@ function countUsed(indices: Int32Array, size: number): number {
   const seen = new Uint8Array(size);
   let n = 0;
   for (let i = 0; i < indices.length; i++) {
-    const v = indices[i]!;
+    const v = indices[i];
     if (!seen[v]) {
       seen[v] = 1;
       n++;

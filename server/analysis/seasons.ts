@@ -58,25 +58,25 @@ export function classDistributionBySeason(set: RatingSet, startMonth = SEASON_ST
   const q = set.q;
   const bySeason = new Map<number, Float64Array>();
   for (let a = 0; a < set.assessmentCount; a++) {
-    const o = outcome[a]!;
+    const o = outcome[a];
     if (o < 0) continue;
-    const y = dayToSeasonYear(set.day[a]!, startMonth);
+    const y = dayToSeasonYear(set.day[a], startMonth);
     let counts = bySeason.get(y);
     if (!counts) bySeason.set(y, (counts = new Float64Array(q)));
-    counts[o]!++;
+    counts[o]++;
   }
   const labels = Array.from({ length: q }, (_, i) => classLabel(set, i));
   return [...bySeason.entries()]
     .sort(([x], [y]) => x - y)
     .map(([year, counts]) => {
       let n = 0;
-      for (let i = 0; i < q; i++) n += counts[i]!;
+      for (let i = 0; i < q; i++) n += counts[i];
       return {
         season: seasonLabel(year),
         year,
         n,
-        counts: Object.fromEntries(labels.map((l, i) => [l, counts[i]!])),
-        shares: Object.fromEntries(labels.map((l, i) => [l, n > 0 ? counts[i]! / n : null])),
+        counts: Object.fromEntries(labels.map((l, i) => [l, counts[i]])),
+        shares: Object.fromEntries(labels.map((l, i) => [l, n > 0 ? counts[i] / n : null])),
       };
     });
 }

@@ -119,7 +119,7 @@ function makeUnionFind(n: number): { find: (x: number) => number; union: (x: num
   const size = new Int32Array(n).fill(1);
   const find = (x: number): number => {
     while (parent[x] !== x) {
-      parent[x] = parent[parent[x]!]!;
+      parent[x] = parent[parent[x]]!;
       x = parent[x]!;
     }
     return x;
@@ -128,9 +128,9 @@ function makeUnionFind(n: number): { find: (x: number) => number; union: (x: num
     let rx = find(x);
     let ry = find(y);
     if (rx === ry) return;
-    if (size[rx]! < size[ry]!) [rx, ry] = [ry, rx];
+    if (size[rx] < size[ry]) [rx, ry] = [ry, rx];
     parent[ry] = rx;
-    size[rx]! += size[ry]!;
+    size[rx] += size[ry];
   };
   return { find, union };
 }
@@ -138,14 +138,14 @@ function makeUnionFind(n: number): { find: (x: number) => number; union: (x: num
 /** Cholesky factorisation of a dense symmetric positive-definite K × K matrix (row-major), in place; false if not positive definite. */
 function cholesky(m: Float64Array, k: number): boolean {
   for (let j = 0; j < k; j++) {
-    let d = m[j * k + j]!;
-    for (let p = 0; p < j; p++) d -= m[j * k + p]! * m[j * k + p]!;
+    let d = m[j * k + j];
+    for (let p = 0; p < j; p++) d -= m[j * k + p] * m[j * k + p];
     if (!(d > 1e-12)) return false;
     const l = Math.sqrt(d);
     m[j * k + j] = l;
     for (let i = j + 1; i < k; i++) {
-      let s = m[i * k + j]!;
-      for (let p = 0; p < j; p++) s -= m[i * k + p]! * m[j * k + p]!;
+      let s = m[i * k + j];
+      for (let p = 0; p < j; p++) s -= m[i * k + p] * m[j * k + p];
       m[i * k + j] = s / l;
     }
   }
@@ -157,18 +157,18 @@ function choleskyInverse(l: Float64Array, k: number): Float64Array {
   // Inverse of L (lower triangular), then (L⁻¹)ᵀ L⁻¹.
   const li = new Float64Array(k * k);
   for (let j = 0; j < k; j++) {
-    li[j * k + j] = 1 / l[j * k + j]!;
+    li[j * k + j] = 1 / l[j * k + j];
     for (let i = j + 1; i < k; i++) {
       let s = 0;
-      for (let p = j; p < i; p++) s -= l[i * k + p]! * li[p * k + j]!;
-      li[i * k + j] = s / l[i * k + i]!;
+      for (let p = j; p < i; p++) s -= l[i * k + p] * li[p * k + j];
+      li[i * k + j] = s / l[i * k + i];
     }
   }
   const inv = new Float64Array(k * k);
   for (let i = 0; i < k; i++) {
     for (let j = 0; j <= i; j++) {
       let s = 0;
-      for (let p = i; p < k; p++) s += li[p * k + i]! * li[p * k + j]!;
+      for (let p = i; p < k; p++) s += li[p * k + i] * li[p * k + j];
       inv[i * k + j] = s;
       inv[j * k + i] = s;
     }
@@ -191,40 +191,40 @@ function fitLeastSquares(
   const { ratingStart, ratingClassifier, ratingClass } = set;
   // Class index / 2 = points up to an offset that cancels in every difference.
   const y = new Float64Array(set.ratingCount);
-  for (let p = 0; p < set.ratingCount; p++) y[p] = ratingClass[p]! / 2;
+  for (let p = 0; p < set.ratingCount; p++) y[p] = ratingClass[p] / 2;
   const Q = new Float64Array(K);
   for (let a = 0; a < set.assessmentCount; a++) {
     if (!keep[a]) continue;
-    const s = ratingStart[a]!;
-    const e = ratingStart[a + 1]!;
+    const s = ratingStart[a];
+    const e = ratingStart[a + 1];
     let sum = 0;
-    for (let p = s; p < e; p++) sum += y[p]!;
+    for (let p = s; p < e; p++) sum += y[p];
     const mean = sum / (e - s);
-    for (let p = s; p < e; p++) Q[local[ratingClassifier[p]!]!]! += y[p]! - mean;
+    for (let p = s; p < e; p++) Q[local[ratingClassifier[p]]] += y[p] - mean;
   }
   const beta = new Float64Array(K);
   let centre = 0;
   for (let i = 0; i < K; i++) {
     let v = 0;
-    for (let j = 0; j < K; j++) v += pinv[i * K + j]! * Q[j]!;
+    for (let j = 0; j < K; j++) v += pinv[i * K + j] * Q[j];
     beta[i] = v;
     centre += v;
   }
   // Centred exactly (C⁺Q already sums to 0 up to rounding).
   centre /= K;
-  for (let i = 0; i < K; i++) beta[i]! -= centre;
+  for (let i = 0; i < K; i++) beta[i] -= centre;
   const level = new Float64Array(set.assessmentCount);
   let rss = 0;
   for (let a = 0; a < set.assessmentCount; a++) {
     if (!keep[a]) continue;
-    const s = ratingStart[a]!;
-    const e = ratingStart[a + 1]!;
+    const s = ratingStart[a];
+    const e = ratingStart[a + 1];
     let l = 0;
-    for (let p = s; p < e; p++) l += y[p]! - beta[local[ratingClassifier[p]!]!]!;
+    for (let p = s; p < e; p++) l += y[p] - beta[local[ratingClassifier[p]]];
     l /= e - s;
     level[a] = l;
     for (let p = s; p < e; p++) {
-      const r = y[p]! - l - beta[local[ratingClassifier[p]!]!]!;
+      const r = y[p] - l - beta[local[ratingClassifier[p]]];
       rss += r * r;
     }
   }
@@ -255,11 +255,11 @@ function clusterRobustVariance(
   const athletes = set.athleteCodes.length;
   // Assessments grouped by athlete (counting sort).
   const start = new Int32Array(athletes + 1);
-  for (let a = 0; a < set.assessmentCount; a++) if (keep[a]) start[set.athlete[a]! + 1]!++;
-  for (let g = 0; g < athletes; g++) start[g + 1]! += start[g]!;
+  for (let a = 0; a < set.assessmentCount; a++) if (keep[a]) start[set.athlete[a] + 1]++;
+  for (let g = 0; g < athletes; g++) start[g + 1] += start[g];
   const fill = start.slice(0, athletes);
   const byAthlete = new Int32Array(A);
-  for (let a = 0; a < set.assessmentCount; a++) if (keep[a]) byAthlete[fill[set.athlete[a]!]!++] = a;
+  for (let a = 0; a < set.assessmentCount; a++) if (keep[a]) byAthlete[fill[set.athlete[a]]++] = a;
   let G = 0;
   const score = new Float64Array(K);
   const touched = new Int32Array(K);
@@ -269,30 +269,30 @@ function clusterRobustVariance(
     if (start[g] === start[g + 1]) continue;
     G++;
     let nt = 0;
-    for (let t = start[g]!; t < start[g + 1]!; t++) {
-      const a = byAthlete[t]!;
-      for (let p = ratingStart[a]!; p < ratingStart[a + 1]!; p++) {
-        const i = local[ratingClassifier[p]!]!;
+    for (let t = start[g]; t < start[g + 1]; t++) {
+      const a = byAthlete[t];
+      for (let p = ratingStart[a]; p < ratingStart[a + 1]; p++) {
+        const i = local[ratingClassifier[p]];
         if (!mark[i]) {
           mark[i] = 1;
           touched[nt++] = i;
         }
-        score[i]! += fit.y[p]! - fit.level[a]! - fit.beta[i]!;
+        score[i] += fit.y[p] - fit.level[a] - fit.beta[i];
       }
     }
     for (let i = 0; i < K; i++) {
       let u = 0;
-      for (let t = 0; t < nt; t++) u += pinv[i * K + touched[t]!]! * score[touched[t]!]!;
-      variance[i]! += u * u;
+      for (let t = 0; t < nt; t++) u += pinv[i * K + touched[t]] * score[touched[t]];
+      variance[i] += u * u;
     }
     for (let t = 0; t < nt; t++) {
-      score[touched[t]!] = 0;
-      mark[touched[t]!] = 0;
+      score[touched[t]] = 0;
+      mark[touched[t]] = 0;
     }
   }
   if (G < 2 || df <= 0) return null;
   const factor = (G / (G - 1)) * ((N - A) / df);
-  for (let i = 0; i < K; i++) variance[i]! *= factor;
+  for (let i = 0; i < K; i++) variance[i] *= factor;
   return variance;
 }
 
@@ -306,8 +306,8 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
   const ratingsOf = new Int32Array(C);
   const used = new Uint8Array(C);
   for (let p = 0; p < set.ratingCount; p++) {
-    const c = ratingClassifier[p]!;
-    ratingsOf[c]!++;
+    const c = ratingClassifier[p];
+    ratingsOf[c]++;
     used[c] = 1;
   }
 
@@ -316,8 +316,8 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
   const q = set.q;
   const informative = new Uint8Array(set.assessmentCount);
   for (let a = 0; a < set.assessmentCount; a++) {
-    const s = ratingStart[a]!;
-    const e = ratingStart[a + 1]!;
+    const s = ratingStart[a];
+    const e = ratingStart[a + 1];
     if (e - s < 2) continue;
     let low = 0;
     let high = 0;
@@ -338,36 +338,36 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
   const inPanel = new Uint8Array(C);
   const inFit = new Uint8Array(C);
   for (let a = 0; a < set.assessmentCount; a++) {
-    const s = ratingStart[a]!;
-    const e = ratingStart[a + 1]!;
+    const s = ratingStart[a];
+    const e = ratingStart[a + 1];
     if (e - s < 2) continue;
-    const first = ratingClassifier[s]!;
+    const first = ratingClassifier[s];
     for (let p = s; p < e; p++) {
-      const i = ratingClassifier[p]!;
+      const i = ratingClassifier[p];
       inPanel[i] = 1;
-      sharedOf[i]!++;
+      sharedOf[i]++;
       if (informative[a]) {
         inFit[i] = 1;
         uf.union(first, i);
       }
       for (let r = p + 1; r < e; r++) {
-        const j = ratingClassifier[r]!;
+        const j = ratingClassifier[r];
         const key = i < j ? i * C + j : j * C + i;
-        if (dense) dense[key]!++;
+        if (dense) dense[key]++;
         else pairShared.set(key, (pairShared.get(key) ?? 0) + 1);
       }
     }
   }
-  if (dense) for (let key = 0; key < C * C; key++) if (dense[key]! > 0) pairShared.set(key, dense[key]!);
+  if (dense) for (let key = 0; key < C * C; key++) if (dense[key] > 0) pairShared.set(key, dense[key]);
   const linksOf = new Int32Array(C);
   const edges: PanelNetworkEdge[] = [];
   for (const [key, shared] of pairShared) {
     const i = Math.floor(key / C);
     const j = key % C;
-    linksOf[i]!++;
-    linksOf[j]!++;
-    const ci = set.classifierCodes[i]!;
-    const cj = set.classifierCodes[j]!;
+    linksOf[i]++;
+    linksOf[j]++;
+    const ci = set.classifierCodes[i];
+    const cj = set.classifierCodes[j];
     const [x, y] = ci < cj ? [ci, cj] : [cj, ci];
     edges.push({ a: x, b: y, shared });
   }
@@ -385,31 +385,31 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
       rootIndex.set(r, g);
       groups.push({ members: [], ratings: 0, assessments: 0 });
     }
-    groups[g]!.members.push(c);
+    groups[g].members.push(c);
   }
   for (let a = 0; a < set.assessmentCount; a++) {
     if (!informative[a]) continue;
-    const s = ratingStart[a]!;
-    const e = ratingStart[a + 1]!;
-    const g = groups[rootIndex.get(uf.find(ratingClassifier[s]!))!]!;
+    const s = ratingStart[a];
+    const e = ratingStart[a + 1];
+    const g = groups[rootIndex.get(uf.find(ratingClassifier[s]))!];
     g.ratings += e - s;
     g.assessments++;
   }
-  const codeOrder = (x: number, y: number) => (set.classifierCodes[x]! < set.classifierCodes[y]! ? -1 : 1);
+  const codeOrder = (x: number, y: number) => (set.classifierCodes[x] < set.classifierCodes[y] ? -1 : 1);
   const order = groups.map((_, i) => i).sort((x, y) => {
-    const gx = groups[x]!;
-    const gy = groups[y]!;
+    const gx = groups[x];
+    const gy = groups[y];
     return gy.members.length - gx.members.length || gy.ratings - gx.ratings || codeOrder(Math.min(...gx.members), Math.min(...gy.members));
   });
   const componentOf = new Int32Array(C).fill(-1);
   order.forEach((g, rank) => {
-    for (const c of groups[g]!.members) componentOf[c] = rank;
+    for (const c of groups[g].members) componentOf[c] = rank;
   });
   const network: PanelNetwork = {
     components: order.map((g) => ({
-      classifiers: groups[g]!.members.map((c) => set.classifierCodes[c]!).sort(),
-      ratings: groups[g]!.ratings,
-      assessments: groups[g]!.assessments,
+      classifiers: groups[g].members.map((c) => set.classifierCodes[c]).sort(),
+      ratings: groups[g].ratings,
+      assessments: groups[g].assessments,
     })),
     edges,
   };
@@ -417,19 +417,19 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
   const main = network.components[0];
   const K = main ? main.classifiers.length : 0;
   const local = new Int32Array(C).fill(-1);
-  if (main) [...groups[order[0]!]!.members].sort(codeOrder).forEach((c, i) => (local[c] = i));
+  if (main) [...groups[order[0]].members].sort(codeOrder).forEach((c, i) => (local[c] = i));
 
   const out = (c: number, fields: Pick<ClassifierSeverity, 'value' | 'se' | 'ci95' | 'n'> & { reason?: string }): ClassifierSeverity => {
     const row: ClassifierSeverity = {
-      code: set.classifierCodes[c]!,
+      code: set.classifierCodes[c],
       value: fields.value,
       se: fields.se,
       ci95: fields.ci95,
       n: fields.n,
-      ratings: ratingsOf[c]!,
-      links: linksOf[c]!,
-      sharedAssessments: sharedOf[c]!,
-      component: componentOf[c]!,
+      ratings: ratingsOf[c],
+      links: linksOf[c],
+      sharedAssessments: sharedOf[c],
+      component: componentOf[c],
     };
     if (fields.reason !== undefined) row.reason = fields.reason;
     return row;
@@ -437,7 +437,7 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
   const unlinkedReason = (c: number): string => {
     if (!inPanel[c]) return 'never sat on a panel of two or more: no one to compare with';
     if (!inFit[c]) return 'sat only on panels whose ratings all sit in the lowest or all in the highest class: no one to compare with';
-    const comp = network.components[componentOf[c]!]!;
+    const comp = network.components[componentOf[c]];
     const group = comp.classifiers.length;
     return `not linked to the main panel network: no chain of shared assessments leads to it (a separate group of ${group} classifier${group === 1 ? '' : 's'})`;
   };
@@ -466,9 +466,9 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
   let N = 0;
   let A = 0;
   for (let a = 0; a < set.assessmentCount; a++) {
-    if (!informative[a] || local[ratingClassifier[ratingStart[a]!]!]! < 0) continue;
+    if (!informative[a] || local[ratingClassifier[ratingStart[a]]] < 0) continue;
     keep[a] = 1;
-    N += ratingStart[a + 1]! - ratingStart[a]!;
+    N += ratingStart[a + 1] - ratingStart[a];
     A++;
   }
 
@@ -477,26 +477,26 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
   const nUsed = new Int32Array(K);
   for (let a = 0; a < set.assessmentCount; a++) {
     if (!keep[a]) continue;
-    const s = ratingStart[a]!;
-    const e = ratingStart[a + 1]!;
+    const s = ratingStart[a];
+    const e = ratingStart[a + 1];
     const w = 1 / (e - s);
     for (let p = s; p < e; p++) {
-      const i = local[ratingClassifier[p]!]!;
-      nUsed[i]!++;
-      info[i * K + i]! += 1 - w;
+      const i = local[ratingClassifier[p]];
+      nUsed[i]++;
+      info[i * K + i] += 1 - w;
       for (let r = p + 1; r < e; r++) {
-        const j = local[ratingClassifier[r]!]!;
-        info[i * K + j]! -= w;
-        info[j * K + i]! -= w;
+        const j = local[ratingClassifier[r]];
+        info[i * K + j] -= w;
+        info[j * K + i] -= w;
       }
     }
   }
   // C + J/K is positive definite on a connected design; its inverse minus J/K is C⁺.
   const mm = new Float64Array(K * K);
-  for (let i = 0; i < K * K; i++) mm[i] = info[i]! + 1 / K;
+  for (let i = 0; i < K * K; i++) mm[i] = info[i] + 1 / K;
   if (!cholesky(mm, K)) return refuse('the information matrix is singular: the panel network does not separate the classifiers');
   const pinv = choleskyInverse(mm, K);
-  for (let i = 0; i < K * K; i++) pinv[i]! -= 1 / K;
+  for (let i = 0; i < K * K; i++) pinv[i] -= 1 / K;
 
   const df = N - A - (K - 1);
   const fit = fitLeastSquares(set, keep, local, pinv, K, df);
@@ -507,21 +507,21 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
   const rows: ClassifierSeverity[] = [];
   for (let c = 0; c < C; c++) {
     if (!used[c]) continue;
-    const i = local[c]!;
+    const i = local[c];
     if (i < 0) {
       rows.push(out(c, { value: null, se: null, ci95: null, n: 0, reason: unlinkedReason(c) }));
       continue;
     }
-    const value = beta[i]!;
+    const value = beta[i];
     // A variance within rounding of zero (below 1e-12 point², an SE of 1e-6) is no variance: the
     // same data in another order must give the same answer.
-    if (robust === null || !(robust[i]! > 1e-12)) {
+    if (robust === null || !(robust[i] > 1e-12)) {
       const why = df <= 0 ? 'no residual degrees of freedom' : 'fewer than two athletes';
-      rows.push(out(c, { value, se: null, ci95: null, n: nUsed[i]!, reason: `${why}: the interval is not defined` }));
+      rows.push(out(c, { value, se: null, ci95: null, n: nUsed[i], reason: `${why}: the interval is not defined` }));
       continue;
     }
-    const se = Math.sqrt(robust[i]!);
-    rows.push(out(c, { value, se, ci95: [value - Z95 * se, value + Z95 * se], n: nUsed[i]! }));
+    const se = Math.sqrt(robust[i]);
+    rows.push(out(c, { value, se, ci95: [value - Z95 * se, value + Z95 * se], n: nUsed[i] }));
   }
   return {
     model: SEVERITY_MODEL,

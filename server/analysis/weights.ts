@@ -32,7 +32,7 @@ export function weightsFromDisagreement(v: readonly (readonly number[])[]): Floa
   let max = 0;
   for (const row of v) for (const x of row) if (x > max) max = x;
   const w = new Float64Array(q * q);
-  for (let i = 0; i < q; i++) for (let j = 0; j < q; j++) w[i * q + j] = max === 0 ? 1 : 1 - v[i]![j]! / max;
+  for (let i = 0; i < q; i++) for (let j = 0; j < q; j++) w[i * q + j] = max === 0 ? 1 : 1 - v[i][j] / max;
   return w;
 }
 
@@ -40,6 +40,6 @@ export function weightsFromDisagreement(v: readonly (readonly number[])[]): Floa
 export function weightsFromMatrix(m: readonly (readonly number[])[]): Float64Array {
   const q = m.length;
   const w = new Float64Array(q * q);
-  for (let i = 0; i < q; i++) for (let j = 0; j < q; j++) w[i * q + j] = m[i]![j]!;
+  for (let i = 0; i < q; i++) for (let j = 0; j < q; j++) w[i * q + j] = m[i][j]!;
   return w;
 }

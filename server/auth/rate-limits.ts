@@ -23,7 +23,7 @@ function accountAndAddressKey(req: Request): string {
   return `${accountKey(req)}|${ipKeyGenerator(req.ip ?? '')}`;
 }
 
-function limiter(options: Partial<Options> & { message: string }): RequestHandler {
+function limiter(options: Omit<Partial<Options>, 'message'> & { message: string }): RequestHandler {
   const { message, ...rest } = options;
   return rateLimit({
     standardHeaders: 'draft-8',

@@ -19,7 +19,7 @@ import { migrateToLatest, migrationsFolder } from '../db/migrate';
 import { backupDatabase, OpsError, restoreDatabase, type DatabaseSummary } from '../ops/backup';
 import { disableDemoAccounts, createOwner } from '../ops/owner';
 import { sessionSecretFile } from '../config';
-import { OPS_COMMANDS, OPS_USAGE } from './ops-usage';
+import { type OPS_COMMANDS, OPS_USAGE } from './ops-usage';
 
 export type OpsCommand = (typeof OPS_COMMANDS)[number];
 
@@ -79,7 +79,7 @@ function positional(args: string[], what: string): { value: string; flags: Recor
   const flags: Record<string, string> = {};
   const rest: string[] = [];
   for (let i = 0; i < args.length; i++) {
-    const a = args[i]!;
+    const a = args[i];
     if (a === '--name') {
       const v = args[++i];
       if (v === undefined) throw new Usage('--name needs a value');
@@ -90,7 +90,7 @@ function positional(args: string[], what: string): { value: string; flags: Recor
   }
   if (rest.length === 0) throw new Usage(`missing ${what}`);
   if (rest.length > 1) throw new Usage(`unexpected argument "${rest[1]}"`);
-  return { value: rest[0]!, flags };
+  return { value: rest[0], flags };
 }
 
 async function run(command: OpsCommand, args: string[]): Promise<void> {

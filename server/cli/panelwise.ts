@@ -39,7 +39,7 @@ function parseArgs(argv: string[]): Args {
   let bootstrap = 0;
   let seed = 1;
   for (let i = 0; i < rest.length; i++) {
-    const a = rest[i]!;
+    const a = rest[i];
     const [flag, inline] = a.startsWith('--') && a.includes('=') ? [a.slice(0, a.indexOf('=')), a.slice(a.indexOf('=') + 1)] : [a, undefined];
     const value = (): string => {
       const v = inline ?? rest[++i];
@@ -81,10 +81,10 @@ function ci(r: { ci95: StatResult['ci95'] }): string {
 }
 
 function table(headers: string[], rows: string[][], alignRight: boolean[]): string {
-  const widths = headers.map((h, j) => Math.max(h.length, ...rows.map((r) => r[j]!.length)));
+  const widths = headers.map((h, j) => Math.max(h.length, ...rows.map((r) => r[j].length)));
   const line = (cells: string[]): string =>
     cells
-      .map((c, j) => (alignRight[j] ? c.padStart(widths[j]!) : c.padEnd(widths[j]!)))
+      .map((c, j) => (alignRight[j] ? c.padStart(widths[j]) : c.padEnd(widths[j])))
       .join('  ')
       .trimEnd();
   return [line(headers), widths.map((w) => '-'.repeat(w)).join('  '), ...rows.map(line)].join('\n');

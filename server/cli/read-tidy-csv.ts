@@ -75,17 +75,17 @@ export function parseTidyCsv(text: string, file: string, scale: ClassScale = DEF
   const rows: RatingRow[] = [];
   const lines: number[] = [];
   for (let k = 0; k < r.assessment.length; k++) {
-    const i = r.assessment[k]!;
-    const kind = a.kind[i]!;
+    const i = r.assessment[k];
+    const kind = a.kind[i];
     rows.push({
-      assessmentId: a.externalId[i]!,
-      athleteCode: a.athleteCode[i]!,
-      eventCode: a.eventCode[i]!,
-      assessedOn: a.assessedOn[i]!,
-      classifierCode: r.classifierCode[k]!,
-      sportClass: r.sportClass[k]!,
+      assessmentId: a.externalId[i],
+      athleteCode: a.athleteCode[i],
+      eventCode: a.eventCode[i],
+      assessedOn: a.assessedOn[i],
+      classifierCode: r.classifierCode[k],
+      sportClass: r.sportClass[k],
       panelClass: a.panelClass[i] ?? null,
-      kind: kind === -1 ? 'first' : ASSESSMENT_KINDS[kind]!,
+      kind: kind === -1 ? 'first' : ASSESSMENT_KINDS[kind],
     });
     lines.push(r.line[k] ?? 0);
   }
@@ -109,10 +109,10 @@ export function ratingSetOfCore(core: BatchCore, scale: ClassScale = DEFAULT_SCA
     const codes: string[] = [];
     const out = new Int32Array(ids.length);
     for (let i = 0; i < ids.length; i++) {
-      const id = ids[i]!;
+      const id = ids[i];
       if (to[id] === -1) {
         to[id] = codes.length;
-        codes.push(names[id]!);
+        codes.push(names[id]);
       }
       out[i] = to[id]!;
     }
@@ -124,27 +124,27 @@ export function ratingSetOfCore(core: BatchCore, scale: ClassScale = DEFAULT_SCA
   const dayOfDate = new Int32Array(core.dates.length);
   core.dates.forEach((d, i) => (dayOfDate[i] = isoDateToDay(d) ?? 0));
   const ratingStart = new Int32Array(A + 1);
-  for (let k = 0; k < n; k++) ratingStart[r.assessment[k]! + 1]!++;
-  for (let i = 0; i < A; i++) ratingStart[i + 1]! += ratingStart[i]!;
+  for (let k = 0; k < n; k++) ratingStart[r.assessment[k] + 1]++;
+  for (let i = 0; i < A; i++) ratingStart[i + 1] += ratingStart[i];
   const fill = ratingStart.slice(0, A);
   const ratingAssessment = new Int32Array(n);
   const ratingClassifier = new Int32Array(n);
   const ratingClass = new Int32Array(n);
   for (let k = 0; k < n; k++) {
-    const i = r.assessment[k]!;
-    const p = fill[i]!++;
+    const i = r.assessment[k];
+    const p = fill[i]++;
     ratingAssessment[p] = i;
     ratingClassifier[p] = classifiers.out[k]!;
-    ratingClass[p] = r.sportClass[k]! - scale.min;
+    ratingClass[p] = r.sportClass[k] - scale.min;
   }
   const panelClass = new Int32Array(A);
   const day = new Int32Array(A);
   const kind = new Uint8Array(A);
   for (let i = 0; i < A; i++) {
-    const pc = a.panelClass[i]!;
+    const pc = a.panelClass[i];
     panelClass[i] = pc < 0 ? -1 : pc - scale.min;
-    day[i] = dayOfDate[a.date[i]!]!;
-    kind[i] = a.kind[i]! < 0 ? 0 : ASSESSMENT_KINDS.indexOf(KIND_CODES[a.kind[i]!]!);
+    day[i] = dayOfDate[a.date[i]]!;
+    kind[i] = a.kind[i] < 0 ? 0 : ASSESSMENT_KINDS.indexOf(KIND_CODES[a.kind[i]]);
   }
   return {
     scale,

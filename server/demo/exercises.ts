@@ -191,7 +191,7 @@ export async function seedDemoExercises(db: Db, federationId: number, leadUserId
       for (const [i, a] of answers.entries()) {
         await trx
           .insertInto('exercise_answers')
-          .values({ case_id: caseIds[i]!, classifier_id: idOf(code), sport_class: a.cls, skills: JSON.stringify(a.skills), reason: a.reason, updated_at: '2025-01-29T18:00:00.000Z' })
+          .values({ case_id: caseIds[i], classifier_id: idOf(code), sport_class: a.cls, skills: JSON.stringify(a.skills), reason: a.reason, updated_at: '2025-01-29T18:00:00.000Z' })
           .execute();
       }
     }
@@ -229,7 +229,7 @@ export async function seedDemoExercises(db: Db, federationId: number, leadUserId
     // The demo classifier has answered the first case only.
     await trx
       .insertInto('exercise_answers')
-      .values({ case_id: openCaseIds[0]!, classifier_id: idOf('C12'), sport_class: 5, skills: JSON.stringify(['catching']), reason: 'Holds the wheel to return upright.' })
+      .values({ case_id: openCaseIds[0], classifier_id: idOf('C12'), sport_class: 5, skills: JSON.stringify(['catching']), reason: 'Holds the wheel to return upright.' })
       .execute();
   });
 }

@@ -131,7 +131,7 @@ function weighted<T>(random: Random, items: [T, number][]): T {
     u -= w;
     if (u <= 0) return item;
   }
-  return items[items.length - 1]![0];
+  return items[items.length - 1][0];
 }
 
 function addDays(iso: string, days: number): string {
@@ -207,8 +207,8 @@ export function generateScenario(options: ScenarioOptions): Scenario {
   const states: AthleteState[] = [];
   for (let i = 0; i < options.athletes; i++) {
     const code = `A${pad(i + 1, 4)}`;
-    athletes.push({ code, displayName: athleteNames[i]!, category: weighted(random, CATEGORIES) });
-    const cls = weighted(random, classValues.map((v, k) => [v, CLASS_WEIGHTS[k]!] as [number, number]));
+    athletes.push({ code, displayName: athleteNames[i], category: weighted(random, CATEGORIES) });
+    const cls = weighted(random, classValues.map((v, k) => [v, CLASS_WEIGHTS[k]] as [number, number]));
     let profile = cls + (random.next() - 0.5) * 0.24;
     // Athletes between 1.0 and 1.5, or between 2.5 and 3.0, are where panels split most.
     if ((cls === 1 || cls === 1.5) && random.chance(0.4)) profile = 1.25 + (random.next() - 0.5) * 0.12;
@@ -216,7 +216,7 @@ export function generateScenario(options: ScenarioOptions): Scenario {
     const joinsAt = random.chance(0.6) ? 0 : 1 + random.int(events.length - 1);
     const state: AthleteState = { code, profile, changeBy: 0, joinsAt, assessments: 0 };
     if (random.chance(0.12)) {
-      const at = events[Math.min(events.length - 1, joinsAt + 2 + random.int(6))]!;
+      const at = events[Math.min(events.length - 1, joinsAt + 2 + random.int(6))];
       state.changeFrom = at.startsOn;
       state.changeBy = profile > 4 ? -0.5 : profile < 1.5 ? 0.5 : random.chance(0.5) ? 0.5 : -0.5;
     }
@@ -254,13 +254,13 @@ export function generateScenario(options: ScenarioOptions): Scenario {
     for (const { state, kind } of due) {
       const assessedOn = addDays(event.startsOn, day++ % 3);
       const size = random.chance(options.twoMemberPanelShare) ? 2 : 3;
-      const chair = chairs.length > 0 ? random.pick(chairs) : classifiers[0]!;
+      const chair = chairs.length > 0 ? random.pick(chairs) : classifiers[0];
       const others = random.sample(classifiers.filter((c) => c !== chair), size - 1);
       const panel = [chair, ...others];
       const ratings = panel.map((c) => ({ classifierCode: c.code, sportClass: rate(state, c.code, assessedOn) }));
       const sorted = ratings.map((r) => r.sportClass).sort((a, b) => a - b);
       // The panel's final class: the median of three; with two who differ, the chair decides.
-      const panelClass = size === 3 ? sorted[1]! : ratings[0]!.sportClass;
+      const panelClass = size === 3 ? sorted[1] : ratings[0].sportClass;
       state.assessments++;
       assessments.push({
         externalId: `${options.federationSlug.slice(0, 2).toUpperCase()}-${pad(assessments.length + 1, 5)}`,

@@ -30,12 +30,12 @@ export function createRandom(seed: number): Random {
       const v = next();
       return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v);
     },
-    pick: (items) => items[int(items.length)]!,
+    pick: (items) => items[int(items.length)],
     sample(items, k) {
       const copy = items.slice();
       for (let i = copy.length - 1; i > 0; i--) {
         const j = int(i + 1);
-        [copy[i], copy[j]] = [copy[j]!, copy[i]!];
+        [copy[i], copy[j]] = [copy[j], copy[i]];
       }
       return copy.slice(0, k);
     },

@@ -63,7 +63,7 @@ async function immediate<T>(db: Db, fn: (trx: Db) => Promise<T>): Promise<T> {
   return db.connection().execute(async (conn) => {
     await sql`begin immediate`.execute(conn);
     try {
-      const result = await fn(conn as Db);
+      const result = await fn(conn);
       await sql`commit`.execute(conn);
       return result;
     } catch (error) {
@@ -85,7 +85,7 @@ async function checkQuota(trx: Db, params: BuildExportParams, limits: { maxExpor
     .orderBy('created_at')
     .execute();
   if (recent.length >= limits.maxExportsPerDay) {
-    const next = new Date(Date.parse(recent[0]!.created_at) + DAY_MS);
+    const next = new Date(Date.parse(recent[0].created_at) + DAY_MS);
     throw quotaError(
       `You have made ${recent.length} exports in the last 24 hours, the most your federation's lead allows a researcher (${limits.maxExportsPerDay} a day). ` +
         `The next one is possible from ${next.toISOString().slice(11, 16)} UTC.`,

@@ -36,8 +36,8 @@ export function pseudonym(key: Uint8Array, salt: string, entity: PseudonymEntity
   const mac = crypto.createHmac('sha256', key).update(`${entity}\u001f${salt}\u001f${naturalKey}`, 'utf8').digest();
   let out = PSEUDONYM_PREFIXES[entity];
   for (let i = 0; i < PSEUDONYM_BITS / 8; i++) {
-    const byte = mac[i]!;
-    out += PSEUDONYM_ALPHABET[byte >> 4]! + PSEUDONYM_ALPHABET[byte & 15]!;
+    const byte = mac[i];
+    out += PSEUDONYM_ALPHABET[byte >> 4] + PSEUDONYM_ALPHABET[byte & 15];
   }
   return out;
 }

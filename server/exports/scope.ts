@@ -76,6 +76,6 @@ export async function scopeRatings(db: Db, federationId: number, scope: ExportRe
   if (scope.eventIds && scope.eventIds.length > 0) query = query.where('assessments.event_id', 'in', scope.eventIds);
   const rows = await query.orderBy('assessments.id').orderBy('ratings.id').execute();
   const seasons = new Set(scope.seasons);
-  return rows.filter((r) => seasons.has(seasonOf(r.assessedOn))) as ScopedRating[];
+  return rows.filter((r) => seasons.has(seasonOf(r.assessedOn)));
 }
 

@@ -86,7 +86,7 @@ export function classifyError(err: unknown): HttpError | null {
 
 /** The one error middleware: a single JSON shape, and no stack traces outside development. */
 export function errorHandler(options: { exposeStacks: boolean; logger?: LoggerLike }): ErrorRequestHandler {
-  return (err, _req, res, _next) => {
+  return (err: unknown, _req, res, _next) => {
     let error: HttpError;
     if (err instanceof HttpError) error = err;
     else if (err instanceof ZodError) error = new HttpError(400, 'validation_failed', 'The request is not valid', zodDetails(err));

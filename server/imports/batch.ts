@@ -200,7 +200,7 @@ export class BatchBuilder {
     const ids = this.externalId;
     const last = ids.length - 1;
     if (last >= 0 && ids[last] === externalId) return last;
-    for (; this.mapped < ids.length; this.mapped++) this.byExternal.set(ids[this.mapped]!, this.mapped);
+    for (; this.mapped < ids.length; this.mapped++) this.byExternal.set(ids[this.mapped], this.mapped);
     return this.byExternal.get(externalId) ?? -1;
   }
 
@@ -259,16 +259,16 @@ export class BatchBuilder {
     }
     const i = existing;
     const at = { row, line: line < 0 ? null : line };
-    if (this.aAthlete.data[i] !== athlete) return this.differs(i, at, names.athlete_code, this.athletes.values[athlete]!, this.athletes.values[this.aAthlete.data[i]!]!);
-    if (this.aEvent.data[i] !== event) return this.differs(i, at, names.event_code, this.events.values[event]!, this.events.values[this.aEvent.data[i]!]!);
-    if (this.aDate.data[i] !== date) return this.differs(i, at, names.assessed_on, this.dates.values[date]!, this.dates.values[this.aDate.data[i]!]!);
+    if (this.aAthlete.data[i] !== athlete) return this.differs(i, at, names.athlete_code, this.athletes.values[athlete], this.athletes.values[this.aAthlete.data[i]]);
+    if (this.aEvent.data[i] !== event) return this.differs(i, at, names.event_code, this.events.values[event], this.events.values[this.aEvent.data[i]]);
+    if (this.aDate.data[i] !== date) return this.differs(i, at, names.assessed_on, this.dates.values[date], this.dates.values[this.aDate.data[i]]);
     if (kind >= 0) {
-      const before = this.aKind.data[i]!;
+      const before = this.aKind.data[i];
       if (before === -1) this.aKind.data[i] = kind;
-      else if (before !== kind) return this.differs(i, at, names.kind, KIND_CODES[kind]!, KIND_CODES[before]!);
+      else if (before !== kind) return this.differs(i, at, names.kind, KIND_CODES[kind], KIND_CODES[before]);
     }
     if (panelClass >= 0) {
-      const pc = this.aPanel.data[i]!;
+      const pc = this.aPanel.data[i];
       if (pc < 0) this.aPanel.data[i] = panelClass;
       else if (pc !== panelClass) return this.differs(i, at, names.panel_class, formatClass(panelClass), formatClass(pc));
     }
@@ -294,20 +294,20 @@ export class BatchBuilder {
   ratingOf(assessment: number, classifier: number, sportClass: number, row: number, line: number, column: number): void {
     const prev = this.prevRating.data;
     const cls = this.rClassifier.data;
-    for (let k = this.lastRating.data[assessment]!; k >= 0; k = prev[k]!) {
+    for (let k = this.lastRating.data[assessment]; k >= 0; k = prev[k]!) {
       if (cls[k] !== classifier) continue;
-      const id = this.externalId[assessment]!;
+      const id = this.externalId[assessment];
       const name = this.columns[column] ?? 'classifier_code';
-      const before = this.rClass.data[k]!;
+      const before = this.rClass.data[k];
       const problem =
         before === sportClass
           ? `rates assessment ${id} twice: a duplicate of row ${this.rRow.data[k]}`
           : `rates assessment ${id} twice with different classes: ${formatClass(before)} on row ${this.rRow.data[k]}, ${formatClass(sportClass)} here`;
-      this.issues.error(rowIssue(row, line < 0 ? null : line, name, this.classifiers.values[classifier]!, problem));
+      this.issues.error(rowIssue(row, line < 0 ? null : line, name, this.classifiers.values[classifier], problem));
       return;
     }
     const k = this.rAssessment.length;
-    this.prevRating.push(this.lastRating.data[assessment]!);
+    this.prevRating.push(this.lastRating.data[assessment]);
     this.lastRating.data[assessment] = k;
     this.rAssessment.push(assessment);
     this.rClassifier.push(classifier);
@@ -322,14 +322,14 @@ export class BatchBuilder {
     const n = this.externalId.length;
     const count = new Int32Array(n);
     const ra = this.rAssessment.view();
-    for (let k = 0; k < ra.length; k++) count[ra[k]!]!++;
+    for (let k = 0; k < ra.length; k++) count[ra[k]]++;
     this.notAnalysable = 0;
     for (let i = 0; i < n; i++) {
       if (count[i] !== 1) continue;
       this.notAnalysable++;
-      const line = this.aLine.data[i]!;
+      const line = this.aLine.data[i];
       this.issues.warning(
-        rowIssue(this.aRow.data[i]!, line < 0 ? null : line, idColumn, this.externalId[i]!, 'has ratings from a single classifier: it is kept, but it is not analysable for agreement'),
+        rowIssue(this.aRow.data[i], line < 0 ? null : line, idColumn, this.externalId[i], 'has ratings from a single classifier: it is kept, but it is not analysable for agreement'),
       );
     }
     return {
@@ -388,13 +388,13 @@ export function batchOfCore(core: BatchCore): ValidatedBatch {
     line: new Array<number | null>(n),
   };
   for (let i = 0; i < n; i++) {
-    assessments.athleteCode[i] = core.athletes[a.athlete[i]!]!;
-    assessments.eventCode[i] = core.events[a.event[i]!]!;
-    assessments.assessedOn[i] = core.dates[a.date[i]!]!;
+    assessments.athleteCode[i] = core.athletes[a.athlete[i]]!;
+    assessments.eventCode[i] = core.events[a.event[i]]!;
+    assessments.assessedOn[i] = core.dates[a.date[i]]!;
     assessments.kind[i] = a.kind[i]!;
-    assessments.panelClass[i] = a.panelClass[i]! < 0 ? null : a.panelClass[i]!;
+    assessments.panelClass[i] = a.panelClass[i] < 0 ? null : a.panelClass[i];
     assessments.row[i] = a.row[i]!;
-    assessments.line[i] = lineOf(a.line[i]!);
+    assessments.line[i] = lineOf(a.line[i]);
   }
   const ratings: ValidatedBatch['ratings'] = {
     assessment: new Array<number>(m),
@@ -406,10 +406,10 @@ export function batchOfCore(core: BatchCore): ValidatedBatch {
   };
   for (let k = 0; k < m; k++) {
     ratings.assessment[k] = r.assessment[k]!;
-    ratings.classifierCode[k] = core.classifiers[r.classifier[k]!]!;
+    ratings.classifierCode[k] = core.classifiers[r.classifier[k]]!;
     ratings.sportClass[k] = r.sportClass[k]!;
     ratings.row[k] = r.row[k]!;
-    ratings.line[k] = lineOf(r.line[k]!);
+    ratings.line[k] = lineOf(r.line[k]);
     ratings.column[k] = r.column[k]!;
   }
   return { layout: core.layout, columns: core.columns, rows: core.rows, assessments, ratings, notAnalysable: core.notAnalysable };

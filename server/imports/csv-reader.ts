@@ -107,10 +107,10 @@ export function detectDelimiter(text: string): string {
   if (used.length === 0) return ',';
   if (used.length > 1) {
     throw new FileRefusal([
-      fileIssue(`The file mixes delimiters: its header uses both ${DELIMITER_NAMES[used[0]![0]]}s and ${DELIMITER_NAMES[used[1]![0]]}s. Use one delimiter throughout.`, { line: 1 }),
+      fileIssue(`The file mixes delimiters: its header uses both ${DELIMITER_NAMES[used[0][0]]}s and ${DELIMITER_NAMES[used[1][0]]}s. Use one delimiter throughout.`, { line: 1 }),
     ]);
   }
-  return used[0]![0];
+  return used[0][0];
 }
 
 interface ColumnPlan {
@@ -257,7 +257,7 @@ export class CsvRowReader {
   /** Marks papaparse's errors (unclosed quotes) on records of the next `feed`, by index in it. */
   feed(records: string[][], quoteErrors: Set<number> = new Set()): void {
     for (let k = 0; k < records.length; k++) {
-      const fields = records[k]!;
+      const fields = records[k];
       const line = this.line;
       let extraLines = 0;
       let blank = true;
@@ -284,7 +284,7 @@ export class CsvRowReader {
     const headers = fields.map((f, i) => (i === 0 ? f.replace(/^\uFEFF/, '') : f).trim());
     this.headers = headers;
     this.plan = planColumns(headers, this.options);
-    const name = (col: keyof ColumnPlan['fixed']) => (this.plan!.fixed[col] >= 0 ? headers[this.plan!.fixed[col]]! : col);
+    const name = (col: keyof ColumnPlan['fixed']) => (this.plan!.fixed[col] >= 0 ? headers[this.plan!.fixed[col]] : col);
     this.names = {
       assessment_id: name('assessment_id'),
       athlete_code: name('athlete_code'),
@@ -346,13 +346,13 @@ export class CsvRowReader {
         if (codeRaw.trim() === '' && clsRaw.trim() === '') continue;
         if (codeRaw.trim() === '') {
           bad = true;
-          issues.error(rowIssue(row, line, headers[ci]!, codeRaw, `is blank but the seat's sport class (${headers[si]}) is "${clsRaw.trim()}"`));
+          issues.error(rowIssue(row, line, headers[ci], codeRaw, `is blank but the seat's sport class (${headers[si]}) is "${clsRaw.trim()}"`));
           continue;
         }
         const code = v.code(codeRaw);
         const cls = v.sportClass(clsRaw);
-        if (!code.ok) issues.error(rowIssue(row, line, headers[ci]!, codeRaw, code.message));
-        if (!cls.ok) issues.error(rowIssue(row, line, headers[si]!, clsRaw, cls.message));
+        if (!code.ok) issues.error(rowIssue(row, line, headers[ci], codeRaw, code.message));
+        if (!cls.ok) issues.error(rowIssue(row, line, headers[si], clsRaw, cls.message));
         if (!code.ok || !cls.ok) bad = true;
         else ratings.push([code.value, cls.value, ci]);
       }
@@ -363,13 +363,13 @@ export class CsvRowReader {
         const cls = v.sportClass(raw);
         if (!cls.ok) {
           bad = true;
-          issues.error(rowIssue(row, line, headers[ci]!, raw, cls.message));
+          issues.error(rowIssue(row, line, headers[ci], raw, cls.message));
         } else ratings.push([code, cls.value, ci]);
       }
     }
     if (bad || this.bad) return;
     if (ratings.length === 0) {
-      const cols = plan.seats.length > 0 ? plan.seats.map(([ci]) => headers[ci]!) : plan.classifierColumns.map(([ci]) => headers[ci]!);
+      const cols = plan.seats.length > 0 ? plan.seats.map(([ci]) => headers[ci]) : plan.classifierColumns.map(([ci]) => headers[ci]);
       issues.error(rowIssue(row, line, cols.join(', '), '', 'has no rating: every classifier column of the row is blank'));
       return;
     }
@@ -388,7 +388,7 @@ export class CsvRowReader {
     const r = check(raw);
     if (r.ok) return r.value;
     this.bad = true;
-    this.issues.error(rowIssue(row, line, this.headers![index]!, raw ?? '', r.message));
+    this.issues.error(rowIssue(row, line, this.headers![index], raw ?? '', r.message));
     return fallback;
   };
 
@@ -425,7 +425,7 @@ export class CsvRowReader {
       let fields = 1;
       let i = at;
       for (; i < to; i++) {
-        const b = buf[i]!;
+        const b = buf[i];
         if (b === delim) {
           if (fields < room) starts[fields] = i + 1;
           fields++;
@@ -453,7 +453,7 @@ export class CsvRowReader {
     const delim = this.delimiter.charCodeAt(0);
     let high = false;
     for (let i = from; i < to; i++) {
-      const b = buf[i]!;
+      const b = buf[i];
       if (b >= 0x80) high = true;
       else if (b !== delim && b !== 0x20 && b !== 0x09 && b !== 0x0b && b !== 0x0c) return false;
     }
@@ -461,7 +461,7 @@ export class CsvRowReader {
   }
 
   private bytesLine(buf: Buffer, from: number, to: number, line: number, fields: number): void {
-    const first = from < to ? buf[from]! : 0;
+    const first = from < to ? buf[from] : 0;
     if ((first <= 0x20 || first >= 0x7f || first === this.delimiter.charCodeAt(0)) && this.blankLine(buf, from, to)) return;
     const plan = this.plan;
     if (plan === null) {
@@ -482,9 +482,9 @@ export class CsvRowReader {
    */
   private valueIndex(buf: Buffer, column: number, what: ValueKind): number {
     if (column < 0) return -1;
-    const vals = this.values[column]!;
-    const s = this.starts[column]!;
-    const e = this.starts[column + 1]! - 1;
+    const vals = this.values[column];
+    const s = this.starts[column];
+    const e = this.starts[column + 1] - 1;
     let k = vals.find(buf, s, e);
     if (k < 0) {
       const plain = what !== ValueKind.Note && plainCode(buf, s, e);
@@ -564,12 +564,12 @@ export class CsvRowReader {
     const a = b.assessmentOf(
       ext!,
       this.lastExternal === ext ? this.lastAssessment : this.existingAssessment(buf, ext!),
-      values[f.athlete_code]!.value[kAth] as number,
-      values[f.event_code]!.value[kEv] as number,
-      values[f.assessed_on]!.value[kDate] as number,
-      kKind < 0 ? -1 : (values[f.kind]!.value[kKind] as number),
-      kPanel < 0 ? -1 : (values[f.panel_class]!.value[kPanel] as number),
-      kNote < 0 ? null : (values[f.note]!.value[kNote] as string | null),
+      values[f.athlete_code].value[kAth] as number,
+      values[f.event_code].value[kEv] as number,
+      values[f.assessed_on].value[kDate] as number,
+      kKind < 0 ? -1 : (values[f.kind].value[kKind] as number),
+      kPanel < 0 ? -1 : (values[f.panel_class].value[kPanel] as number),
+      kNote < 0 ? null : (values[f.note].value[kNote] as string | null),
       row,
       line,
       this.names!,
@@ -578,8 +578,8 @@ export class CsvRowReader {
       this.lastExternal = ext;
       this.lastAssessment = a;
       this.lastIdStart = this.starts[f.assessment_id]!;
-      this.lastIdEnd = this.starts[f.assessment_id + 1]! - 1;
-      b.ratingOf(a, values[f.classifier_code]!.value[kCode] as number, values[f.sport_class]!.value[kCls] as number, row, line, f.classifier_code);
+      this.lastIdEnd = this.starts[f.assessment_id + 1] - 1;
+      b.ratingOf(a, values[f.classifier_code].value[kCode] as number, values[f.sport_class].value[kCls] as number, row, line, f.classifier_code);
     }
     return true;
   }
@@ -597,8 +597,8 @@ export class CsvRowReader {
    */
   private existingAssessment(buf: Buffer, ext: string): number {
     const column = this.plan!.fixed.assessment_id;
-    const s = this.starts[column]!;
-    const e = this.starts[column + 1]! - 1;
+    const s = this.starts[column];
+    const e = this.starts[column + 1] - 1;
     const k = this.idBytes.find(buf, s, e);
     if (k >= 0) return this.idBytes.value[k] as number;
     const b = this.builder!;
@@ -626,8 +626,8 @@ export class CsvRowReader {
    */
   private externalId(buf: Buffer): string | null {
     const column = this.plan!.fixed.assessment_id;
-    const s = this.starts[column]!;
-    const e = this.starts[column + 1]! - 1;
+    const s = this.starts[column];
+    const e = this.starts[column + 1] - 1;
     const ls = this.lastIdStart;
     if (this.lastExternal !== null && e - s === this.lastIdEnd - ls) {
       let same = true;
@@ -661,7 +661,7 @@ type ValueKind = (typeof ValueKind)[keyof typeof ValueKind];
 function plainCode(buf: Buffer, s: number, e: number): boolean {
   if (e <= s || e - s > 64) return false;
   for (let i = s; i < e; i++) {
-    const b = buf[i]!;
+    const b = buf[i];
     if (b < 0x21 || b > 0x7e) return false;
   }
   return true;
@@ -685,14 +685,14 @@ class ByteValues {
 
   private static hash(buf: Buffer, s: number, e: number): number {
     let h = 0x811c9dc5;
-    for (let i = s; i < e; i++) h = Math.imul(h ^ buf[i]!, 0x01000193);
+    for (let i = s; i < e; i++) h = Math.imul(h ^ buf[i], 0x01000193);
     return h >>> 0;
   }
 
   private equal(buf: Buffer, k: number, s: number, e: number): boolean {
     const len = e - s;
     if (this.length[k] !== len) return false;
-    const t = this.start[k]!;
+    const t = this.start[k];
     for (let i = 0; i < len; i++) if (buf[t + i] !== buf[s + i]) return false;
     return true;
   }
@@ -702,7 +702,7 @@ class ByteValues {
     if (this.last >= 0 && this.equal(buf, this.last, s, e)) return this.last;
     const mask = this.table.length - 1;
     for (let slot = ByteValues.hash(buf, s, e) & mask; ; slot = (slot + 1) & mask) {
-      const k = this.table[slot]! - 1;
+      const k = this.table[slot] - 1;
       if (k < 0) return -1;
       if (this.equal(buf, k, s, e)) return (this.last = k);
     }
@@ -725,7 +725,7 @@ class ByteValues {
 
   private place(buf: Buffer, k: number): void {
     const mask = this.table.length - 1;
-    let slot = ByteValues.hash(buf, this.start[k]!, this.start[k]! + this.length[k]!) & mask;
+    let slot = ByteValues.hash(buf, this.start[k], this.start[k] + this.length[k]) & mask;
     while (this.table[slot] !== 0) slot = (slot + 1) & mask;
     this.table[slot] = k + 1;
   }
@@ -903,13 +903,13 @@ export async function readCsvBytes(bytes: Uint8Array, options: CsvReadOptions = 
             parser.abort();
           }
         },
-        complete: () => (failure === null ? resolve() : reject(failure)),
+        complete: () => (failure === null ? resolve() : reject(failure instanceof Error ? failure : new Error(String(failure)))),
         error: (error: Error) => reject(error),
       });
     });
     reader ??= new CsvRowReader(options, delimiter);
-    const batch = (reader as CsvRowReader).finish();
-    return { batch, issues: (reader as CsvRowReader).issues, layout: (reader as CsvRowReader).layout, mapping: (reader as CsvRowReader).mapping };
+    const batch = (reader).finish();
+    return { batch, issues: (reader).issues, layout: (reader).layout, mapping: (reader).mapping };
   } catch (error) {
     return refuse(error);
   }

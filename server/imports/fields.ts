@@ -98,7 +98,7 @@ export function dateSchema(format: DateFormat): ZodType<string, string> {
       return z.NEVER;
     }
     const o = isoMatch ? DATE_PATTERNS.iso.order : order;
-    const iso = `${m[o[0]]!}-${m[o[1]]!.padStart(2, '0')}-${m[o[2]]!.padStart(2, '0')}`;
+    const iso = `${m[o[0]]}-${m[o[1]].padStart(2, '0')}-${m[o[2]].padStart(2, '0')}`;
     if (isoDateToDay(iso) === null) {
       ctx.addIssue({ code: 'custom', message: 'is not a date of the calendar' });
       return z.NEVER;

@@ -94,10 +94,10 @@ export function planImport(sqlite: BetterSqlite3.Database, federationId: number,
   if (newClassifiers.length > 0 && !options.addClassifiers) {
     const unknown = new Set(newClassifiers);
     for (let k = 0; k < r.classifierCode.length; k++) {
-      const code = r.classifierCode[k]!;
+      const code = r.classifierCode[k];
       if (!unknown.has(code)) continue;
       issues.error(
-        rowIssue(r.row[k]!, r.line[k] ?? null, batch.columns[r.column[k]!] ?? 'classifier_code', code, "is not a classifier of the federation's roster (choose to add unknown classifiers to the roster, or correct the code)"),
+        rowIssue(r.row[k], r.line[k] ?? null, batch.columns[r.column[k]] ?? 'classifier_code', code, "is not a classifier of the federation's roster (choose to add unknown classifiers to the roster, or correct the code)"),
       );
     }
   }
@@ -105,8 +105,8 @@ export function planImport(sqlite: BetterSqlite3.Database, federationId: number,
   // Assessments of the batch that already exist.
   const n = a.externalId.length;
   const byExternal = new Map<string, number>();
-  for (let i = 0; i < n; i++) byExternal.set(a.externalId[i]!, i);
-  const existingAssessment: (ExistingAssessment | null)[] = new Array(n).fill(null);
+  for (let i = 0; i < n; i++) byExternal.set(a.externalId[i], i);
+  const existingAssessment = new Array<ExistingAssessment | null>(n).fill(null);
   const batchOfDbId = new Map<number, number>();
   const iter = sqlite
     .prepare('select id, external_id, athlete_id, event_id, assessed_on, kind, panel_class, note from assessments where federation_id = ?')
@@ -124,17 +124,17 @@ export function planImport(sqlite: BetterSqlite3.Database, federationId: number,
   let athleteCodeOf: Map<number, string> | null = null;
   for (let i = 0; i < n; i++) {
     const before = existingAssessment[i];
-    if (!before || athleteIds.get(a.athleteCode[i]!) === before.athlete_id) continue;
+    if (!before || athleteIds.get(a.athleteCode[i]) === before.athlete_id) continue;
     athleteChangeCount++;
     if (athleteChanges.length >= ISSUE_DETAIL_LIMIT) continue;
     athleteCodeOf ??= new Map([...athleteIds].map(([code, id]) => [id, code]));
     athleteChanges.push({
-      assessmentId: a.externalId[i]!,
-      row: a.row[i]!,
+      assessmentId: a.externalId[i],
+      row: a.row[i],
       line: a.line[i] ?? null,
       column: 'athlete_code',
       storedAthlete: athleteCodeOf.get(before.athlete_id) ?? `#${before.athlete_id}`,
-      fileAthlete: a.athleteCode[i]!,
+      fileAthlete: a.athleteCode[i],
     });
   }
 
@@ -146,10 +146,10 @@ export function planImport(sqlite: BetterSqlite3.Database, federationId: number,
       counts.assessments.new++;
       continue;
     }
-    const kind = a.kind[i]!;
+    const kind = a.kind[i];
     const same =
-      athleteIds.get(a.athleteCode[i]!) === before.athlete_id &&
-      eventIds.get(a.eventCode[i]!) === (before.event_id ?? undefined) &&
+      athleteIds.get(a.athleteCode[i]) === before.athlete_id &&
+      eventIds.get(a.eventCode[i]) === (before.event_id ?? undefined) &&
       a.assessedOn[i] === before.assessed_on &&
       (kind === -1 || KIND_CODES[kind] === before.kind) &&
       (a.panelClass[i] === null || a.panelClass[i] === before.panel_class) &&
@@ -181,8 +181,8 @@ export function planImport(sqlite: BetterSqlite3.Database, federationId: number,
   const existingRatingId = new Int32Array(m);
   const existingRatingClass = new Int8Array(m);
   for (let k = 0; k < m; k++) {
-    const list = existingRatings.get(r.assessment[k]!);
-    const classifierId = classifierIds.get(r.classifierCode[k]!);
+    const list = existingRatings.get(r.assessment[k]);
+    const classifierId = classifierIds.get(r.classifierCode[k]);
     let found = -1;
     if (list && classifierId !== undefined) {
       for (let j = 0; j < list.length; j += 3) if (list[j] === classifierId) found = j;
@@ -204,7 +204,7 @@ export function planImport(sqlite: BetterSqlite3.Database, federationId: number,
   }
   // An unchanged assessment with a new or changed rating is still an assessment that changes.
   for (let k = 0; k < m; k++) {
-    const i = r.assessment[k]!;
+    const i = r.assessment[k];
     if (ratingAction[k] !== UNCHANGED && assessmentAction[i] === UNCHANGED) {
       assessmentAction[i] = CHANGED;
       counts.assessments.unchanged--;

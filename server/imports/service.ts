@@ -329,7 +329,7 @@ function toView(ctx: AppContext, row: HistoryRow): ImportView {
     const raw = JSON.parse(row.counts) as Record<string, unknown>;
     // The demo seed records plain totals: show them as new records.
     for (const key of ['assessments', 'ratings'] as const) if (typeof raw[key] === 'number') raw[key] = { new: raw[key], changed: 0, unchanged: 0 };
-    counts = raw as ImportView['counts'];
+    counts = raw;
   } catch {
     counts = null;
   }

@@ -55,13 +55,13 @@ export function applyPlan(sqlite: BetterSqlite3.Database, federationId: number, 
     }
     dbId[i] = before.id;
     if (plan.assessmentFieldsChanged[i]) {
-      const kind = a.kind[i]!;
+      const kind = a.kind[i];
       insertChange.run(importId, 'assessments', before.id, JSON.stringify({ athlete_id: before.athlete_id, event_id: before.event_id, assessed_on: before.assessed_on, kind: before.kind, panel_class: before.panel_class, note: before.note }));
       updateAssessment.run(
-        plan.athleteIds.get(a.athleteCode[i]!)!,
-        plan.eventIds.get(a.eventCode[i]!)!,
-        a.assessedOn[i]!,
-        kind === -1 ? before.kind : KIND_CODES[kind]!,
+        plan.athleteIds.get(a.athleteCode[i])!,
+        plan.eventIds.get(a.eventCode[i])!,
+        a.assessedOn[i],
+        kind === -1 ? before.kind : KIND_CODES[kind],
         a.panelClass[i] ?? before.panel_class,
         a.note[i] ?? before.note,
         before.id,
@@ -73,18 +73,18 @@ export function applyPlan(sqlite: BetterSqlite3.Database, federationId: number, 
   const oneAssessment = multiInsert(sqlite, assessmentHead, 10, 1);
   const params: unknown[] = [];
   const pushAssessment = (i: number) => {
-    const kind = a.kind[i]!;
-    params.push(dbId[i], federationId, a.externalId[i], plan.athleteIds.get(a.athleteCode[i]!), plan.eventIds.get(a.eventCode[i]!), a.assessedOn[i], kind === -1 ? 'first' : KIND_CODES[kind], a.panelClass[i], a.note[i], importId);
+    const kind = a.kind[i];
+    params.push(dbId[i], federationId, a.externalId[i], plan.athleteIds.get(a.athleteCode[i]), plan.eventIds.get(a.eventCode[i]), a.assessedOn[i], kind === -1 ? 'first' : KIND_CODES[kind], a.panelClass[i], a.note[i], importId);
   };
   let k = 0;
   for (; k + ASSESSMENT_ROWS <= fresh.length; k += ASSESSMENT_ROWS) {
     params.length = 0;
-    for (let j = k; j < k + ASSESSMENT_ROWS; j++) pushAssessment(fresh[j]!);
+    for (let j = k; j < k + ASSESSMENT_ROWS; j++) pushAssessment(fresh[j]);
     manyAssessments.run(params);
   }
   for (; k < fresh.length; k++) {
     params.length = 0;
-    pushAssessment(fresh[k]!);
+    pushAssessment(fresh[k]);
     oneAssessment.run(params);
   }
 
@@ -100,15 +100,15 @@ export function applyPlan(sqlite: BetterSqlite3.Database, federationId: number, 
     for (; at + RATING_ROWS <= pending.length; at += RATING_ROWS) {
       params.length = 0;
       for (let j = at; j < at + RATING_ROWS; j++) {
-        const q = pending[j]!;
-        params.push(dbId[r.assessment[q]!], plan.classifierIds.get(r.classifierCode[q]!), r.sportClass[q], importId);
+        const q = pending[j];
+        params.push(dbId[r.assessment[q]], plan.classifierIds.get(r.classifierCode[q]), r.sportClass[q], importId);
       }
       manyRatings.run(params);
     }
     if (all) {
       for (; at < pending.length; at++) {
-        const q = pending[at]!;
-        oneRating.run(dbId[r.assessment[q]!], plan.classifierIds.get(r.classifierCode[q]!), r.sportClass[q], importId);
+        const q = pending[at];
+        oneRating.run(dbId[r.assessment[q]], plan.classifierIds.get(r.classifierCode[q]), r.sportClass[q], importId);
       }
     }
     pending.splice(0, at);

@@ -114,7 +114,7 @@ export function buildOpenApiDocument(routes: RouteDoc[], info: OpenApiInfo): Rec
   const paths: Record<string, Record<string, unknown>> = {};
   const sorted = [...routes].sort((a, b) => a.path.localeCompare(b.path) || a.method.localeCompare(b.method));
   for (const route of sorted) {
-    const params = [...route.path.matchAll(/:([A-Za-z0-9_]+)/g)].map((m) => m[1]!);
+    const params = [...route.path.matchAll(/:([A-Za-z0-9_]+)/g)].map((m) => m[1]);
     const parameters: Record<string, unknown>[] = params.map((name) => ({
       name,
       in: 'path',

@@ -39,8 +39,8 @@ export function federationsRouter(ctx: AppContext): Router {
         assessments: await count('assessments'),
         ratings: Number(ratings.n),
       },
-      firstAssessment: (span.first as string | null) ?? null,
-      lastAssessment: (span.last as string | null) ?? null,
+      firstAssessment: (span.first) ?? null,
+      lastAssessment: (span.last) ?? null,
     };
     if (isResearchView(access)) {
       const data = federationData(ctx, { id: federation.id, scaleMin: federation.scaleMin, scaleMax: federation.scaleMax });
@@ -48,8 +48,8 @@ export function federationsRouter(ctx: AppContext): Router {
       let first = Infinity;
       let last = -Infinity;
       for (let a = 0; a < set.assessmentCount; a++) {
-        first = Math.min(first, set.day[a]!);
-        last = Math.max(last, set.day[a]!);
+        first = Math.min(first, set.day[a]);
+        last = Math.max(last, set.day[a]);
       }
       body.counts.assessments = set.assessmentCount;
       body.counts.ratings = set.ratingCount;

@@ -1,5 +1,5 @@
 import crypto from 'node:crypto';
-import { Router } from 'express';
+import { Router, type Response } from 'express';
 import { signInSchema, type SessionView, type SignedOutView } from '../../shared/schemas/session';
 import { SESSION_COOKIE, requireSession, sessionCookieOptions } from '../auth/access';
 import { signInLimits } from '../auth/rate-limits';
@@ -38,7 +38,7 @@ export async function sessionView(ctx: AppContext, userId: number): Promise<Sess
 }
 
 /** Creates a session row and sets its signed cookie. */
-export async function startSession(ctx: AppContext, res: import('express').Response, userId: number, sessionVersion: number): Promise<void> {
+export async function startSession(ctx: AppContext, res: Response, userId: number, sessionVersion: number): Promise<void> {
   const id = crypto.randomBytes(18).toString('base64url');
   const now = new Date().toISOString();
   await ctx.db.insertInto('sessions').values({ id, user_id: userId, created_at: now, last_seen_at: now, revoked_at: null }).execute();
@@ -66,7 +66,7 @@ export function sessionRouter(ctx: AppContext): Router {
   router.get('/session', async (req, res) => {
     // The app asks on every load whether someone is signed in: nobody is an answer, not an error.
     // A session cookie that no longer holds (expired, revoked, forged) is still a 401.
-    if (!req.auth && !req.cookies?.[SESSION_COOKIE]) {
+    if (!req.auth && !(req.cookies as Record<string, string> | undefined)?.[SESSION_COOKIE]) {
       res.json({ user: null, memberships: [] } satisfies SignedOutView);
       return;
     }

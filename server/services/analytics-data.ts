@@ -50,7 +50,7 @@ const caches = new WeakMap<AppContext, Map<string, CacheEntry>>();
 
 function cacheOf(ctx: AppContext): Map<string, CacheEntry> {
   let cache = caches.get(ctx);
-  if (!cache) caches.set(ctx, (cache = new Map()));
+  if (!cache) caches.set(ctx, (cache = new Map<string, CacheEntry>()));
   return cache;
 }
 
@@ -193,9 +193,9 @@ export function quarterRange(quarter: string): { from: string; to: string } {
 export function researchBaseSet(ctx: AppContext, data: FederationData, federationId: number, k: number): RatingSet {
   return cached(ctx, federationId, `research-base|${k}`, () => {
     const set = data.set;
-    const cellOf = (a: number) => cellKey(dayToQuarter(set.day[a]!), ASSESSMENT_KINDS[set.kind[a]!]!, data.athleteCategory[set.athlete[a]!]!);
+    const cellOf = (a: number) => cellKey(dayToQuarter(set.day[a]), ASSESSMENT_KINDS[set.kind[a]], data.athleteCategory[set.athlete[a]]);
     const small = smallCells(
-      Array.from({ length: set.assessmentCount }, (_, a) => ({ cell: cellOf(a), athlete: set.athlete[a]! })),
+      Array.from({ length: set.assessmentCount }, (_, a) => ({ cell: cellOf(a), athlete: set.athlete[a] })),
       k,
     );
     return small.size === 0 ? set : subsetRatingSet(set, (a) => !small.has(cellOf(a)));
@@ -226,7 +226,7 @@ export function filteredSet(ctx: AppContext, data: FederationData, federationId:
     let set = filterRatingSet(base, f);
     if (filters.category) {
       const wanted = filters.category;
-      set = subsetRatingSet(set, (a, s) => data.athleteCategory[s.athlete[a]!] === wanted);
+      set = subsetRatingSet(set, (a, s) => data.athleteCategory[s.athlete[a]] === wanted);
     }
     return set;
   });
@@ -236,7 +236,7 @@ export function filteredSet(ctx: AppContext, data: FederationData, federationId:
 export function filterOptions(data: FederationData, set: RatingSet = data.set): FilterOptions {
   const years = new Set<number>();
   for (let a = 0; a < set.assessmentCount; a++) {
-    const y = isoDateToSeasonYear(new Date(set.day[a]! * 86_400_000).toISOString().slice(0, 10));
+    const y = isoDateToSeasonYear(new Date(set.day[a] * 86_400_000).toISOString().slice(0, 10));
     if (y !== null) years.add(y);
   }
   return {

@@ -113,7 +113,7 @@ export function overviewFigures(ctx: AppContext, federation: FederationRef, filt
       const value = ordinalAlpha(table);
       const boot = value === null ? null : bootstrapCountTable(table, ordinalAlpha, TREND_BOOTSTRAP);
       let units = 0;
-      for (let i = 0; i < table.rows; i++) if (table.totals[i]! >= 2) units += table.weights[i]!;
+      for (let i = 0; i < table.rows; i++) if (table.totals[i] >= 2) units += table.weights[i];
       return { quarter: '', n: units, value, ci95: boot?.ci95 ?? null };
     }).map((p) => ({ ...p.result, quarter: p.quarter }));
     const lk = (r: StatResult & { ciMethod?: string | null }) => ({ ...stat(r), label: landisKochLabel(r.value), ciMethod: r.ci95 ? (r.ciMethod ?? null) : null });
@@ -314,11 +314,11 @@ export const DRIFT_METHOD =
 export function driftSeries(set: RatingSet, code: string): ClassifierDetail['drift'] {
   const series = classifierDeviations(set, code);
   const cp = changePointTest(series.deviation, hashSeed(code, 1));
-  const at = (i: number) => dayToIsoDate(series.day[i]!);
+  const at = (i: number) => dayToIsoDate(series.day[i]);
   let change: ClassifierDetail['drift']['change'] = null;
   if (cp) {
-    const last = series.day[cp.k - 1]!;
-    const first = series.day[cp.k]!;
+    const last = series.day[cp.k - 1];
+    const first = series.day[cp.k];
     change = {
       index: cp.k + 1,
       changeDate: dayToIsoDate(Math.floor((last + first) / 2)),
@@ -411,7 +411,7 @@ export function pairs(ctx: AppContext, federation: FederationRef, filters: Analy
   const minShared = minSharedOf(filters);
   const all = cached(ctx, federation.id, `pairs|${filterKey(filters)}`, () => classifierPairs(set, 1));
   const used = new Set<string>();
-  for (let p = 0; p < set.ratingCount; p++) used.add(set.classifierCodes[set.ratingClassifier[p]!]!);
+  for (let p = 0; p < set.ratingCount; p++) used.add(set.classifierCodes[set.ratingClassifier[p]]);
   return {
     minShared,
     classifiers: [...used].sort(),

@@ -477,7 +477,7 @@ const evaluatedAt = new WeakMap<AppContext, Map<number, { version: number; runni
 
 function stateOf(ctx: AppContext): Map<number, { version: number; running?: Promise<unknown> }> {
   let state = evaluatedAt.get(ctx);
-  if (!state) evaluatedAt.set(ctx, (state = new Map()));
+  if (!state) evaluatedAt.set(ctx, (state = new Map<number, { version: number; running?: Promise<unknown> }>()));
   return state;
 }
 

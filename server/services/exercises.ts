@@ -244,7 +244,7 @@ async function resultsOf(ctx: AppContext, federation: Federation, row: ExerciseR
   }
   const spreads = caseSpreads(cases.map((c) => ({ id: c.id, reference: c.reference_class })), scored).map((s, i) => ({
     caseId: s.caseId,
-    position: cases[i]!.position,
+    position: cases[i].position,
     referenceClass: s.reference,
     answers: s.answers,
     counts: s.counts,
@@ -699,14 +699,14 @@ export async function proposeExercise(ctx: AppContext, federation: Federation, q
   // Per classifier and boundary j (between class index j and j + 1): ratings on the other side of the panel's final class.
   const splits = new Map<string, Int32Array>();
   for (let p = 0; p < set.ratingCount; p++) {
-    const a = set.ratingAssessment[p]!;
-    const panel = set.panelClass[a]!;
-    const mine = set.ratingClass[p]!;
+    const a = set.ratingAssessment[p];
+    const panel = set.panelClass[a];
+    const mine = set.ratingClass[p];
     if (panel < 0 || Math.abs(panel - mine) !== 1) continue;
-    const code = set.classifierCodes[set.ratingClassifier[p]!]!;
+    const code = set.classifierCodes[set.ratingClassifier[p]];
     let row = splits.get(code);
     if (!row) splits.set(code, (row = new Int32Array(q)));
-    row[Math.min(panel, mine)]!++;
+    row[Math.min(panel, mine)]++;
   }
   let boundaryIndex: number;
   let classifierCodes: string[];
@@ -717,7 +717,7 @@ export async function proposeExercise(ctx: AppContext, federation: Federation, q
     if (!flag) throw notFound('The flag');
     const row = splits.get(flag.classifierCode) ?? new Int32Array(q);
     boundaryIndex = 0;
-    for (let j = 1; j + 1 < q; j++) if (row[j]! > row[boundaryIndex]!) boundaryIndex = j;
+    for (let j = 1; j + 1 < q; j++) if (row[j] > row[boundaryIndex]) boundaryIndex = j;
     classifierCodes = [flag.classifierCode];
     source = { kind: 'flag', ref: String(flag.id) };
     title = `Calibration for ${flag.classifierCode}: the ${formatClass(set.scale.min + boundaryIndex)}/${formatClass(set.scale.min + boundaryIndex + 1)} boundary`;
@@ -726,8 +726,8 @@ export async function proposeExercise(ctx: AppContext, federation: Federation, q
     if (b < set.scale.min || b >= set.scale.max) throw new HttpError(400, 'validation_failed', `The boundary ${formatClass(b)} is not the lower class of a boundary on the scale`);
     boundaryIndex = b - set.scale.min;
     classifierCodes = [...splits.entries()]
-      .filter(([, row]) => row[boundaryIndex]! > 0)
-      .sort((x, y) => y[1][boundaryIndex]! - x[1][boundaryIndex]! || (x[0] < y[0] ? -1 : 1))
+      .filter(([, row]) => row[boundaryIndex] > 0)
+      .sort((x, y) => y[1][boundaryIndex] - x[1][boundaryIndex] || (x[0] < y[0] ? -1 : 1))
       .slice(0, PROPOSED_CLASSIFIERS)
       .map(([code]) => code);
     source = { kind: 'boundary', ref: String(b) };
@@ -738,14 +738,14 @@ export async function proposeExercise(ctx: AppContext, federation: Federation, q
   for (let a = set.assessmentCount - 1; a >= 0 && cases.length < PROPOSED_CASES; a--) {
     let hasLower = false;
     let hasUpper = false;
-    for (let p = set.ratingStart[a]!; p < set.ratingStart[a + 1]!; p++) {
+    for (let p = set.ratingStart[a]; p < set.ratingStart[a + 1]; p++) {
       if (set.ratingClass[p] === boundaryIndex) hasLower = true;
       if (set.ratingClass[p] === boundaryIndex + 1) hasUpper = true;
     }
     if (!hasLower || !hasUpper) continue;
-    const panel = set.panelClass[a]!;
+    const panel = set.panelClass[a];
     const reference = panel >= 0 ? set.scale.min + panel : lower;
-    const date = new Date(set.day[a]! * DAY_MS).toISOString().slice(0, 10);
+    const date = new Date(set.day[a] * DAY_MS).toISOString().slice(0, 10);
     cases.push({
       description: `Assessment ${set.assessmentIds[a]} of ${date}: the panel split between ${formatClass(lower)} and ${formatClass(lower + 1)}. Describe what the video shows before sending.`,
       videoUrl: null,

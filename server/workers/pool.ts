@@ -184,8 +184,8 @@ export class Admission {
       if (i < 0) return;
       const [next] = this.waiting.splice(i, 1);
       this.running++;
-      this.runningBy.set(next!.federationId, (this.runningBy.get(next!.federationId) ?? 0) + 1);
-      next!.admit();
+      this.runningBy.set(next.federationId, (this.runningBy.get(next.federationId) ?? 0) + 1);
+      next.admit();
     }
   }
 }

@@ -62,7 +62,7 @@ export function FederationLayout() {
     <button
       type="button"
       className="btn btn-quiet min-h-10 py-1.5"
-      onClick={() => signOut.mutate(undefined, { onSuccess: () => navigate('/sign-in', { replace: true }) })}
+      onClick={() => signOut.mutate(undefined, { onSuccess: () => void navigate('/sign-in', { replace: true }) })}
     >
       Sign out
     </button>

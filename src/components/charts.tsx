@@ -77,7 +77,7 @@ export function TrendChart({
 
 /** Counts of class by class, with the counts written in the cells. */
 export function ConfusionChart({ confusion, title, xLabel, yLabel, fileName, summary }: { confusion: Confusion; title: string; xLabel: string; yLabel: string; fileName: string; summary: string }) {
-  const cells = confusion.counts.flatMap((row, i) => row.map((n, j) => ({ row: confusion.classes[i]!, column: confusion.classes[j]!, n, diagonal: i === j })));
+  const cells = confusion.counts.flatMap((row, i) => row.map((n, j) => ({ row: confusion.classes[i], column: confusion.classes[j], n, diagonal: i === j })));
   const max = Math.max(1, ...cells.map((c) => c.n));
   return (
     <PlotFigure
@@ -301,7 +301,7 @@ export function MultiLineChart({
     ).map((p) => ({ name: s.name, quarter: p.quarter, value: p.value, n: 'n' in p ? p.n : 0 })),
   );
   const data = lines.filter((d): d is typeof d & { value: number } => d.value !== null);
-  const colorOf = new Map(highlight.map((h, i) => [h, CHART_COLORS[i % 4]!]));
+  const colorOf = new Map(highlight.map((h, i) => [h, CHART_COLORS[i % 4]]));
   return (
     <PlotFigure
       title={title}

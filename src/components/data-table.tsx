@@ -56,7 +56,7 @@ export function DataTable<T>({ caption, rows, columns, csvFileName, filterable =
     () =>
       columns.map((c) => ({
         id: c.key,
-        accessorFn: (row: T) => row[c.key] as unknown,
+        accessorFn: (row: T) => row[c.key],
         header: c.header,
         enableSorting: c.sortable !== false,
         sortUndefined: 'last',

@@ -113,7 +113,7 @@ export function formatSeason(season: number | string): string {
   if (typeof season === 'number') return `${season}–${String(season + 1).slice(-2)}`;
   const m = /^(\d{4})\s*[-–/]\s*(\d{2}|\d{4})$/.exec(season.trim());
   if (!m) return season;
-  return `${m[1]}–${m[2]!.slice(-2)}`;
+  return `${m[1]}–${m[2].slice(-2)}`;
 }
 
 /** Event levels as people say them; an unknown code is written with a capital and spaces. */
@@ -130,5 +130,5 @@ export function formatEventLevel(level: string): string {
   const known = EVENT_LEVEL_LABELS[level.toLowerCase()];
   if (known) return known;
   const words = level.replace(/[_-]+/g, ' ').trim();
-  return words ? words[0]!.toUpperCase() + words.slice(1) : level;
+  return words ? words[0].toUpperCase() + words.slice(1) : level;
 }

@@ -8,7 +8,7 @@ import { hashPassword } from '../../server/auth/password';
 import { apiRouter } from '../../server/routes/index';
 import { createApiToken } from '../../server/services/api-tokens';
 import { createTestApp, signedInAgent, type TestApp } from '../helpers/test-app';
-import { CALLERS, type AccessEntry, type Caller, type Method } from './access/types';
+import { CALLERS, type AccessEntry, type Caller } from './access/types';
 
 /**
  * The role × route matrix. The routes come from the Express router itself (apiRouter(ctx),
@@ -109,7 +109,7 @@ describe('role × route matrix', () => {
    */
   async function send(caller: Caller, entry: AccessEntry): Promise<number> {
     const target = concretePath(entry);
-    const method = entry.method as Method;
+    const method = entry.method;
     let req;
     if (caller === 'anonymous') req = request(t.app)[method](target);
     else if (caller === 'readToken' || caller === 'importToken') req = request(t.app)[method](target).set('Authorization', `Bearer ${tokens[caller]}`);

@@ -131,7 +131,7 @@ describe('agreement dashboards API', () => {
       expect(r.interpretation?.source ?? '').toMatch(/Krippendorff \(2004\)/);
       expect(r.interpretation?.label ?? '').not.toMatch(/Poor|Slight|Fair|Moderate|Substantial|Almost Perfect/);
     }
-    for (const cls of Object.keys(report.fleissKappaByClass)) close(byId.get(`fleissKappa.${cls}`)!.value, report.fleissKappaByClass[cls]!.value);
+    for (const cls of Object.keys(report.fleissKappaByClass)) close(byId.get(`fleissKappa.${cls}`)!.value, report.fleissKappaByClass[cls].value);
     expect(byId.get('gwet.ac1')!.interpretation?.source).toMatch(/Landis & Koch/);
     expect(byId.get('exact.unanimous')!.interpretation).toBeNull();
     for (const r of rows) expect(r.measures.length).toBeGreaterThan(10);
@@ -156,7 +156,7 @@ describe('agreement dashboards API', () => {
         (r) => r.code,
       ),
     );
-    const narrowed = subsetRatingSet(filterRatingSet(set, { from: '2024-07-01', to: '2025-06-30', kinds: ['review'] }), (a, s) => women.has(s.athleteCodes[s.athlete[a]!]!));
+    const narrowed = subsetRatingSet(filterRatingSet(set, { from: '2024-07-01', to: '2025-06-30', kinds: ['review'] }), (a, s) => women.has(s.athleteCodes[s.athlete[a]]));
     const report = analyzeRatings(narrowed);
     expect(res.body.counts.assessments).toBe(narrowed.assessmentCount);
     close(res.body.alpha.value, report.krippendorffAlpha.ordinal.value);
@@ -371,8 +371,8 @@ describe('agreement dashboards API', () => {
     expect(c12.evidence.direction).toBe('down');
     expect(c12.status).toBe('open');
     expect(sent.length).toBe(1);
-    expect(sent[0]!.to).toBe('lead@demo.panelwise.test');
-    expect(sent[0]!.text).toContain('C12');
+    expect(sent[0].to).toBe('lead@demo.panelwise.test');
+    expect(sent[0].text).toContain('C12');
 
     expect((await lead.patch(`${base}/flags/${c12.id}`).send({ status: 'closed' })).status).toBe(400);
     expect((await lead.patch(`${base}/flags/${c12.id}`).send({ status: 'acknowledged' })).body.status).toBe('acknowledged');

@@ -36,7 +36,7 @@ function sessionCookieOf(response: request.Response): string {
   const cookies = ([] as string[]).concat(response.headers['set-cookie'] ?? []);
   const cookie = cookies.find((c) => c.startsWith(`${SESSION_COOKIE}=`));
   if (!cookie) throw new Error('no session cookie');
-  return cookie.split(';')[0]!;
+  return cookie.split(';')[0];
 }
 
 describe('invitations through the local mail server', () => {

@@ -75,7 +75,7 @@ describe('a backup while an import commits', () => {
     await backupDatabase(databasePath, afterCommit);
     copies.push({ file: afterCommit, startedDuringCommit: false });
     // At least the first copy was taken while the commit was in flight.
-    expect(copies[0]!.startedDuringCommit).toBe(true);
+    expect(copies[0].startedDuringCommit).toBe(true);
 
     for (const { file } of copies) {
       expect(inspectDatabase(file).integrity).toBe('ok');
@@ -87,7 +87,7 @@ describe('a backup while an import commits', () => {
 
     // Restore: refused while the server holds the database; after it stops, a copy from before
     // the commit (or the last one) goes back in, and the server starts on it.
-    const before = copies.find((c) => importedCounts(c.file, dryBody.importId).status === 'staged') ?? copies[0]!;
+    const before = copies.find((c) => importedCounts(c.file, dryBody.importId).status === 'staged') ?? copies[0];
     const refused = await panelwise(['restore', before.file], env);
     expect(refused.code).toBe(1);
     expect(refused.stderr).toContain('holds');

@@ -66,11 +66,11 @@ describe('calibration flags on the demo, and after data or thresholds change', (
       expect(f.evidence.n).toBeLessThanOrEqual(page.row.n);
       if (f.evidence.n > 0) {
         expect(f.evidence.to).toBe(page.drift.points.at(-1)!.date);
-        expect(f.evidence.from! >= page.drift.points[0]!.date).toBe(true);
+        expect(f.evidence.from! >= page.drift.points[0].date).toBe(true);
       }
       if (f.rule === 'drift' && f.evidence.n > 0) {
         expect(f.evidence.n).toBe(page.row.n);
-        expect(f.evidence.from).toBe(page.drift.points[0]!.date);
+        expect(f.evidence.from).toBe(page.drift.points[0].date);
         expect(f.evidence.nBefore! + f.evidence.nAfter!).toBe(f.evidence.n);
       }
       if (!f.stillMet) expect(f.lapsedAt).not.toBeNull();
@@ -153,7 +153,7 @@ describe('calibration flags on the demo, and after data or thresholds change', (
       if (!mail) await new Promise((r) => setTimeout(r, 50));
     }
     expect(mail?.subject).toMatch(/calibration flags? no longer met in Kestrel Coast/);
-    expect(mail?.text_body).toContain(lowered[0]!.classifierCode);
+    expect(mail?.text_body).toContain(lowered[0].classifierCode);
     expect(restored.filter((f) => f.stillMet).map((f) => f.id).sort()).toEqual([...before].sort());
 
     await lead.put(`${base}/flag-settings`).send({ ...DEFAULT_FLAG_THRESHOLDS, biasMin: 0.05, agreementGap: 0.02 });

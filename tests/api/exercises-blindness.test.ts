@@ -94,7 +94,7 @@ describe('blindness before the close', () => {
 
   it('the answer route answers with the caller’s own answer and progress only', async () => {
     const agent = await signedInAgent(t.app, 'classifier@demo.panelwise.test');
-    const caseId = [...openCaseIds][1]!;
+    const caseId = [...openCaseIds][1];
     const res = await agent.put(`/api/federations/${F}/exercises/2/answers/${caseId}`).send({ sportClass: 6, skills: ['passing'] });
     expect(res.status).toBe(200);
     ownAnswers.set(caseId, 6);

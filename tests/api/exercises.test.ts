@@ -219,7 +219,7 @@ describe('calibration exercises', () => {
     expect(closed.status).toBe('closed');
     expect(closed.results!.classifiers).toHaveLength(6);
     expect(closed.results!.beforeAfter.map((b) => b.classifierCode)).toEqual(['C05', 'C12']);
-    expect(closed.results!.beforeAfter[0]!.after.n).toBe(40);
+    expect(closed.results!.beforeAfter[0].after.n).toBe(40);
     await signedInAgent(t.app, 'researcher@demo.panelwise.test').then((r) => r.get(base).expect(403));
   });
 });

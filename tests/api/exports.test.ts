@@ -49,7 +49,7 @@ function readCsv(csv: string, dictionary: Dictionary): Record<string, Value>[] {
   return parsed.data.map((raw) => {
     const row: Record<string, Value> = {};
     for (const column of dictionary.columns) {
-      const text = raw[column.name]!;
+      const text = raw[column.name];
       if (text === '') {
         expect(column.nullable, `${column.name} is empty but not nullable`).toBe(true);
         row[column.name] = null;
@@ -157,7 +157,7 @@ function expectClose(actual: unknown, expected: unknown, path = ''): void {
     else expect(actual, path).toBeCloseTo(expected, 10);
   } else if (expected !== null && typeof expected === 'object') {
     expect(typeof actual, path).toBe('object');
-    const keys = new Set([...Object.keys(expected as object), ...Object.keys((actual ?? {}) as object)]);
+    const keys = new Set([...Object.keys(expected), ...Object.keys((actual ?? {}))]);
     for (const key of keys) expectClose((actual as Record<string, unknown>)[key], (expected as Record<string, unknown>)[key], `${path}.${key}`);
   } else expect(actual, path).toEqual(expected);
 }
@@ -373,8 +373,8 @@ describe('research exports', () => {
       action: string;
       detail: string;
     }[];
-    expect(audit[0]!.action).toBe('export.create');
-    expect(JSON.parse(audit[0]!.detail)).toMatchObject({ scope: FULL.scope, rows: view.counts.rows });
+    expect(audit[0].action).toBe('export.create');
+    expect(JSON.parse(audit[0].detail)).toMatchObject({ scope: FULL.scope, rows: view.counts.rows });
     expect(audit.filter((a) => a.action === 'export.download').length).toBe(3);
 
     const files = filesOf(t, view.id);
@@ -396,9 +396,9 @@ describe('research exports', () => {
     await researcher.get(`${base}/settings`).expect(403);
     await researcher.put(`${base}/settings`).send({ minAthletes: 10 }).expect(403);
     const events = (await lead.get(`${base}/options`).expect(200)).body.events as { id: number }[];
-    const refused = await researcher.post(base).send({ ...FULL, scope: { ...FULL.scope, eventIds: [events[0]!.id] } }).expect(403);
+    const refused = await researcher.post(base).send({ ...FULL, scope: { ...FULL.scope, eventIds: [events[0].id] } }).expect(403);
     expect(refused.body.error.details[0].path).toBe('scope.eventIds');
-    const leadEvent = (await lead.post(base).send({ ...FULL, scope: { ...FULL.scope, eventIds: [events[0]!.id] } }).expect(201)).body as ExportView;
+    const leadEvent = (await lead.post(base).send({ ...FULL, scope: { ...FULL.scope, eventIds: [events[0].id] } }).expect(201)).body as ExportView;
     expect(leadEvent.counts.rows).toBeGreaterThan(0);
     const dictionary = await download(lead, leadEvent, 'dictionary');
     expect(dictionary).toMatch(/"individualEventsChosen": 1/);
@@ -531,7 +531,7 @@ describe('research exports', () => {
       .executeTakeFirstOrThrow();
     const second = await t.ctx.db.selectFrom('federations').select('id').where('slug', '=', 'harbour-cities').executeTakeFirstOrThrow();
     await t.ctx.db.insertInto('memberships').values({ user_id: user.id, federation_id: second.id, role: 'lead' }).execute();
-    const agents: Partial<Record<Caller, Agent | ReturnType<typeof request.agent>>> = {
+    const agents: Partial<Record<Caller, Agent  >> = {
       anonymous: request.agent(t.app),
       lead,
       classifier,
@@ -540,9 +540,9 @@ describe('research exports', () => {
     };
     for (const entry of entries) {
       const params: Record<string, string> = { federation: 'kestrel-coast', ...entry.params };
-      const path = entry.path.replace(/:(\w+)/g, (_, name: string) => params[name]!);
+      const path = entry.path.replace(/:(\w+)/g, (_, name: string) => params[name]);
       for (const [caller, agent] of Object.entries(agents)) {
-        const req = agent![entry.method](path);
+        const req = agent[entry.method](path);
         const res = entry.body === undefined ? await req : await req.send(entry.body as object);
         expect(res.status, `${caller} ${entry.method.toUpperCase()} ${entry.path}`).toBe(entry.expect[caller as Caller]);
         if (res.status >= 400) expect(res.body.error.code).toEqual(expect.any(String));

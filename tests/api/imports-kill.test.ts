@@ -34,7 +34,7 @@ async function start(port: number): Promise<ChildProcess> {
     stdio: ['ignore', 'ignore', 'pipe'],
   });
   let stderr = '';
-  proc.stderr!.on('data', (d: Buffer) => (stderr += d.toString()));
+  proc.stderr.on('data', (d: Buffer) => (stderr += d.toString()));
   for (let i = 0; i < 300; i++) {
     if (proc.exitCode !== null) throw new Error(`the server exited: ${stderr}`);
     try {

@@ -102,7 +102,7 @@ describe('a valid long CSV', () => {
     });
     const original = snapshot();
     const before = dataCounts(t.ctx);
-    const other = ratings[0]!.sport_class === 9 ? 8 : ratings[0]!.sport_class + 1;
+    const other = ratings[0].sport_class === 9 ? 8 : ratings[0].sport_class + 1;
     const unused = ['C01', 'C02', 'C03', 'C04', 'C05'].find((c) => !ratings.some((r) => r.code === c))!;
     const lines = [
       'assessment_id,athlete_code,event_code,assessed_on,classifier_code,sport_class,panel_class,kind',
@@ -346,8 +346,8 @@ describe('batch API', () => {
   it('refuses a batch with any bad item: 422 naming item, field and value, nothing written', async () => {
     const before = await settled(t.ctx, tableCounts);
     const bad = structuredClone(ITEMS) as Record<string, unknown>[];
-    (bad[0]!.ratings as { sport_class: unknown }[])[1]!.sport_class = 3.25;
-    bad[1]!.assessed_on = '2024-13-01';
+    (bad[0].ratings as { sport_class: unknown }[])[1].sport_class = 3.25;
+    bad[1].assessed_on = '2024-13-01';
     const res = await lead.post(path).send(bad);
     expect(res.status).toBe(422);
     expect(res.body.error.details.errors).toEqual([
@@ -397,7 +397,7 @@ describe('progress', () => {
             let buffer = '';
             res.on('data', (chunk: Buffer) => {
               buffer += chunk.toString('utf8');
-              for (const m of buffer.matchAll(/^data: (.*)$/gm)) events.push(JSON.parse(m[1]!));
+              for (const m of buffer.matchAll(/^data: (.*)$/gm)) events.push(JSON.parse(m[1]));
               buffer = buffer.slice(buffer.lastIndexOf('\n\n') + 2);
             });
             res.on('end', () => resolve());
@@ -412,7 +412,7 @@ describe('progress', () => {
         .attach('file', fs.readFileSync(fixture('long-valid.csv')), 'long-valid.csv')
         .expect(200);
       await ended;
-      expect(events[0]!.phase).toBe('waiting');
+      expect(events[0].phase).toBe('waiting');
       expect(events.map((e) => e.phase)).toContain('reading');
       expect(events.at(-1)!.phase).toBe('done');
     } finally {

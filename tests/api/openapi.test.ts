@@ -96,9 +96,9 @@ describe('OpenAPI document', () => {
   });
 
   it('has the batch API with its request schema from zod, its token scope and its refusal', () => {
-    const op = doc.paths['/api/v1/federations/{federation}/assessments']!.post!;
+    const op = doc.paths['/api/v1/federations/{federation}/assessments'].post;
     expect(op.security).toEqual([{ session: [] }, { bearer: ['import'] }]);
-    const body = (op.requestBody as { content: Record<string, { schema: { type: string; items: { required: string[]; properties: Record<string, unknown> } } }> }).content['application/json']!.schema;
+    const body = (op.requestBody as { content: Record<string, { schema: { type: string; items: { required: string[]; properties: Record<string, unknown> } } }> }).content['application/json'].schema;
     expect(body.type).toBe('array');
     expect(body.items.required).toEqual(expect.arrayContaining(['assessment_id', 'athlete_code', 'event_code', 'assessed_on', 'ratings']));
     expect(Object.keys(op.responses as object)).toEqual(expect.arrayContaining(['200', '201', '401', '403', '422']));
@@ -107,8 +107,8 @@ describe('OpenAPI document', () => {
   });
 
   it('describes the upload as multipart with a binary file', () => {
-    const op = doc.paths['/api/federations/{federation}/imports']!.post!;
+    const op = doc.paths['/api/federations/{federation}/imports'].post;
     const content = (op.requestBody as { content: Record<string, { schema: { properties: { file: { format: string } } } }> }).content;
-    expect(content['multipart/form-data']!.schema.properties.file.format).toBe('binary');
+    expect(content['multipart/form-data'].schema.properties.file.format).toBe('binary');
   });
 });

@@ -25,7 +25,7 @@ afterAll(() => t.close());
 function sessionCookieOf(response: request.Response): string {
   const cookie = ([] as string[]).concat(response.headers['set-cookie'] ?? []).find((c) => c.startsWith(`${SESSION_COOKIE}=`));
   if (!cookie) throw new Error('no session cookie');
-  return cookie.split(';')[0]!;
+  return cookie.split(';')[0];
 }
 
 /** An invitation for a new address, with its link token (written directly: the token is only e-mailed). */

@@ -81,7 +81,7 @@ describe('the worker pool on a database file', () => {
     const answers = await Promise.all(Array.from({ length: 6 }, () => get(url).then(async (r) => ({ status: r.status, text: await r.text() }))));
     for (const a of answers) {
       expect(a.status).toBe(200);
-      expect(a.text).toBe(answers[0]!.text);
+      expect(a.text).toBe(answers[0].text);
     }
     const after = t.ctx.pool.stats();
     // One task for the boundaries (and at most one for the athletes check of the filter).

@@ -31,6 +31,6 @@ export function mockApi(handlers: Record<string, (body: unknown) => { status: nu
       status: answer.status,
       headers: { 'content-type': 'application/json' },
     });
-  }) as typeof fetch;
+  });
   return calls;
 }

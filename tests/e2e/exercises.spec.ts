@@ -59,7 +59,7 @@ test('a lead creates an exercise from a flag, the classifier completes it blind,
   const source = lead.getByLabel('A calibration flag or a class boundary (fills in cases and classifiers)');
   const flagOption = source.locator('option', { hasText: /^C12 / }).first();
   await expect(flagOption).toBeAttached({ timeout: 20_000 });
-  await source.selectOption((await flagOption.getAttribute('value'))!);
+  await source.selectOption((await flagOption.getAttribute('value')));
   await expect(lead.getByLabel('Title')).toHaveValue(/^Calibration for C12/, { timeout: 20_000 });
   await expect(lead.getByRole('checkbox', { name: /^C12 / })).toBeChecked();
   // Keep two of the proposed cases, with invented descriptions.

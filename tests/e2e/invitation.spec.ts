@@ -71,7 +71,7 @@ test('forgot password: the reset link from the Outbox sets a new password', asyn
   expect((await request.post('/api/session', { data: { email: 'lead@demo.panelwise.test', password: 'panelwise-demo' } })).status()).toBe(201);
   expect((await request.post('/api/federations/kestrel-coast/invitations', { data: { email, role: 'researcher' } })).status()).toBe(201);
   const invitations = (await (await request.get('/api/federations/kestrel-coast/outbox')).json()) as { messages: { to: string; links: string[] }[] };
-  const token = invitations.messages.find((m) => m.to === email)!.links[0]!.split('/').pop();
+  const token = invitations.messages.find((m) => m.to === email)!.links[0].split('/').pop();
   const accepted = await request.post(`/api/invitations/${token}/accept`, { data: { displayName: 'Ash Reset', password: 'first-password-1', confirmPassword: 'first-password-1' } });
   expect(accepted.status()).toBe(201);
 

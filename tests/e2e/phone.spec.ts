@@ -110,7 +110,7 @@ for (const role of ['lead', 'classifier', 'researcher', 'owner'] as const) {
     expect(titles.every((t) => / · Panelwise$/.test(t) && t !== 'Panelwise')).toBe(true);
     if (role !== 'owner') expect(titles.every((t) => t.includes(' · Kestrel Coast · '))).toBe(true);
     // The chosen pair is the same page as the pairs list: leave it out of the distinct titles.
-    const distinct = titles.filter((_, i) => !PAGES[role][i]!.includes('?'));
+    const distinct = titles.filter((_, i) => !PAGES[role][i].includes('?'));
     expect(new Set(distinct).size, distinct.join(' | ')).toBe(distinct.length);
 
     if (role !== 'owner') {

@@ -15,16 +15,16 @@ function correlation(x: number[], y: number[]): number {
   let sxx = 0;
   let syy = 0;
   for (let i = 0; i < n; i++) {
-    sxy += (x[i]! - mx) * (y[i]! - my);
-    sxx += (x[i]! - mx) ** 2;
-    syy += (y[i]! - my) ** 2;
+    sxy += (x[i] - mx) * (y[i] - my);
+    sxx += (x[i] - mx) ** 2;
+    syy += (y[i] - my) ** 2;
   }
   return sxy / Math.sqrt(sxx * syy);
 }
 
 const median = (xs: number[]) => {
   const s = [...xs].sort((a, b) => a - b);
-  return s.length % 2 ? s[s.length >> 1]! : (s[s.length / 2 - 1]! + s[s.length / 2]!) / 2;
+  return s.length % 2 ? s[s.length >> 1] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
 };
 
 const scenarios: [string, Omit<SimulationOptions, 'seed'>][] = [

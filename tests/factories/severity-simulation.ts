@@ -59,7 +59,7 @@ export function simulateFederation(options: SimulationOptions): SimulatedFederat
   const codes = Array.from({ length: K }, (_, i) => `C${String(i + 1).padStart(2, '0')}`);
   const region = codes.map((_, i) => i % R);
   const lean = Array.from({ length: R }, (_, r) => (R === 1 ? 0 : -regionLean + (2 * regionLean * r) / (R - 1)));
-  const raw = codes.map((_, i) => lean[region[i]!]! + individualSd * normal(rng));
+  const raw = codes.map((_, i) => lean[region[i]] + individualSd * normal(rng));
   const mean = raw.reduce((s, x) => s + x, 0) / K;
   const severity = raw.map((x) => x - mean);
   const noise = codes.map(() => noiseLo + (noiseHi - noiseLo) * rng.next());
@@ -76,19 +76,19 @@ export function simulateFederation(options: SimulationOptions): SimulatedFederat
   for (let a = 0; a < assessments; a++) {
     const athlete = a < athletes ? a : rng.nextInt(athletes);
     const size = rng.next() < threeShare ? 3 : 2;
-    const pool = rng.next() < regionalShare ? pools[home[athlete]!]! : codes.map((_, i) => i);
+    const pool = rng.next() < regionalShare ? pools[home[athlete]] : codes.map((_, i) => i);
     const panel = new Set<number>();
-    while (panel.size < Math.min(size, pool.length)) panel.add(pool[rng.nextInt(pool.length)]!);
+    while (panel.size < Math.min(size, pool.length)) panel.add(pool[rng.nextInt(pool.length)]);
     const date = new Date((start + Math.floor((a / assessments) * 1000)) * 86_400_000).toISOString().slice(0, 10);
     for (const c of panel) {
-      const value = level[athlete]! + severity[c]! + noise[c]! * normal(rng);
+      const value = level[athlete] + severity[c] + noise[c] * normal(rng);
       const half = Math.min(DEFAULT_SCALE.max, Math.max(DEFAULT_SCALE.min, Math.round(value * 2)));
       rows.push({
         assessmentId: `AS${a + 1}`,
         athleteCode: `A${athlete + 1}`,
         eventCode: `E${Math.floor(a / 100) + 1}`,
         assessedOn: date,
-        classifierCode: codes[c]!,
+        classifierCode: codes[c],
         sportClass: half,
         kind: a < athletes ? 'first' : 'review',
       });
@@ -97,7 +97,7 @@ export function simulateFederation(options: SimulationOptions): SimulatedFederat
   return {
     set: buildRatingSet(rows, DEFAULT_SCALE),
     rows,
-    planted: new Map(codes.map((c, i) => [c, severity[i]!])),
-    regionOf: new Map(codes.map((c, i) => [c, region[i]!])),
+    planted: new Map(codes.map((c, i) => [c, severity[i]])),
+    regionOf: new Map(codes.map((c, i) => [c, region[i]])),
   };
 }

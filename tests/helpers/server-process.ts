@@ -35,8 +35,8 @@ export async function startServer(env: Record<string, string | undefined>, args:
   const port = Number(env.PORT ?? (await freePort()));
   const proc = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts', ...args], { cwd: root, env: childEnv({ ...env, PORT: String(port) }), stdio: ['ignore', 'pipe', 'pipe'] });
   let output = '';
-  proc.stdout!.on('data', (d: Buffer) => (output += d.toString()));
-  proc.stderr!.on('data', (d: Buffer) => (output += d.toString()));
+  proc.stdout.on('data', (d: Buffer) => (output += d.toString()));
+  proc.stderr.on('data', (d: Buffer) => (output += d.toString()));
   const base = `http://localhost:${port}`;
   for (let i = 0; i < 600; i++) {
     if (proc.exitCode !== null) throw new ServerExited(proc.exitCode, output);

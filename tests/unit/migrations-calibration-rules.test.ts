@@ -31,11 +31,11 @@ describe('migration to the three calibration rules', () => {
     expect((await migrator.migrateTo('2026_12_04_0060_calibration_rules_bias_drift_agreement')).error).toBeUndefined();
     const rows = sqlite.prepare('select classifier_id, rule, status, note, evidence, evidence_through, still_met, lapsed_at, lapse_reason from calibration_flags order by id').all() as Record<string, unknown>[];
     expect(rows[0]).toMatchObject({ rule: 'agreement', status: 'closed', still_met: 0, evidence_through: null, lapse_reason: 'the weighted-kappa rule was retired' });
-    expect(String(rows[0]!.note)).toMatch(/weighted-kappa rule was replaced .*decision record 0008/);
+    expect(String(rows[0].note)).toMatch(/weighted-kappa rule was replaced .*decision record 0008/);
     // A flag the lead had closed keeps the lead's note.
     expect(rows[1]).toMatchObject({ rule: 'agreement', status: 'closed', note: 'Discussed.' });
     expect(rows[2]).toMatchObject({ rule: 'bias', status: 'acknowledged', still_met: 0, lapse_reason: 'no longer met at the last evaluation', evidence });
-    expect(rows[2]!.lapsed_at).not.toBeNull();
+    expect(rows[2].lapsed_at).not.toBeNull();
     expect(rows[3]).toMatchObject({ rule: 'drift', status: 'open', still_met: 1, lapsed_at: null, lapse_reason: null });
     expect(() => insert.run(1, 'kappa', 'open', null, evidence, null, 1)).toThrow(/CHECK constraint/);
     const th = (id: number) => JSON.parse((sqlite.prepare('select thresholds from calibration_thresholds where federation_id = ?').get(id) as { thresholds: string }).thresholds);

@@ -64,7 +64,7 @@ describe('demo seed', () => {
         const mine = a.ratings.find((r) => r.classifierCode === code);
         if (!mine) continue;
         const others = a.ratings.filter((r) => r !== mine).map((r) => r.sportClass);
-        sum += mine.sportClass - (others[0]! + others[1]!) / 2;
+        sum += mine.sportClass - (others[0] + others[1]) / 2;
         n++;
       }
       return sum / n / 2;

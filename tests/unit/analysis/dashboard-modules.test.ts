@@ -81,7 +81,7 @@ describe('seasons (1 July to 30 June)', () => {
     const d = classDistributionBySeason(set);
     expect(d.map((s) => s.season)).toEqual(['2023–24', '2024–25']);
     expect(d[0]).toMatchObject({ n: 3, counts: expect.objectContaining({ '1.5': 1, '2.0': 1, '3.0': 1, '4.5': 0 }) });
-    expect(d[0]!.shares['2.0']).toBeCloseTo(1 / 3, 12);
+    expect(d[0].shares['2.0']).toBeCloseTo(1 / 3, 12);
     expect(d[1]).toMatchObject({ n: 2, counts: expect.objectContaining({ '2.5': 1, '3.0': 1 }) });
   });
 });

@@ -64,8 +64,8 @@ describe('degenerate data (undefined statistics are null with a reason, never Na
     expect(r.gwet.ac1.value).toBe(1);
     expect(r.exactAgreement.unanimous.value).toBe(1);
     expect(r.pairs.every((p) => p.kappa.value === null && typeof p.kappa.reason === 'string')).toBe(true);
-    expect(r.fleissKappaByClass['2.5']!.value).toBeNull();
-    expect(r.fleissKappaByClass['1.0']!.reason).toBe('class not used');
+    expect(r.fleissKappaByClass['2.5'].value).toBeNull();
+    expect(r.fleissKappaByClass['1.0'].reason).toBe('class not used');
   });
 
   it('a single assessment: defined where the formulas allow, never NaN', () => {
@@ -100,7 +100,7 @@ describe('degenerate data (undefined statistics are null with a reason, never Na
       ['C01', 0, 1],
       ['C02', 0, 1],
     ]);
-    expect(r.classifiers[0]!.meanDeviation.value).toBeNull();
+    expect(r.classifiers[0].meanDeviation.value).toBeNull();
   });
 
   it('a panel of one does not change the panel statistics of the others (Krippendorff 2011: unpairable units)', () => {
@@ -176,11 +176,11 @@ describe('building and subsetting a RatingSet', () => {
   it('refuses bad rows with the row, field and value', () => {
     const good = rows(spec);
     const cases: [RatingRow[], RegExp][] = [
-      [[...good, { ...good[0]!, classifierCode: 'C01' }], /row 8: classifierCode "C01" rates assessment AS1 twice/],
-      [[{ ...good[0]!, sportClass: 10 }], /row 1: sportClass "10" is not a class/],
-      [[good[0]!, { ...good[1]!, athleteCode: 'A777' }], /row 2: athleteCode "A777" differs from row 1/],
-      [[{ ...good[0]!, assessedOn: '2024-02-30' }], /assessedOn "2024-02-30" is not a date/],
-      [[good[0]!, { ...good[1]!, panelClass: 8 }], /row 2: panelClass "8" differs/],
+      [[...good, { ...good[0], classifierCode: 'C01' }], /row 8: classifierCode "C01" rates assessment AS1 twice/],
+      [[{ ...good[0], sportClass: 10 }], /row 1: sportClass "10" is not a class/],
+      [[good[0], { ...good[1], athleteCode: 'A777' }], /row 2: athleteCode "A777" differs from row 1/],
+      [[{ ...good[0], assessedOn: '2024-02-30' }], /assessedOn "2024-02-30" is not a date/],
+      [[good[0], { ...good[1], panelClass: 8 }], /row 2: panelClass "8" differs/],
     ];
     for (const [input, message] of cases) {
       expect(() => buildRatingSet(input, DEFAULT_SCALE)).toThrow(RatingInputError);
@@ -250,20 +250,20 @@ describe('class boundaries, confusion matrices, transitions, quarters and drift'
   it('confusion matrices count class by class', () => {
     const m = confusionWithPanel(set, 'C01');
     expect(m.n).toBe(3);
-    expect(m.counts[4]![4]).toBe(1); // 3.0 vs 3.0
-    expect(m.counts[2]![2]).toBe(1);
-    expect(m.counts[5]![5]).toBe(1);
+    expect(m.counts[4][4]).toBe(1); // 3.0 vs 3.0
+    expect(m.counts[2][2]).toBe(1);
+    expect(m.counts[5][5]).toBe(1);
     const p = confusionBetween(set, 'C02', 'C01');
     expect(p.n).toBe(3);
-    expect(p.counts[5]![4]).toBe(1); // C02 3.5, C01 3.0 on AS1
-    expect(confusionBetween(set, 'C01', 'C02').counts[4]![5]).toBe(1);
+    expect(p.counts[5][4]).toBe(1); // C02 3.5, C01 3.0 on AS1
+    expect(confusionBetween(set, 'C01', 'C02').counts[4][5]).toBe(1);
   });
 
   it('transitions between successive assessments of an athlete; share of reviews and protests that changed class', () => {
     const t = classTransitions(set);
     expect(t.n).toBe(2); // A001: 3.0 → 3.5; A002: 2.0 → 2.0
-    expect(t.counts[4]![5]).toBe(1);
-    expect(t.counts[2]![2]).toBe(1);
+    expect(t.counts[4][5]).toBe(1);
+    expect(t.counts[2][2]).toBe(1);
     expect(t.reviewsChanged.value).toBe(1);
     expect(t.protestsChanged.value).toBe(0);
     expect(t.changes).toEqual([{ athleteCode: 'A001', from: '3.0', to: '3.5', on: '2024-05-10', kind: 'review', assessmentId: 'AS3' }]);
@@ -279,7 +279,7 @@ describe('class boundaries, confusion matrices, transitions, quarters and drift'
     const d = deviationByQuarter(set, 'C03');
     expect(d.map((x) => x.quarter)).toEqual(['2024-Q1', '2024-Q3']);
     // Q3: AS4 2.5 vs 2.0 (+0.5), AS5 3.5 vs 3.0 (+0.5).
-    expect(d[1]!.result.value).toBeCloseTo(0.5, 12);
+    expect(d[1].result.value).toBeCloseTo(0.5, 12);
   });
 
   it('CUSUM (Page 1954): no alarm on in-control noise, alarm after a sustained shift, with its date', () => {

@@ -49,7 +49,7 @@ function toRows(table: (number | null)[][], codes?: string[]): RatingRow[] {
         athleteCode: `A${String(u).padStart(3, '0')}`,
         eventCode: 'E01',
         assessedOn: '2024-06-01',
-        classifierCode: codes ? codes[k]! : `C${String(k + 1).padStart(2, '0')}`,
+        classifierCode: codes ? codes[k] : `C${String(k + 1).padStart(2, '0')}`,
         sportClass: v + DEFAULT_SCALE.min,
       });
     }),
@@ -112,11 +112,11 @@ describe('invariance (the statistics treat classifiers and assessments as unorde
   it('relabelling classifiers and reordering assessments leaves the report unchanged', () => {
     fc.assert(
       fc.property(layout({ maxRaters: 5 }), fc.integer(), (table, salt) => {
-        const raters = table[0]!.length;
+        const raters = table[0].length;
         const codes = Array.from({ length: raters }, (_, k) => `C${String(k + 1).padStart(2, '0')}`);
         // A permutation of the codes and of the assessment order, derived from the salt.
         const perm = codes.map((c, i) => ({ c, key: Math.sin(salt + i) })).sort((x, y) => x.key - y.key).map((x) => x.c);
-        const rename = new Map(codes.map((c, i) => [c, perm[i]!]));
+        const rename = new Map(codes.map((c, i) => [c, perm[i]]));
         const rows = toRows(table);
         const shuffled = rows
           .map((r, i) => ({ r: { ...r, classifierCode: rename.get(r.classifierCode)! }, key: Math.cos(salt * 7 + Number(r.assessmentId.slice(2)) * 13) + i * 1e-9 }))
@@ -129,7 +129,7 @@ describe('invariance (the statistics treat classifiers and assessments as unorde
         expectSameNumbers(restA, restB);
         // Pairs, classifiers and the severity model's network: same results under the new names.
         const back = new Map([...rename].map(([k, v]) => [v, k]));
-        const byFirst = (x: { classifiers: string[] }, y: { classifiers: string[] }) => (x.classifiers[0]! < y.classifiers[0]! ? -1 : 1);
+        const byFirst = (x: { classifiers: string[] }, y: { classifiers: string[] }) => (x.classifiers[0] < y.classifiers[0] ? -1 : 1);
         const ownNames = sa.components.map((c) => ({ ...c, classifiers: [...c.classifiers].sort() }));
         const renamedBack = sb.components.map((c) => ({ ...c, classifiers: c.classifiers.map((x) => back.get(x)!).sort() }));
         expectSameNumbers({ ...sa, components: ownNames.sort(byFirst) }, { ...sb, components: renamedBack.sort(byFirst) });

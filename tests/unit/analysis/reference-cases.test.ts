@@ -70,7 +70,7 @@ function prepare(c: Case): Prepared {
   const d = c.data;
   if (d.kind === 'count_table') {
     const rows = d.rows as number[][];
-    const q = rows[0]!.length;
+    const q = rows[0].length;
     return { q, values: range(q, 1), table: countTableFromRows(rows), pair: null, rows: null, raters: [] };
   }
   if (d.kind === 'contingency_table') {
@@ -80,7 +80,7 @@ function prepare(c: Case): Prepared {
   }
   // ratings_table
   const raw = d.rows as (number | string | null)[][];
-  const width = raw[0]!.length;
+  const width = raw[0].length;
   const raters = (d.raters as string[] | undefined) ?? (d.observers as string[] | undefined) ?? range(width, 1).map((i) => `R${i}`);
   let categories: (number | string)[];
   let values: number[];
@@ -92,7 +92,7 @@ function prepare(c: Case): Prepared {
   } else {
     const seen = [...new Set(raw.flat().filter((v): v is number | string => v !== null))];
     categories = seen.sort((x, y) => (x < y ? -1 : x > y ? 1 : 0));
-    values = categories.every((v) => typeof v === 'number') ? (categories as number[]) : range(categories.length, 0);
+    values = categories.every((v) => typeof v === 'number') ? (categories) : range(categories.length, 0);
   }
   const q = categories.length;
   const idx = raw.map((r) => r.map((v) => (v === null ? null : categories.indexOf(v))));
@@ -100,7 +100,7 @@ function prepare(c: Case): Prepared {
   let pair: Float64Array | null = null;
   if (width === 2) {
     pair = new Float64Array(q * q);
-    for (const [x, y] of idx) if (x !== null && y !== null && x !== undefined && y !== undefined) pair[x * q + y]!++;
+    for (const [x, y] of idx) if (x !== null && y !== null && x !== undefined && y !== undefined) pair[x * q + y]++;
   }
   let rows: RatingRow[] | null = null;
   if (sport) {
@@ -113,7 +113,7 @@ function prepare(c: Case): Prepared {
           athleteCode: `P${String(u + 1).padStart(3, '0')}`,
           eventCode: 'E01',
           assessedOn: '2024-03-01',
-          classifierCode: raters[k]!,
+          classifierCode: raters[k],
           sportClass: Math.round((v as number) * 2),
         });
       }),
@@ -183,7 +183,7 @@ function compute(c: Case, p: Prepared, check: Check): number | null | (number | 
     case 'fleiss_kappa_se0':
       return fleissKappa(t).se0;
     case 'fleiss_kappa_per_category_se0_null_hypothesis':
-      return fleissKappa(t).byClass[0]!.se;
+      return fleissKappa(t).byClass[0].se;
     case 'krippendorff_alpha_nominal':
     case 'krippendorff_alpha_ordinal':
     case 'krippendorff_alpha_interval':
@@ -285,8 +285,8 @@ for (const c of reference.cases) {
             const k = kappaFor(c, p, check);
             const [lo, hi] = printed as number[];
             expect(k.ci95, 'ci95').not.toBeNull();
-            expectClose(k.ci95![0], lo!, printedTolerance(lo!));
-            expectClose(k.ci95![1], hi!, printedTolerance(hi!));
+            expectClose(k.ci95![0], lo, printedTolerance(lo));
+            expectClose(k.ci95![1], hi, printedTolerance(hi));
             continue;
           }
           const tol = what === 'se_advisory' ? 1e-6 : check.tolerance < 1e-4 ? Math.max(check.tolerance, printedTolerance(printed as number)) : printedTolerance(printed as number);
@@ -354,7 +354,7 @@ describe('skipped reference checks are listed with a reason', () => {
       const [id, rest] = key.split('#');
       const c = reference.cases.find((x) => x.id === id);
       expect(c, key).toBeDefined();
-      expect(c!.checks[Number(rest!.split(':')[0])]?.statistic).toBe(rest!.split(':')[1]);
+      expect(c!.checks[Number(rest.split(':')[0])]?.statistic).toBe(rest.split(':')[1]);
     }
   });
 });

@@ -34,9 +34,9 @@ function correlation(x: number[], y: number[]): number {
   let sxx = 0;
   let syy = 0;
   for (let i = 0; i < n; i++) {
-    sxy += (x[i]! - mx) * (y[i]! - my);
-    sxx += (x[i]! - mx) ** 2;
-    syy += (y[i]! - my) ** 2;
+    sxy += (x[i] - mx) * (y[i] - my);
+    sxx += (x[i] - mx) ** 2;
+    syy += (y[i] - my) ** 2;
   }
   return sxy / Math.sqrt(sxx * syy);
 }

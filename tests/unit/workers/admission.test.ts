@@ -46,9 +46,9 @@ describe('Admission', () => {
     const first = await a.acquire(1);
     const waits = [a.acquire(1).then((r) => (order.push('1a'), r)), a.acquire(2).then((r) => (order.push('2a'), r)), a.acquire(1).then((r) => (order.push('1b'), r))];
     first();
-    (await waits[0]!)();
-    (await waits[1]!)();
-    (await waits[2]!)();
+    (await waits[0])();
+    (await waits[1])();
+    (await waits[2])();
     expect(order).toEqual(['1a', '2a', '1b']);
   });
 

@@ -103,7 +103,7 @@ export function ClassifierFigures({ detail, who, fileStem }: { detail: Classifie
           yLabel={`Class given by ${who} (sport class)`}
           fileName={`${fileStem}-confusion`}
           summary={`${integer.format(detail.confusion.n)} ratings with a recorded final class; ${pct(
-            detail.confusion.n ? detail.confusion.counts.reduce((s, r, i) => s + r[i]!, 0) / detail.confusion.n : null,
+            detail.confusion.n ? detail.confusion.counts.reduce((s, r, i) => s + r[i], 0) / detail.confusion.n : null,
           )} on the diagonal (same class as the panel).`}
         />
         <TrendChart

@@ -110,7 +110,7 @@ function ClassDriftSection({ federation, filters }: { federation: string; filter
       <QueryState query={query}>
         {(data) => {
           const t = data.transitions;
-          const cells = t.counts.flatMap((row, i) => row.map((n, j) => ({ from: t.classes[i]!, to: t.classes[j]!, n })));
+          const cells = t.counts.flatMap((row, i) => row.map((n, j) => ({ from: t.classes[i], to: t.classes[j], n })));
           const max = Math.max(1, ...cells.filter((c) => c.from !== c.to).map((c) => c.n));
           return (
             <>

@@ -226,7 +226,7 @@ export function OverviewPage() {
               fileName={`${federation.slug}-alpha-by-quarter`}
               summary={
                 o.trend.length
-                  ? `From ${o.trend[0]!.quarter} to ${o.trend.at(-1)!.quarter}, alpha ranged from ${num(Math.min(...o.trend.map((p) => p.value ?? 1)), 3)} to ${num(
+                  ? `From ${o.trend[0].quarter} to ${o.trend.at(-1)!.quarter}, alpha ranged from ${num(Math.min(...o.trend.map((p) => p.value ?? 1)), 3)} to ${num(
                       Math.max(...o.trend.map((p) => p.value ?? 0)),
                       3,
                     )}. The band is a 95 % bootstrap interval per quarter.`

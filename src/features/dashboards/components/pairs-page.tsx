@@ -112,7 +112,7 @@ export function PairsPage() {
               >
                 <KappaLegend low={Math.min(0.8, ...valued.map((p) => p.quadraticKappa!.value!))} />
               </PlotFigure>
-              {selected && selected.length === 2 ? <PairPanel federation={federation.slug} filters={filters.filters} a={selected[0]!} b={selected[1]!} /> : null}
+              {selected && selected.length === 2 ? <PairPanel federation={federation.slug} filters={filters.filters} a={selected[0]} b={selected[1]} /> : null}
               <DataTable
                 caption="Pairs of classifiers"
                 filterable
@@ -163,7 +163,7 @@ function PairPanel({ federation, filters, a, b }: { federation: string; filters:
               xLabel={`Class given by ${b} (sport class)`}
               yLabel={`Class given by ${a} (sport class)`}
               fileName={`${federation}-${a}-${b}-confusion`}
-              summary={`${integer.format(p.n)} shared assessments; ${pct(p.n ? p.confusion.counts.reduce((s, r, i) => s + r[i]!, 0) / p.n : null)} with the same class.`}
+              summary={`${integer.format(p.n)} shared assessments; ${pct(p.n ? p.confusion.counts.reduce((s, r, i) => s + r[i], 0) / p.n : null)} with the same class.`}
             />
             <div className="card space-y-2">
               <h3>Agreement of the pair</h3>

@@ -13,8 +13,8 @@ export function Sparkline({ points, label, range = 0.6 }: { points: QuarterStat[
   const x = (i: number) => 2 + (i * (w - 4)) / (values.length - 1);
   const y = (v: number) => h / 2 - (Math.max(-range, Math.min(range, v)) / range) * (h / 2 - 2);
   const d = values.map((p, i) => `${i === 0 ? 'M' : 'L'}${x(i).toFixed(1)},${y(p.value).toFixed(1)}`).join(' ');
-  const first = values[0]!;
-  const last = values[values.length - 1]!;
+  const first = values[0];
+  const last = values[values.length - 1];
   return (
     <svg width={w} height={h} role="img" aria-label={`${label}: ${num(first.value)} in ${first.quarter}, ${num(last.value)} in ${last.quarter}`}>
       <line x1={0} x2={w} y1={h / 2} y2={h / 2} stroke="#dcd8cf" />

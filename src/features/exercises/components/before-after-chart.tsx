@@ -36,7 +36,7 @@ export function BeforeAfterChart({ item }: { item: BeforeAfter }) {
         ],
       })}
     >
-      <Legend items={PHASES.map((p, i) => ({ label: PHASE_LABELS[p], color: PHASE_COLORS[i]! }))} />
+      <Legend items={PHASES.map((p, i) => ({ label: PHASE_LABELS[p], color: PHASE_COLORS[i] }))} />
       {after === null ? <p className="text-sm text-muted">No live-panel rating since the exercise closed yet: the after window fills as new assessments are imported.</p> : null}
     </PlotFigure>
   );

@@ -56,7 +56,7 @@ export function NewExercisePage() {
     if (!p) return;
     setTitle(p.title);
     setCodes(p.classifierCodes);
-    setCases(p.cases.length ? p.cases.map((c) => ({ description: c.description, videoUrl: c.videoUrl ?? '', skills: c.skills as Skill[], referenceClass: c.referenceClass })) : [emptyCase()]);
+    setCases(p.cases.length ? p.cases.map((c) => ({ description: c.description, videoUrl: c.videoUrl ?? '', skills: c.skills, referenceClass: c.referenceClass })) : [emptyCase()]);
     setNote(p.note);
   }, [proposal.data]);
 

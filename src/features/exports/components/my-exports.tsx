@@ -1,7 +1,7 @@
 import { QueryState } from '../../../components/query-state';
 import { DataTable, type DataTableColumn } from '../../../components/data-table';
 import type { ExportView } from '../../../../shared/schemas/exports';
-import { ASSESSMENT_KIND_LABELS, type AssessmentKind } from '../../../../shared/schemas/common';
+import { ASSESSMENT_KIND_LABELS } from '../../../../shared/schemas/common';
 import { useMyExports } from '../api/list-exports';
 import { ExportFiles } from './export-files';
 import { formatDateTime, formatEventLevel, formatInteger, formatNumber, formatSeason } from '../../../lib/format';
@@ -28,7 +28,7 @@ export function MyExports({ federation }: { federation: string }) {
     ...e,
     rows: e.counts.rows,
     studyName: e.study?.name ?? '—',
-    scopeText: `${e.request.scope.seasons.map(formatSeason).join(', ')} · ${e.request.scope.eventLevels.map(formatEventLevel).join(', ')} · ${e.request.scope.kinds.map((k) => ASSESSMENT_KIND_LABELS[k as AssessmentKind] ?? k).join(', ')} · ${e.request.scope.categories.join(', ')} · dates by ${e.request.dateMode}`,
+    scopeText: `${e.request.scope.seasons.map(formatSeason).join(', ')} · ${e.request.scope.eventLevels.map(formatEventLevel).join(', ')} · ${e.request.scope.kinds.map((k) => ASSESSMENT_KIND_LABELS[k] ?? k).join(', ')} · ${e.request.scope.categories.join(', ')} · dates by ${e.request.dateMode}`,
   }));
   return (
     <section className="space-y-3" aria-labelledby="my-exports-title">

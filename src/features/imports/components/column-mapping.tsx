@@ -101,8 +101,8 @@ export function ColumnMapping({ federation, headers, state, onChange, saved, unm
                     {targetLabel(t)}
                   </option>
                 ))}
-                {state.mapping[header] && !targetChoices(state.layout, header).includes(state.mapping[header]!) ? (
-                  <option value={state.mapping[header]}>{targetLabel(state.mapping[header]!)}</option>
+                {state.mapping[header] && !targetChoices(state.layout, header).includes(state.mapping[header]) ? (
+                  <option value={state.mapping[header]}>{targetLabel(state.mapping[header])}</option>
                 ) : null}
               </select>
               {missing ? (

@@ -164,7 +164,7 @@ export function OwnerPage() {
           <button
             type="button"
             className="btn btn-quiet ml-auto min-h-10 py-1.5"
-            onClick={() => signOut.mutate(undefined, { onSuccess: () => navigate('/sign-in', { replace: true }) })}
+            onClick={() => signOut.mutate(undefined, { onSuccess: () => void navigate('/sign-in', { replace: true }) })}
           >
             Sign out
           </button>

@@ -32,8 +32,8 @@ export function AcceptInvitationPage() {
 
   const offer = invitation.data;
   const done = (result: AcceptResult) => {
-    if (result.signedIn) navigate(landing(result), { replace: true });
-    else navigate(`/sign-in?next=${encodeURIComponent(landing(result))}`, { replace: true });
+    if (result.signedIn) void navigate(landing(result), { replace: true });
+    else void navigate(`/sign-in?next=${encodeURIComponent(landing(result))}`, { replace: true });
   };
   const onSubmit = form.handleSubmit((values) => accept.mutateAsync(values).then(done, () => undefined));
   const signedInAsOther = session.data && session.data.user.email !== offer.email;
