@@ -101,8 +101,8 @@ test.describe('agreement dashboards', () => {
     await page.goto('/f/kestrel-coast');
     const unanimous = page.getByTestId('same-class-unanimous');
     const stake = page.getByTestId('points-at-stake');
-    await expect(unanimous).toHaveText(/^\d+ %$/, { timeout: 60_000 });
-    await expect(page.getByTestId('same-class-pairwise')).toHaveText(/^\d+ %$/);
+    await expect(unanimous).toHaveText(/^\d+\s%$/, { timeout: 60_000 });
+    await expect(page.getByTestId('same-class-pairwise')).toHaveText(/^\d+\s%$/);
     await expect(stake).toHaveText(/^\d+$/);
     await expect(page.getByTestId('boundary-splits')).toContainText('2.5/3.0');
     // Document order and position on the page: the trade's figures first, every weighted figure after.
