@@ -17,7 +17,10 @@ import globals from 'globals';
 import reactHooks from 'eslint-plugin-react-hooks';
 import tseslint from 'typescript-eslint';
 
-const features = fs.readdirSync(new URL('./src/features', import.meta.url), { withFileTypes: true }).filter((d) => d.isDirectory()).map((d) => d.name);
+const features = fs
+  .readdirSync(new URL('./src/features', import.meta.url), { withFileTypes: true })
+  .filter((d) => d.isDirectory())
+  .map((d) => d.name);
 
 /** @param {string[]} groups @param {string} message */
 const restrict = (groups, message) => ({ group: groups, message });
@@ -26,31 +29,70 @@ const restrict = (groups, message) => ({ group: groups, message });
 const boundaries = [
   {
     files: ['shared/**/*.ts'],
-    patterns: [restrict(['**/src/**', '**/server/**', 'react', 'react-dom', 'express', 'kysely', 'better-sqlite3', 'node:*'], 'shared/ is used by client and server: it imports neither, nor any I/O.')],
+    patterns: [
+      restrict(
+        ['**/src/**', '**/server/**', 'react', 'react-dom', 'express', 'kysely', 'better-sqlite3', 'node:*'],
+        'shared/ is used by client and server: it imports neither, nor any I/O.',
+      ),
+    ],
   },
   {
     files: ['server/analysis/**/*.ts'],
     patterns: [
       restrict(
-        ['**/db/**', '**/services/**', '**/routes/**', '**/http/**', '**/imports/**', '**/exports/**', '**/mail/**', 'express', 'kysely', 'better-sqlite3', 'node:fs', 'node:fs/*', 'node:net', 'node:http', 'node:child_process', 'pino'],
+        [
+          '**/db/**',
+          '**/services/**',
+          '**/routes/**',
+          '**/http/**',
+          '**/imports/**',
+          '**/exports/**',
+          '**/mail/**',
+          'express',
+          'kysely',
+          'better-sqlite3',
+          'node:fs',
+          'node:fs/*',
+          'node:net',
+          'node:http',
+          'node:child_process',
+          'pino',
+        ],
         'server/analysis/ is pure statistics: typed arrays and count tables in, numbers out, no I/O.',
       ),
     ],
   },
   {
-    files: ['server/services/**/*.ts', 'server/db/**/*.ts', 'server/imports/**/*.ts', 'server/exports/**/*.ts', 'server/mail/**/*.ts', 'server/auth/**/*.ts', 'server/workers/**/*.ts'],
-    patterns: [restrict(['**/routes/**', '../routes', './routes'], 'Layers run one way: routes → services → db/analysis; nothing below imports a route.')],
+    files: [
+      'server/services/**/*.ts',
+      'server/db/**/*.ts',
+      'server/imports/**/*.ts',
+      'server/exports/**/*.ts',
+      'server/mail/**/*.ts',
+      'server/auth/**/*.ts',
+      'server/workers/**/*.ts',
+    ],
+    patterns: [
+      restrict(
+        ['**/routes/**', '../routes', './routes'],
+        'Layers run one way: routes → services → db/analysis; nothing below imports a route.',
+      ),
+    ],
   },
   {
     files: ['src/components/**/*.{ts,tsx}', 'src/lib/**/*.{ts,tsx}'],
-    patterns: [restrict(['**/features/**', '**/app/**'], 'src/components and src/lib are shared UI: they import no feature and not the app shell.')],
+    patterns: [
+      restrict(['**/features/**', '**/app/**'], 'src/components and src/lib are shared UI: they import no feature and not the app shell.'),
+    ],
   },
   ...features.map((feature) => ({
     files: [`src/features/${feature}/**/*.{ts,tsx}`],
     patterns: [
       restrict(['**/app/**'], 'A feature does not import the app shell (src/app); move what it needs to src/lib or src/components.'),
       restrict(
-        features.filter((f) => f !== feature).flatMap((f) => [`**/features/${f}/components/**`, `../../${f}/components/**`, `**/features/${f}/routes`, `../../${f}/routes`]),
+        features
+          .filter((f) => f !== feature)
+          .flatMap((f) => [`**/features/${f}/components/**`, `../../${f}/components/**`, `**/features/${f}/routes`, `../../${f}/routes`]),
         `A feature does not import another feature's components; use its api/ hooks, or move what both need to src/lib or src/components.`,
       ),
     ],
@@ -59,7 +101,16 @@ const boundaries = [
 
 export default tseslint.config(
   {
-    ignores: ['dist/**', 'node_modules/**', 'test-results/**', 'playwright-report/**', 'bench/out/**', 'data/**', 'coverage/**', 'tests/lint/fixtures/**'],
+    ignores: [
+      'dist/**',
+      'node_modules/**',
+      'test-results/**',
+      'playwright-report/**',
+      'bench/out/**',
+      'data/**',
+      'coverage/**',
+      'tests/lint/fixtures/**',
+    ],
   },
   js.configs.recommended,
   ...tseslint.configs.recommendedTypeChecked,

@@ -13,7 +13,15 @@
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { analyzeRatings, bootstrapCountTable, buildRatingSet, countTable, fleissKappaValue, mulberry32, type RatingRow } from '../server/analysis';
+import {
+  analyzeRatings,
+  bootstrapCountTable,
+  buildRatingSet,
+  countTable,
+  fleissKappaValue,
+  mulberry32,
+  type RatingRow,
+} from '../server/analysis';
 import { DEFAULT_SCALE } from '../shared/scale';
 
 const RATINGS = 1_000_000;
@@ -107,11 +115,15 @@ const out = {
 };
 
 const w = Math.max(...results.map((r) => r.name.length));
-console.log(`analysis benchmark: ${set.ratingCount} ratings, ${set.assessmentCount} assessments, ${set.classifierCodes.length} classifiers; median of ${RUNS} runs`);
+console.log(
+  `analysis benchmark: ${set.ratingCount} ratings, ${set.assessmentCount} assessments, ${set.classifierCodes.length} classifiers; median of ${RUNS} runs`,
+);
 console.log(`${'measure'.padEnd(w)}  ${'median ms'.padStart(10)}  ${'× floor'.padStart(8)}  ${'target'.padStart(8)}`);
 for (const r of results) {
   const target = r.targetMs === null ? '' : `${r.withinTarget ? '<' : '>'} ${r.targetMs}`;
-  console.log(`${r.name.padEnd(w)}  ${r.medianMs.toFixed(1).padStart(10)}  ${r.ratioToFloor.toFixed(1).padStart(8)}  ${target.padStart(8)}`);
+  console.log(
+    `${r.name.padEnd(w)}  ${r.medianMs.toFixed(1).padStart(10)}  ${r.ratioToFloor.toFixed(1).padStart(8)}  ${target.padStart(8)}`,
+  );
 }
 const outDir = fileURLToPath(new URL('./out/', import.meta.url));
 mkdirSync(outDir, { recursive: true });

@@ -98,7 +98,8 @@ for (let i = 0; i < RUNS; i++) {
 }
 fs.rmSync(dir, { recursive: true, force: true });
 
-const med = (runs: Run[], key: keyof Run) => (runs.length === 0 || runs[0][key] === null ? null : median(runs.map((r) => r[key] as number)));
+const med = (runs: Run[], key: keyof Run) =>
+  runs.length === 0 || runs[0][key] === null ? null : median(runs.map((r) => r[key] as number));
 const out = {
   benchmark: 'cli-vs-python',
   ratings: RATINGS,

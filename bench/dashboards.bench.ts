@@ -41,7 +41,10 @@ const signIn = await fetch(`${origin}/api/session`, {
   body: JSON.stringify({ email: 'lead@demo.panelwise.test', password: 'panelwise-demo' }),
 });
 if (signIn.status !== 201) throw new Error(`sign-in failed: ${signIn.status}`);
-const cookie = signIn.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+const cookie = signIn.headers
+  .getSetCookie()
+  .map((c) => c.split(';')[0])
+  .join('; ');
 const federationId = (t.ctx.sqlite.prepare("select id from federations where slug = 'kestrel-coast'").get() as { id: number }).id;
 
 async function timed(url: string): Promise<number> {
@@ -65,7 +68,12 @@ const views = ['/overview', '/classifiers', '/classifiers/C05', '/pairs', '/boun
 for (const v of views) await timed(base + v);
 await medianOf('/api/health', 20);
 
-const runs: Record<string, number[]> = { floor: [], overviewWarm: [], overviewCold: [], ...Object.fromEntries(views.slice(1).map((v) => [v, []])) };
+const runs: Record<string, number[]> = {
+  floor: [],
+  overviewWarm: [],
+  overviewCold: [],
+  ...Object.fromEntries(views.slice(1).map((v) => [v, []])),
+};
 for (let r = 0; r < RUNS; r++) {
   runs.floor.push(await medianOf('/api/health'));
   runs.overviewWarm.push(await medianOf(`${base}/overview`));
@@ -84,7 +92,13 @@ const rows = [
   ...views.slice(1).map((v) => ({ name: `${v.slice(1)}, warm`, key: v, targetMs: null })),
 ].map((r) => {
   const medianMs = median(runs[r.key]);
-  return { name: r.name, medianMs, ratioToFloor: medianMs / floorMs, targetMs: r.targetMs, withinTarget: r.targetMs === null ? null : medianMs < r.targetMs };
+  return {
+    name: r.name,
+    medianMs,
+    ratioToFloor: medianMs / floorMs,
+    targetMs: r.targetMs,
+    withinTarget: r.targetMs === null ? null : medianMs < r.targetMs,
+  };
 });
 
 const w = Math.max(...rows.map((r) => r.name.length));
@@ -92,11 +106,17 @@ console.log(`dashboards benchmark: demo data over HTTP on loopback; median of ${
 console.log(`${'measure'.padEnd(w)}  ${'median ms'.padStart(10)}  ${'× floor'.padStart(8)}  ${'target'.padStart(8)}`);
 for (const r of rows) {
   const target = r.targetMs === null ? '' : `${r.withinTarget ? '<' : '>'} ${r.targetMs}`;
-  console.log(`${r.name.padEnd(w)}  ${r.medianMs.toFixed(2).padStart(10)}  ${r.ratioToFloor.toFixed(1).padStart(8)}  ${target.padStart(8)}`);
+  console.log(
+    `${r.name.padEnd(w)}  ${r.medianMs.toFixed(2).padStart(10)}  ${r.ratioToFloor.toFixed(1).padStart(8)}  ${target.padStart(8)}`,
+  );
 }
 const outDir = fileURLToPath(new URL('./out/', import.meta.url));
 mkdirSync(outDir, { recursive: true });
-writeFileSync(`${outDir}dashboards.json`, JSON.stringify({ benchmark: 'dashboards', runs: RUNS, requests: REQUESTS, node: process.version, results: rows, runsMs: runs }, null, 2) + '\n');
+writeFileSync(
+  `${outDir}dashboards.json`,
+  JSON.stringify({ benchmark: 'dashboards', runs: RUNS, requests: REQUESTS, node: process.version, results: rows, runsMs: runs }, null, 2) +
+    '\n',
+);
 
 server.close();
 await t.close();

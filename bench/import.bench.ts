@@ -46,23 +46,47 @@ function floorRun(t: TestApp, text: string): number {
   const batch = read.batch!;
   const sqlite = t.ctx.sqlite;
   const federationId = sqlite.prepare("select id from federations where slug = 'kestrel-coast'").pluck().get() as number;
-  const ids = (table: string) => new Map((sqlite.prepare(`select code, id from ${table} where federation_id = ?`).raw(true).all(federationId) as [string, number][]).map(([c, i]) => [c, i]));
+  const ids = (table: string) =>
+    new Map(
+      (sqlite.prepare(`select code, id from ${table} where federation_id = ?`).raw(true).all(federationId) as [string, number][]).map(
+        ([c, i]) => [c, i],
+      ),
+    );
   const classifiers = ids('classifiers');
   const athletes = ids('athletes');
   const events = ids('events');
-  const importId = Number(sqlite.prepare("insert into imports (federation_id, source, status) values (?, 'csv', 'committed')").run(federationId).lastInsertRowid);
+  const importId = Number(
+    sqlite.prepare("insert into imports (federation_id, source, status) values (?, 'csv', 'committed')").run(federationId).lastInsertRowid,
+  );
   const a = batch.assessments;
   const r = batch.ratings;
-  const insertAssessment = sqlite.prepare('insert into assessments (federation_id, external_id, athlete_id, event_id, assessed_on, kind, panel_class, note, import_id) values (?, ?, ?, ?, ?, ?, ?, ?, ?)');
+  const insertAssessment = sqlite.prepare(
+    'insert into assessments (federation_id, external_id, athlete_id, event_id, assessed_on, kind, panel_class, note, import_id) values (?, ?, ?, ?, ?, ?, ?, ?, ?)',
+  );
   const insertRating = sqlite.prepare('insert into ratings (assessment_id, classifier_id, sport_class, import_id) values (?, ?, ?, ?)');
   const t0 = performance.now();
   sqlite
     .transaction(() => {
       const dbId: number[] = [];
       for (let i = 0; i < a.externalId.length; i++) {
-        dbId.push(Number(insertAssessment.run(federationId, a.externalId[i], athletes.get(a.athleteCode[i]), events.get(a.eventCode[i]), a.assessedOn[i], 'first', a.panelClass[i], a.note[i], importId).lastInsertRowid));
+        dbId.push(
+          Number(
+            insertAssessment.run(
+              federationId,
+              a.externalId[i],
+              athletes.get(a.athleteCode[i]),
+              events.get(a.eventCode[i]),
+              a.assessedOn[i],
+              'first',
+              a.panelClass[i],
+              a.note[i],
+              importId,
+            ).lastInsertRowid,
+          ),
+        );
       }
-      for (let k = 0; k < r.assessment.length; k++) insertRating.run(dbId[r.assessment[k]], classifiers.get(r.classifierCode[k]), r.sportClass[k], importId);
+      for (let k = 0; k < r.assessment.length; k++)
+        insertRating.run(dbId[r.assessment[k]], classifiers.get(r.classifierCode[k]), r.sportClass[k], importId);
     })
     .immediate();
   return performance.now() - t0;
@@ -100,8 +124,15 @@ async function importRun(run: number): Promise<{ totalMs: number; dryRunMs: numb
   const server = await startServer(path.join(dir, `import-${run}.db`), port);
   try {
     const base = `http://localhost:${port}/api`;
-    const signIn = await fetch(`${base}/session`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: 'lead@demo.panelwise.test', password: 'panelwise-demo' }) });
-    const cookie = signIn.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+    const signIn = await fetch(`${base}/session`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify({ email: 'lead@demo.panelwise.test', password: 'panelwise-demo' }),
+    });
+    const cookie = signIn.headers
+      .getSetCookie()
+      .map((c) => c.split(';')[0])
+      .join('; ');
     const bytes = fs.readFileSync(csvPath);
     const t0 = performance.now();
     const form = new FormData();
@@ -109,8 +140,12 @@ async function importRun(run: number): Promise<{ totalMs: number; dryRunMs: numb
     const dry = await fetch(`${base}/federations/kestrel-coast/imports`, { method: 'POST', body: form, headers: { cookie } });
     const body = (await dry.json()) as { outcome: string; importId: number; counts: { ratings: { new: number } } };
     const t1 = performance.now();
-    if (dry.status !== 200 || body.outcome !== 'ready') throw new Error(`dry run failed: ${dry.status} ${JSON.stringify(body).slice(0, 500)}`);
-    const commit = await fetch(`${base}/federations/kestrel-coast/imports/${body.importId}/commit`, { method: 'POST', headers: { cookie } });
+    if (dry.status !== 200 || body.outcome !== 'ready')
+      throw new Error(`dry run failed: ${dry.status} ${JSON.stringify(body).slice(0, 500)}`);
+    const commit = await fetch(`${base}/federations/kestrel-coast/imports/${body.importId}/commit`, {
+      method: 'POST',
+      headers: { cookie },
+    });
     await commit.json();
     const t2 = performance.now();
     if (commit.status !== 200) throw new Error(`commit failed: ${commit.status}`);
@@ -135,9 +170,11 @@ for (let i = 0; i < RUNS; i++) {
   const tf = await freshApp(i, 'floor');
   const floorMs = floorRun(tf, text);
   await tf.close();
-  const ratio = (RATINGS / imported.totalMs) / (RATINGS / floorMs);
+  const ratio = RATINGS / imported.totalMs / (RATINGS / floorMs);
   runs.push({ ...imported, floorMs, ratio });
-  console.log(`run ${i + 1}: import ${(imported.totalMs / 1000).toFixed(2)} s (dry run ${(imported.dryRunMs / 1000).toFixed(2)} s, commit ${(imported.commitMs / 1000).toFixed(2)} s); floor ${(floorMs / 1000).toFixed(2)} s; ratio ${ratio.toFixed(2)}`);
+  console.log(
+    `run ${i + 1}: import ${(imported.totalMs / 1000).toFixed(2)} s (dry run ${(imported.dryRunMs / 1000).toFixed(2)} s, commit ${(imported.commitMs / 1000).toFixed(2)} s); floor ${(floorMs / 1000).toFixed(2)} s; ratio ${ratio.toFixed(2)}`,
+  );
 }
 fs.rmSync(dir, { recursive: true, force: true });
 

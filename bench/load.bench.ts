@@ -93,7 +93,9 @@ function summary(list: Sample[], errs: number[], from: number, to: number) {
 
 function cannon(url: string, connections: number, cookie: string, kind: 'overview' | 'health') {
   const instance = autocannon({ url, connections, duration: 900, timeout: 10, headers: { cookie } });
-  instance.on('response', (_client, statusCode, _bytes, responseTime) => samples[kind].push({ at: now() - responseTime, ms: responseTime, status: statusCode }));
+  instance.on('response', (_client, statusCode, _bytes, responseTime) =>
+    samples[kind].push({ at: now() - responseTime, ms: responseTime, status: statusCode }),
+  );
   instance.on('reqError', () => errors[kind].push(now()));
   const done = new Promise<void>((resolve) => instance.on('done', () => resolve()));
   return { stop: () => instance.stop(), done };
@@ -144,8 +146,12 @@ try {
   const dry = await fetch(`${api}/federations/${FEDERATION}/imports`, { method: 'POST', body: form, headers: { cookie } });
   const dryBody = (await dry.json()) as { outcome: string; importId: number; counts: { ratings: { new: number } } };
   timeline.dryRunEnd = now();
-  if (dry.status !== 200 || dryBody.outcome !== 'ready') throw new Error(`dry run failed: ${dry.status} ${JSON.stringify(dryBody).slice(0, 300)}`);
-  const commit = await fetch(`${api}/federations/${FEDERATION}/imports/${dryBody.importId}/commit`, { method: 'POST', headers: { cookie } });
+  if (dry.status !== 200 || dryBody.outcome !== 'ready')
+    throw new Error(`dry run failed: ${dry.status} ${JSON.stringify(dryBody).slice(0, 300)}`);
+  const commit = await fetch(`${api}/federations/${FEDERATION}/imports/${dryBody.importId}/commit`, {
+    method: 'POST',
+    headers: { cookie },
+  });
   await commit.arrayBuffer();
   timeline.commitEnd = now();
   if (commit.status !== 200) throw new Error(`commit failed: ${commit.status}`);
@@ -164,7 +170,12 @@ try {
       method: 'POST',
       headers: { cookie, 'content-type': 'application/json', origin },
       body: JSON.stringify({
-        scope: { seasons: options.seasons, eventLevels: options.eventLevels, categories: options.categories, kinds: ['first', 'review', 'protest'] },
+        scope: {
+          seasons: options.seasons,
+          eventLevels: options.eventLevels,
+          categories: options.categories,
+          kinds: ['first', 'review', 'protest'],
+        },
         fields: ['athlete', 'panel_class', 'kind', 'season', 'event', 'event_level', 'category', 'date'],
         dateMode: 'month',
       }),
@@ -193,7 +204,10 @@ try {
     Array.from({ length: COLD_OVERVIEWS }, async (_, i) => {
       const sent = now();
       try {
-        const res = await fetch(`${overviewUrl}?from=2020-01-${String(i + 1).padStart(2, '0')}`, { headers: { cookie }, signal: AbortSignal.timeout(120_000) });
+        const res = await fetch(`${overviewUrl}?from=2020-01-${String(i + 1).padStart(2, '0')}`, {
+          headers: { cookie },
+          signal: AbortSignal.timeout(120_000),
+        });
         await res.arrayBuffer();
         samples.cold.push({ at: sent, ms: now() - sent, status: res.status });
       } catch {
@@ -224,8 +238,12 @@ try {
   const f = (x: number | null) => (x === null ? '—' : x.toFixed(0));
   const w = Math.max(...windows.map((r) => r.window.length));
   const loadAfter = os.loadavg()[0];
-  console.log(`load benchmark: server process with its worker pool on loopback, ${os.availableParallelism()} cores, Node ${process.version}`);
-  console.log(`machine load average (1 min) ${loadBefore.toFixed(1)} before, ${loadAfter.toFixed(1)} after: on a shared machine the latencies include waiting for a core`);
+  console.log(
+    `load benchmark: server process with its worker pool on loopback, ${os.availableParallelism()} cores, Node ${process.version}`,
+  );
+  console.log(
+    `machine load average (1 min) ${loadBefore.toFixed(1)} before, ${loadAfter.toFixed(1)} after: on a shared machine the latencies include waiting for a core`,
+  );
   console.log(
     `dry run ${((timeline.dryRunEnd - timeline.importStart) / 1000).toFixed(1)} s, commit ${((timeline.commitEnd - timeline.dryRunEnd) / 1000).toFixed(1)} s, export ${((timeline.exportEnd - timeline.exportStart) / 1000).toFixed(1)} s (${exportBody.counts?.rows ?? '?'} rows; ${exportRefusals} answer(s) 503 before it started)`,
   );

@@ -42,7 +42,12 @@ async function time(fn: () => unknown): Promise<number> {
 }
 
 const loadMs = await time(() => passwordStrength('warm-up-the-dictionaries'));
-const withLevenshtein = new ZxcvbnFactory({ dictionary: { ...common.dictionary, ...en.dictionary }, graphs: common.adjacencyGraphs, translations: en.translations, useLevenshteinDistance: true });
+const withLevenshtein = new ZxcvbnFactory({
+  dictionary: { ...common.dictionary, ...en.dictionary },
+  graphs: common.adjacencyGraphs,
+  translations: en.translations,
+  useLevenshteinDistance: true,
+});
 
 const check: number[] = [];
 const levenshtein: number[] = [];
@@ -58,7 +63,12 @@ const floor = median(scrypt);
 const rows = [
   { name: 'scrypt hash (floor)', medianMs: floor, maxMs: Math.max(...scrypt), ratio: 1 },
   { name: 'strength check', medianMs: median(check), maxMs: Math.max(...check), ratio: median(check) / floor },
-  { name: 'estimator with Levenshtein (not used)', medianMs: median(levenshtein), maxMs: Math.max(...levenshtein), ratio: median(levenshtein) / floor },
+  {
+    name: 'estimator with Levenshtein (not used)',
+    medianMs: median(levenshtein),
+    maxMs: Math.max(...levenshtein),
+    ratio: median(levenshtein) / floor,
+  },
 ];
 console.log(`dictionaries loaded in ${loadMs.toFixed(0)} ms (once per process)`);
 console.table(rows.map((r) => ({ ...r, medianMs: r.medianMs.toFixed(1), maxMs: r.maxMs.toFixed(1), ratio: r.ratio.toFixed(2) })));

@@ -61,7 +61,15 @@ const sets: { name: string; set: RatingSet; targetMs: number }[] = [
   { name: 'demo federation', set: demoSet(), targetMs: 1000 },
   {
     name: '1,000,000 ratings',
-    set: simulateFederation({ seed: 7, classifiers: 40, regions: 4, athletes: 90_000, assessments: 333_334, threeShare: 1, noise: [0.1, 0.2] }).set,
+    set: simulateFederation({
+      seed: 7,
+      classifiers: 40,
+      regions: 4,
+      athletes: 90_000,
+      assessments: 333_334,
+      threeShare: 1,
+      noise: [0.1, 0.2],
+    }).set,
     targetMs: 10_000,
   },
 ];
@@ -115,4 +123,7 @@ for (const r of results) {
 }
 const outDir = fileURLToPath(new URL('./out/', import.meta.url));
 mkdirSync(outDir, { recursive: true });
-writeFileSync(`${outDir}severity.json`, JSON.stringify({ benchmark: 'severity', runs: RUNS, node: process.version, results }, null, 2) + '\n');
+writeFileSync(
+  `${outDir}severity.json`,
+  JSON.stringify({ benchmark: 'severity', runs: RUNS, node: process.version, results }, null, 2) + '\n',
+);

@@ -49,7 +49,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn('created_at', 'text', (c) => c.notNull().defaultTo(now))
     .addColumn('expires_at', 'text', (c) => c.notNull())
     .execute();
-  await db.schema.createIndex('research_exports_user_idx').on('research_exports').columns(['federation_id', 'user_id', 'created_at']).execute();
+  await db.schema
+    .createIndex('research_exports_user_idx')
+    .on('research_exports')
+    .columns(['federation_id', 'user_id', 'created_at'])
+    .execute();
 }
 
 export async function down(db: Kysely<any>): Promise<void> {

@@ -11,7 +11,9 @@ const RETIRED_NOTE =
 const OLD_KEYS = ['kappaMin', 'kappaWindow', 'biasMax', 'driftK', 'driftH', 'driftWindow'];
 
 async function rebuildFlags(db: Kysely<any>, rules: string, withLapse: boolean, select: string): Promise<void> {
-  await sql.raw(`
+  await sql
+    .raw(
+      `
     create table calibration_flags_next (
       id integer primary key autoincrement,
       federation_id integer not null references federations(id) on delete cascade,
@@ -29,7 +31,9 @@ async function rebuildFlags(db: Kysely<any>, rules: string, withLapse: boolean, 
       ${withLapse ? 'lapsed_at text, lapse_reason text,' : ''}
       constraint calibration_flags_rule_check check (rule in (${rules})),
       constraint calibration_flags_status_check check (status in ('open', 'acknowledged', 'closed'))
-    )`).execute(db);
+    )`,
+    )
+    .execute(db);
   await sql.raw(select).execute(db);
   await db.schema.dropTable('calibration_flags').execute();
   await sql.raw('alter table calibration_flags_next rename to calibration_flags').execute(db);
@@ -38,7 +42,10 @@ async function rebuildFlags(db: Kysely<any>, rules: string, withLapse: boolean, 
 }
 
 async function rewriteThresholds(db: Kysely<any>, rewrite: (t: Record<string, unknown>) => Record<string, unknown>): Promise<void> {
-  const rows = (await db.selectFrom('calibration_thresholds').select(['federation_id', 'thresholds']).execute()) as { federation_id: number; thresholds: string }[];
+  const rows = (await db.selectFrom('calibration_thresholds').select(['federation_id', 'thresholds']).execute()) as {
+    federation_id: number;
+    thresholds: string;
+  }[];
   for (const row of rows) {
     let parsed: Record<string, unknown>;
     try {

@@ -21,7 +21,10 @@ function databaseFolder(rows: { name: string; file: string }[]): string | null {
 
 export async function up(db: Kysely<any>): Promise<void> {
   await db.schema.alterTable('research_exports').addColumn('storage_key', 'text').execute();
-  await db.schema.alterTable('research_exports').addColumn('stored_bytes', 'integer', (c) => c.notNull().defaultTo(0)).execute();
+  await db.schema
+    .alterTable('research_exports')
+    .addColumn('stored_bytes', 'integer', (c) => c.notNull().defaultTo(0))
+    .execute();
   await db.schema.alterTable('research_exports').addColumn('removed_at', 'text').execute();
 
   const list = await sql<{ name: string; file: string }>`pragma database_list`.execute(db);

@@ -41,7 +41,8 @@ export function createApp(ctx: AppContext, options: AppOptions = {}): Express {
       strictTransportSecurity: ctx.config.env === 'production',
     }),
   );
-  if (ctx.config.env !== 'test') app.use(
+  if (ctx.config.env !== 'test')
+    app.use(
       pinoHttp({
         logger: ctx.logger,
         autoLogging: { ignore: (req) => req.url === '/api/health' || !req.url?.startsWith('/api/') },

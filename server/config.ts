@@ -93,8 +93,14 @@ export const environmentSchema = z.object({
       .optional(),
   ),
   MAIL_FROM: optionalText,
-  LOG_LEVEL: z.preprocess(blankToUndefined, z.enum(LOG_LEVELS, { message: `LOG_LEVEL must be one of ${LOG_LEVELS.join(', ')}` }).optional()),
-  SEED_DEMO: z.preprocess(blankToUndefined, z.enum(['0', '1'], { message: 'SEED_DEMO must be 0 (never seed) or 1 (seed the demo into an empty database)' }).optional()),
+  LOG_LEVEL: z.preprocess(
+    blankToUndefined,
+    z.enum(LOG_LEVELS, { message: `LOG_LEVEL must be one of ${LOG_LEVELS.join(', ')}` }).optional(),
+  ),
+  SEED_DEMO: z.preprocess(
+    blankToUndefined,
+    z.enum(['0', '1'], { message: 'SEED_DEMO must be 0 (never seed) or 1 (seed the demo into an empty database)' }).optional(),
+  ),
 });
 export type Environment = z.infer<typeof environmentSchema>;
 
@@ -117,16 +123,23 @@ export function environmentProblems(source: NodeJS.ProcessEnv): string[] {
   if (secret !== undefined) {
     const bytes = Buffer.byteLength(secret, 'utf8');
     if (bytes < SESSION_SECRET_MIN_BYTES) {
-      problems.push(`SESSION_SECRET is ${bytes} bytes long: use at least ${SESSION_SECRET_MIN_BYTES} random bytes (for example \`openssl rand -hex 32\`)`);
+      problems.push(
+        `SESSION_SECRET is ${bytes} bytes long: use at least ${SESSION_SECRET_MIN_BYTES} random bytes (for example \`openssl rand -hex 32\`)`,
+      );
     } else if (new Set(secret).size < SESSION_SECRET_MIN_DISTINCT) {
       problems.push('SESSION_SECRET repeats a few characters: use random bytes (for example `openssl rand -hex 32`)');
     }
   } else if (production) {
-    problems.push(`SESSION_SECRET must be set in production: at least ${SESSION_SECRET_MIN_BYTES} random bytes (for example \`openssl rand -hex 32\`)`);
+    problems.push(
+      `SESSION_SECRET must be set in production: at least ${SESSION_SECRET_MIN_BYTES} random bytes (for example \`openssl rand -hex 32\`)`,
+    );
   }
-  if (production && value('SMTP_URL') === undefined) problems.push('SMTP_URL must be set in production: the relay that sends invitations and password resets');
-  if (production && value('PUBLIC_ORIGIN') === undefined) problems.push('PUBLIC_ORIGIN must be set in production: the address people open, used in e-mailed links');
-  if (production && value('DATABASE_PATH') === ':memory:') problems.push('DATABASE_PATH cannot be :memory: in production: everything would be lost at the next start');
+  if (production && value('SMTP_URL') === undefined)
+    problems.push('SMTP_URL must be set in production: the relay that sends invitations and password resets');
+  if (production && value('PUBLIC_ORIGIN') === undefined)
+    problems.push('PUBLIC_ORIGIN must be set in production: the address people open, used in e-mailed links');
+  if (production && value('DATABASE_PATH') === ':memory:')
+    problems.push('DATABASE_PATH cannot be :memory: in production: everything would be lost at the next start');
   return problems;
 }
 

@@ -53,11 +53,16 @@ async function main() {
     process.exit(1);
   }
   if ((await siteOwnerCount(db)) === 0) {
-    logger.warn('no site owner yet: create the first one with `npx panelwise create-owner EMAIL` (it asks for the password, or reads it from standard input)');
+    logger.warn(
+      'no site owner yet: create the first one with `npx panelwise create-owner EMAIL` (it asks for the password, or reads it from standard input)',
+    );
   }
   const lock = acquireServerLock(config.databasePath);
   process.on('exit', () => lock.release());
-  if (lock.replaced) logger.warn(`the lock file named another live server (pid ${lock.replaced.pid} on ${lock.replaced.host}): two servers share ${config.databasePath}`);
+  if (lock.replaced)
+    logger.warn(
+      `the lock file named another live server (pid ${lock.replaced.pid} on ${lock.replaced.host}): two servers share ${config.databasePath}`,
+    );
 
   // The password estimator's dictionaries take a moment to load: before listening, not in a request.
   await loadPasswordEstimator();

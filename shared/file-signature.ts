@@ -36,7 +36,8 @@ export function utf16Order(head: Uint8Array): 'utf-16le' | 'utf-16be' | null {
 /** Whether the first bytes look like something other than text (a workbook, a PDF, an image…). UTF-16 text is text. */
 export function binaryKind(head: Uint8Array): string | null {
   const starts = (...bytes: number[]) => bytes.every((b, i) => head[i] === b);
-  if (starts(0x50, 0x4b, 0x03, 0x04) || starts(0x50, 0x4b, 0x05, 0x06)) return 'a ZIP archive (for example a spreadsheet workbook, .xlsx or .ods)';
+  if (starts(0x50, 0x4b, 0x03, 0x04) || starts(0x50, 0x4b, 0x05, 0x06))
+    return 'a ZIP archive (for example a spreadsheet workbook, .xlsx or .ods)';
   if (starts(0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1)) return 'an old-style spreadsheet workbook (.xls)';
   if (starts(0x25, 0x50, 0x44, 0x46)) return 'a PDF document';
   if (starts(0x89, 0x50, 0x4e, 0x47) || starts(0xff, 0xd8, 0xff) || starts(0x47, 0x49, 0x46)) return 'an image';

@@ -79,7 +79,10 @@ export const FIXED_LABELS: Record<FixedTarget, string> = {
 
 /** Headers compared without case, spaces, dashes or underscores. */
 export function normaliseHeader(header: string): string {
-  return header.trim().toLowerCase().replace(/[\s_\-.]+/g, '');
+  return header
+    .trim()
+    .toLowerCase()
+    .replace(/[\s_\-.]+/g, '');
 }
 
 const SYNONYMS: Record<string, FixedTarget> = {
@@ -120,7 +123,10 @@ const SYNONYMS: Record<string, FixedTarget> = {
  * a classifier's column; "classifier 1"/"class 1" pairs are panel seats. Anything else is left
  * out (the lead must choose, or ignore it).
  */
-export function guessMapping(headers: readonly string[], knownClassifierCodes: readonly string[] = []): { layout: ImportLayout; mapping: ColumnMapping } {
+export function guessMapping(
+  headers: readonly string[],
+  knownClassifierCodes: readonly string[] = [],
+): { layout: ImportLayout; mapping: ColumnMapping } {
   const mapping: ColumnMapping = {};
   const known = new Map(knownClassifierCodes.map((c) => [c.toLowerCase(), c]));
   for (const raw of headers) {
@@ -130,8 +136,10 @@ export function guessMapping(headers: readonly string[], knownClassifierCodes: r
     const seatClass = /^(?:seat|panel)(\d)(?:class|sportclass|rating)$/.exec(n) ?? /^(?:class|sportclass|rating)(\d)$/.exec(n);
     if (SYNONYMS[n]) mapping[header] = SYNONYMS[n];
     else if (known.has(header.toLowerCase())) mapping[header] = `classifier:${known.get(header.toLowerCase())}`;
-    else if (seatClassifier && Number(seatClassifier[1]) >= 1 && Number(seatClassifier[1]) <= MAX_SEATS) mapping[header] = `seat${Number(seatClassifier[1])}_classifier`;
-    else if (seatClass && Number(seatClass[1]) >= 1 && Number(seatClass[1]) <= MAX_SEATS) mapping[header] = `seat${Number(seatClass[1])}_class`;
+    else if (seatClassifier && Number(seatClassifier[1]) >= 1 && Number(seatClassifier[1]) <= MAX_SEATS)
+      mapping[header] = `seat${Number(seatClassifier[1])}_classifier`;
+    else if (seatClass && Number(seatClass[1]) >= 1 && Number(seatClass[1]) <= MAX_SEATS)
+      mapping[header] = `seat${Number(seatClass[1])}_class`;
     else if (/^[a-z]{1,3}\d{1,4}$/i.test(header)) mapping[header] = `classifier:${header}`;
   }
   // Two headers guessed to the same fixed target: keep the first only.

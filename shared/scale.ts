@@ -56,9 +56,7 @@ export function isOnScale(halfPoints: number, scale: ClassScale = DEFAULT_SCALE)
   return Number.isInteger(halfPoints) && halfPoints >= scale.min && halfPoints <= scale.max;
 }
 
-export type ParseClassResult =
-  | { ok: true; value: HalfPoints }
-  | { ok: false; reason: string };
+export type ParseClassResult = { ok: true; value: HalfPoints } | { ok: false; reason: string };
 
 const CLASS_TEXT = /^\s*(\d{1,2})(?:[.,](\d{1,3}))?\s*$/;
 

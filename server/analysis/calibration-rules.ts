@@ -420,7 +420,11 @@ export function evaluateCalibration(set: RatingSet, th: CalibrationThresholds, o
     a.met = a.pAdjusted !== null && a.pAdjusted <= q && a.shortfall !== null && a.shortfall >= th.agreementGap - 1e-12;
     const d = c.drift;
     d.met =
-      d.pAdjusted !== null && d.pAdjusted <= q && d.meanBefore !== null && d.meanAfter !== null && Math.abs(d.meanAfter - d.meanBefore) >= th.driftMin - 1e-12;
+      d.pAdjusted !== null &&
+      d.pAdjusted <= q &&
+      d.meanBefore !== null &&
+      d.meanAfter !== null &&
+      Math.abs(d.meanAfter - d.meanBefore) >= th.driftMin - 1e-12;
   }
   return out;
 }

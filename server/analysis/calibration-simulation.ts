@@ -23,9 +23,7 @@ import { mulberry32, type Prng } from './prng';
 import { buildRatingSet, dayToIsoDate, isoDateToDay, type RatingRow, type RatingSet } from './rating-set';
 
 export type PlantedEffect =
-  | { kind: 'drift'; shift: number; after: number }
-  | { kind: 'lean'; shift: number }
-  | { kind: 'erratic'; rate: number };
+  { kind: 'drift'; shift: number; after: number } | { kind: 'lean'; shift: number } | { kind: 'erratic'; rate: number };
 
 export interface SimulatedFederation {
   set: RatingSet;
@@ -113,14 +111,24 @@ export function simulateFederation(options: SimulationOptions): SimulatedFederat
         half += up ? 1 : -1;
       }
       seen[c]++;
-      rows.push({ assessmentId, athleteCode: `A${p.athlete}`, eventCode: `E${p.day}`, assessedOn: date, classifierCode: codes[c], sportClass: half, kind: 'first' });
+      rows.push({
+        assessmentId,
+        athleteCode: `A${p.athlete}`,
+        eventCode: `E${p.day}`,
+        assessedOn: date,
+        classifierCode: codes[c],
+        sportClass: half,
+        kind: 'first',
+      });
     }
   });
   const set = buildRatingSet(rows, DEFAULT_SCALE);
   return {
     set,
     classifiers: codes,
-    planted: options.effect ? { code: codes[plantedIndex], effect: options.effect, ...(changeIndex !== undefined ? { changeIndex } : {}) } : null,
+    planted: options.effect
+      ? { code: codes[plantedIndex], effect: options.effect, ...(changeIndex !== undefined ? { changeIndex } : {}) }
+      : null,
   };
 }
 
@@ -134,7 +142,10 @@ export interface Scenario {
 
 export const STUDY_SCENARIOS: Scenario[] = [
   { name: 'in control' },
-  ...[10, 20, 30, 50, 100].map((after) => ({ name: `drift +0.5 after ${after} ratings`, effect: { kind: 'drift', shift: 0.5, after } as const })),
+  ...[10, 20, 30, 50, 100].map((after) => ({
+    name: `drift +0.5 after ${after} ratings`,
+    effect: { kind: 'drift', shift: 0.5, after } as const,
+  })),
   { name: 'drift −0.5 after 50 ratings', effect: { kind: 'drift', shift: -0.5, after: 50 } },
   { name: 'lean −0.25 (a quarter class)', effect: { kind: 'lean', shift: -0.25 } },
   { name: 'lean +0.25 (a quarter class)', effect: { kind: 'lean', shift: 0.25 } },
@@ -188,7 +199,12 @@ export function runScenario(scenario: Scenario, federations: number, seed: numbe
   return {
     name: scenario.name,
     federations,
-    falseFlag: { bias: share(falseFlag.bias), drift: share(falseFlag.drift), agreement: share(falseFlag.agreement), any: share(falseFlag.any) },
+    falseFlag: {
+      bias: share(falseFlag.bias),
+      drift: share(falseFlag.drift),
+      agreement: share(falseFlag.agreement),
+      any: share(falseFlag.any),
+    },
     planted: scenario.effect ? { bias: share(planted.bias), drift: share(planted.drift), agreement: share(planted.agreement) } : null,
     driftDirectionRight: isDrift ? (planted.drift === 0 ? null : directionRight / planted.drift) : null,
     medianChangeError: isDrift && errors.length > 0 ? errors[Math.floor((errors.length - 1) / 2)] : null,

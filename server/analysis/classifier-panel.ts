@@ -154,7 +154,8 @@ export function classifiersVsPanel(set: RatingSet, medians: Float64Array = other
         n: c.finalDevs.length,
         meanDeviation: meanStat(c.finalDevs),
         exact: c.finalDevs.length === 0 ? undefinedStat(0, 'no final class recorded') : proportionStat(c.finalExact, c.finalDevs.length),
-        withinHalfClass: c.finalDevs.length === 0 ? undefinedStat(0, 'no final class recorded') : proportionStat(c.finalWithin, c.finalDevs.length),
+        withinHalfClass:
+          c.finalDevs.length === 0 ? undefinedStat(0, 'no final class recorded') : proportionStat(c.finalWithin, c.finalDevs.length),
       },
     });
   }

@@ -39,7 +39,14 @@ const EPS = 1e-12;
 export function kappaFromTable(table: ArrayLike<number>, q: number, weights: ArrayLike<number>): KappaResult {
   let N = 0;
   for (let i = 0; i < q * q; i++) N += table[i];
-  const none = (reason: string, n: number): KappaResult => ({ ...undefinedStat(n, reason), se0: null, z: null, p: null, observed: null, expected: null });
+  const none = (reason: string, n: number): KappaResult => ({
+    ...undefinedStat(n, reason),
+    se0: null,
+    z: null,
+    p: null,
+    observed: null,
+    expected: null,
+  });
   if (N <= 0) return none('no shared assessments', 0);
   const row = new Float64Array(q);
   const col = new Float64Array(q);

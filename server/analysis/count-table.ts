@@ -39,7 +39,7 @@ export function countTable(set: RatingSet): CountTable {
 
 /** A count table from rows of counts (e.g. a published table). */
 export function countTableFromRows(rows: readonly (readonly number[])[], q?: number): CountTable {
-  const cols = q ?? (rows[0]?.length ?? 0);
+  const cols = q ?? rows[0]?.length ?? 0;
   const counts = new Int32Array(rows.length * cols);
   const totals = new Int32Array(rows.length);
   rows.forEach((row, i) => {

@@ -79,13 +79,28 @@ export function raterScores(cases: readonly ScoredCase[], answers: readonly Scor
     out.push({
       rater,
       answered: n,
-      exact: proportionStat(count((d) => d === 0), n),
-      withinHalf: proportionStat(count((d) => Math.abs(d) <= 1), n),
+      exact: proportionStat(
+        count((d) => d === 0),
+        n,
+      ),
+      withinHalf: proportionStat(
+        count((d) => Math.abs(d) <= 1),
+        n,
+      ),
       quadraticKappa: cohenKappa(table, q, 'quadratic'),
-      bias: n === 0 ? undefinedStat(0, 'no answers') : definedStat(mean(points), n > 1 ? sampleStandardDeviation(points) / Math.sqrt(n) : null, n),
+      bias:
+        n === 0
+          ? undefinedStat(0, 'no answers')
+          : definedStat(mean(points), n > 1 ? sampleStandardDeviation(points) / Math.sqrt(n) : null, n),
       meanAbsolutePoints: n === 0 ? null : mean(points.map(Math.abs)),
-      offByHalfPoint: proportionStat(count((d) => Math.abs(d) >= 1), n),
-      offByOnePoint: proportionStat(count((d) => Math.abs(d) >= 2), n),
+      offByHalfPoint: proportionStat(
+        count((d) => Math.abs(d) >= 1),
+        n,
+      ),
+      offByOnePoint: proportionStat(
+        count((d) => Math.abs(d) >= 2),
+        n,
+      ),
     });
   }
   return out;
@@ -117,7 +132,9 @@ export interface CaseSpreadResult {
 function sideOf(list: readonly ScoredAnswer[]): SideSkills {
   const tally = new Map<string, number>();
   for (const a of list) for (const s of new Set(a.skills)) tally.set(s, (tally.get(s) ?? 0) + 1);
-  const skills = [...tally.entries()].map(([skill, n]) => ({ skill, n })).sort((x, y) => y.n - x.n || (x.skill < y.skill ? -1 : x.skill > y.skill ? 1 : 0));
+  const skills = [...tally.entries()]
+    .map(([skill, n]) => ({ skill, n }))
+    .sort((x, y) => y.n - x.n || (x.skill < y.skill ? -1 : x.skill > y.skill ? 1 : 0));
   return { answers: list.length, skills };
 }
 
@@ -130,7 +147,20 @@ export function caseSpreads(cases: readonly ScoredCase[], answers: readonly Scor
     const counts = [...tally.entries()].map(([sportClass, n]) => ({ sportClass, n })).sort((x, y) => x.sportClass - y.sportClass);
     const n = list.length;
     if (n === 0) {
-      return { caseId: c.id, reference: c.reference, answers: 0, counts, lowest: null, highest: null, rangePoints: null, exactShare: null, split: false, boundary: null, lower: null, upper: null };
+      return {
+        caseId: c.id,
+        reference: c.reference,
+        answers: 0,
+        counts,
+        lowest: null,
+        highest: null,
+        rangePoints: null,
+        exactShare: null,
+        split: false,
+        boundary: null,
+        lower: null,
+        upper: null,
+      };
     }
     const lowest = counts[0].sportClass;
     const highest = counts[counts.length - 1].sportClass;

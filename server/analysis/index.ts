@@ -73,7 +73,15 @@ export {
   hashSeed,
   meanTest,
 } from './calibration-rules';
-export type { AgreementVerdict, BiasVerdict, CalibrationOptions, CalibrationThresholds, ChangePoint, ClassifierCalibration, DriftVerdict } from './calibration-rules';
+export type {
+  AgreementVerdict,
+  BiasVerdict,
+  CalibrationOptions,
+  CalibrationThresholds,
+  ChangePoint,
+  ClassifierCalibration,
+  DriftVerdict,
+} from './calibration-rules';
 export { pointsApart, pointsAtStake, twoRaterCoefficients, twoRaterTable } from './points-at-stake';
 export type { PointsAtStake } from './points-at-stake';
 export { MAX_SEVERITY_CLASSIFIERS, SEVERITY_CI_METHOD, SEVERITY_MODEL, classifierSeverity } from './severity';

@@ -89,7 +89,12 @@ export function krippendorffAlpha(t: CountTable, metric: AlphaMetric, values?: A
   const q = t.q;
   const vals = values ?? Float64Array.from({ length: q }, (_, i) => i);
   const { o, marginals, n, units } = coincidenceMatrix(t);
-  const none = (reason: string): AlphaResult => ({ ...undefinedStat(n, reason), units, observedDisagreement: null, expectedDisagreement: null });
+  const none = (reason: string): AlphaResult => ({
+    ...undefinedStat(n, reason),
+    units,
+    observedDisagreement: null,
+    expectedDisagreement: null,
+  });
   if (n < 2) return none('fewer than two pairable ratings');
   const d = alphaDistances(metric, vals, marginals);
   let obs = 0;
@@ -104,7 +109,8 @@ export function krippendorffAlpha(t: CountTable, metric: AlphaMetric, values?: A
   }
   const Do = obs / n;
   const De = exp / (n * (n - 1));
-  if (!(De > 1e-15)) return { ...none('expected disagreement is 0 (a single class was used)'), observedDisagreement: Do, expectedDisagreement: 0 };
+  if (!(De > 1e-15))
+    return { ...none('expected disagreement is 0 (a single class was used)'), observedDisagreement: Do, expectedDisagreement: 0 };
   return { value: 1 - Do / De, se: null, ci95: null, n, units, observedDisagreement: Do, expectedDisagreement: De };
 }
 

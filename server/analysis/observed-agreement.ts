@@ -79,9 +79,14 @@ export function observedAgreement(t: CountTable): ObservedAgreement {
   };
   const pooled = (k: number): StatResult =>
     pairsAll === 0 ? undefinedStat(0, 'no assessment has two or more ratings') : { value: k / pairsAll, se: null, ci95: null, n: units };
-  const unanimous = (k: number): StatResult => (units === 0 ? undefinedStat(0, 'no assessment has two or more ratings') : proportionStat(k, units));
+  const unanimous = (k: number): StatResult =>
+    units === 0 ? undefinedStat(0, 'no assessment has two or more ratings') : proportionStat(k, units);
   return {
     exact: { unanimous: unanimous(unanimousExact), pairwiseMean: meanStat(sumExact, sqExact), pooledPairs: pooled(pairsExact) },
-    withinHalfClass: { unanimous: unanimous(unanimousWithin), pairwiseMean: meanStat(sumWithin, sqWithin), pooledPairs: pooled(pairsWithin) },
+    withinHalfClass: {
+      unanimous: unanimous(unanimousWithin),
+      pairwiseMean: meanStat(sumWithin, sqWithin),
+      pooledPairs: pooled(pairsWithin),
+    },
   };
 }

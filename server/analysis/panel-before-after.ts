@@ -44,10 +44,24 @@ export interface BeforeAfterResult {
 
 function emptyWindow(reason: string): PanelWindowFigures {
   const none = undefinedStat(0, reason);
-  return { n: 0, from: null, to: null, exactWithPanel: none, withinHalfWithPanel: none, quadraticKappaWithPanel: none, meanDeviation: none };
+  return {
+    n: 0,
+    from: null,
+    to: null,
+    exactWithPanel: none,
+    withinHalfWithPanel: none,
+    quadraticKappaWithPanel: none,
+    meanDeviation: none,
+  };
 }
 
-function windowFigures(set: RatingSet, code: string, assessments: readonly number[], days: readonly number[], reason: string): PanelWindowFigures {
+function windowFigures(
+  set: RatingSet,
+  code: string,
+  assessments: readonly number[],
+  days: readonly number[],
+  reason: string,
+): PanelWindowFigures {
   if (assessments.length === 0) return emptyWindow(reason);
   const keep = new Uint8Array(set.assessmentCount);
   for (const a of assessments) keep[a] = 1;
@@ -67,7 +81,14 @@ function windowFigures(set: RatingSet, code: string, assessments: readonly numbe
 /**
  * Before: panel ratings dated before `opensOn`; after: dated after `closesOn` (ISO dates).
  */
-export function panelBeforeAfter(set: RatingSet, code: string, opensOn: string, closesOn: string, window: number, medians: Float64Array = othersMedian(set)): BeforeAfterResult {
+export function panelBeforeAfter(
+  set: RatingSet,
+  code: string,
+  opensOn: string,
+  closesOn: string,
+  window: number,
+  medians: Float64Array = othersMedian(set),
+): BeforeAfterResult {
   const open = isoDateToDay(opensOn);
   const close = isoDateToDay(closesOn);
   if (open === null || close === null) throw new Error(`not an ISO date: ${opensOn} / ${closesOn}`);

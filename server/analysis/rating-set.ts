@@ -148,11 +148,21 @@ export function buildRatingSet(rows: readonly RatingRow[], scale: ClassScale): R
     const cc = row.classifierCode;
     if (typeof cc !== 'string' || cc.trim() === '') throw new RatingInputError(r, 'classifierCode', cc, 'is blank');
     if (!isOnScale(row.sportClass, scale)) {
-      throw new RatingInputError(r, 'sportClass', row.sportClass, `is not a class of the scale ${formatClass(scale.min)}–${formatClass(scale.max)} (in half points)`);
+      throw new RatingInputError(
+        r,
+        'sportClass',
+        row.sportClass,
+        `is not a class of the scale ${formatClass(scale.min)}–${formatClass(scale.max)} (in half points)`,
+      );
     }
     const pc = row.panelClass ?? null;
     if (pc !== null && !isOnScale(pc, scale)) {
-      throw new RatingInputError(r, 'panelClass', pc, `is not a class of the scale ${formatClass(scale.min)}–${formatClass(scale.max)} (in half points)`);
+      throw new RatingInputError(
+        r,
+        'panelClass',
+        pc,
+        `is not a class of the scale ${formatClass(scale.min)}–${formatClass(scale.max)} (in half points)`,
+      );
     }
     const k = row.kind ?? 'first';
     const kindIndex = ASSESSMENT_KINDS.indexOf(k);
@@ -190,13 +200,16 @@ export function buildRatingSet(rows: readonly RatingRow[], scale: ClassScale): R
       firstRow[a] = r;
     } else {
       const first = firstRow[a];
-      if (athlete[a] !== ath) throw new RatingInputError(r, 'athleteCode', row.athleteCode, `differs from row ${first + 1} of assessment ${id}`);
+      if (athlete[a] !== ath)
+        throw new RatingInputError(r, 'athleteCode', row.athleteCode, `differs from row ${first + 1} of assessment ${id}`);
       if (event[a] !== ev) throw new RatingInputError(r, 'eventCode', row.eventCode, `differs from row ${first + 1} of assessment ${id}`);
-      if (day[a] !== dayNumber) throw new RatingInputError(r, 'assessedOn', row.assessedOn, `differs from row ${first + 1} of assessment ${id}`);
+      if (day[a] !== dayNumber)
+        throw new RatingInputError(r, 'assessedOn', row.assessedOn, `differs from row ${first + 1} of assessment ${id}`);
       if (kind[a] !== kindIndex) throw new RatingInputError(r, 'kind', k, `differs from row ${first + 1} of assessment ${id}`);
       if (pcIndex !== panel[a]) {
         // A panel class written on only some rows of the assessment is accepted; two different ones are not.
-        if (pcIndex >= 0 && panel[a] >= 0) throw new RatingInputError(r, 'panelClass', pc, `differs from an earlier row of assessment ${id}`);
+        if (pcIndex >= 0 && panel[a] >= 0)
+          throw new RatingInputError(r, 'panelClass', pc, `differs from an earlier row of assessment ${id}`);
         if (pcIndex >= 0) panel[a] = pcIndex;
       }
     }

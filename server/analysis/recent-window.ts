@@ -26,7 +26,12 @@ export interface RecentWindow {
 }
 
 /** The classifier's last `window` panel ratings compared with the rest of the panel. */
-export function recentPanelComparison(set: RatingSet, classifierCode: string, window: number, medians: Float64Array = othersMedian(set)): RecentWindow {
+export function recentPanelComparison(
+  set: RatingSet,
+  classifierCode: string,
+  window: number,
+  medians: Float64Array = othersMedian(set),
+): RecentWindow {
   const series = classifierDeviations(set, classifierCode, medians);
   const total = series.assessment.length;
   const start = Math.max(0, total - Math.max(0, Math.floor(window)));

@@ -157,7 +157,10 @@ export function analyzeRatings(set: RatingSet, options: AnalyzeOptions = {}): Ag
       },
       { B, seed },
     );
-    const apply = <T extends { value: number | null; ci95: StatResult['ci95']; ciMethod: CiMethod | null }>(r: T, b: BootstrapResult): void => {
+    const apply = <T extends { value: number | null; ci95: StatResult['ci95']; ciMethod: CiMethod | null }>(
+      r: T,
+      b: BootstrapResult,
+    ): void => {
       if (r.value !== null && b.ci95) {
         r.ci95 = b.ci95;
         r.ciMethod = 'bootstrap-percentile';

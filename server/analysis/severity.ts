@@ -396,11 +396,15 @@ export function classifierSeverity(set: RatingSet): SeverityResult {
     g.assessments++;
   }
   const codeOrder = (x: number, y: number) => (set.classifierCodes[x] < set.classifierCodes[y] ? -1 : 1);
-  const order = groups.map((_, i) => i).sort((x, y) => {
-    const gx = groups[x];
-    const gy = groups[y];
-    return gy.members.length - gx.members.length || gy.ratings - gx.ratings || codeOrder(Math.min(...gx.members), Math.min(...gy.members));
-  });
+  const order = groups
+    .map((_, i) => i)
+    .sort((x, y) => {
+      const gx = groups[x];
+      const gy = groups[y];
+      return (
+        gy.members.length - gx.members.length || gy.ratings - gx.ratings || codeOrder(Math.min(...gx.members), Math.min(...gy.members))
+      );
+    });
   const componentOf = new Int32Array(C).fill(-1);
   order.forEach((g, rank) => {
     for (const c of groups[g].members) componentOf[c] = rank;

@@ -90,7 +90,16 @@ export function authenticate(ctx: AppContext): RequestHandler {
     const row = await ctx.db
       .selectFrom('sessions')
       .innerJoin('users', 'users.id', 'sessions.user_id')
-      .select(['sessions.id as sid', 'sessions.revoked_at', 'sessions.created_at', 'users.id', 'users.email', 'users.display_name', 'users.is_owner', 'users.session_version'])
+      .select([
+        'sessions.id as sid',
+        'sessions.revoked_at',
+        'sessions.created_at',
+        'users.id',
+        'users.email',
+        'users.display_name',
+        'users.is_owner',
+        'users.session_version',
+      ])
       .where('sessions.id', '=', claims.sid)
       .executeTakeFirst();
     if (!row || row.revoked_at || row.id !== claims.uid || row.session_version !== claims.sv) return next();
@@ -98,7 +107,12 @@ export function authenticate(ctx: AppContext): RequestHandler {
     const endsAt = sessionEndsAt(ctx, row.created_at);
     if (endsAt <= Date.now()) {
       res.clearCookie(SESSION_COOKIE, { path: '/' });
-      await ctx.db.updateTable('sessions').set({ revoked_at: new Date().toISOString() }).where('id', '=', row.sid).where('revoked_at', 'is', null).execute();
+      await ctx.db
+        .updateTable('sessions')
+        .set({ revoked_at: new Date().toISOString() })
+        .where('id', '=', row.sid)
+        .where('revoked_at', 'is', null)
+        .execute();
       return next();
     }
     req.auth = {
@@ -153,7 +167,8 @@ export function requireAccess(ctx: AppContext, rule: AccessRule): RequestHandler
       .executeTakeFirst();
     if (req.auth.kind === 'token') {
       if (!federation || federation.id !== req.auth.federationId) throw forbidden('This API token belongs to another federation');
-      if (!rule.tokenScopes?.includes(req.auth.scope)) throw forbidden(`An API token with the ${req.auth.scope} scope cannot use this route`);
+      if (!rule.tokenScopes?.includes(req.auth.scope))
+        throw forbidden(`An API token with the ${req.auth.scope} scope cannot use this route`);
       req.access = { federation, role: null, userId: null, classifierId: null, via: 'token' };
       return next();
     }

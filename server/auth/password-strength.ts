@@ -75,10 +75,13 @@ function personalWords(inputs: readonly string[]): string[] {
 export async function passwordStrength(password: string, personal: readonly string[] = []): Promise<StrengthVerdict> {
   const zxcvbn = await estimator();
   const result = zxcvbn.check(password, [...SITE_WORDS, ...personalWords(personal)]);
-  const personalMatch = result.sequence.some((m) => m.pattern === 'dictionary' && 'dictionaryName' in m && m.dictionaryName === 'userInputs');
+  const personalMatch = result.sequence.some(
+    (m) => m.pattern === 'dictionary' && 'dictionaryName' in m && m.dictionaryName === 'userInputs',
+  );
   const leansOnPersonal = personalMatch && result.guessesLog10 < MIN_GUESSES_LOG10_WITH_PERSONAL_WORDS;
   if (result.score >= MIN_SCORE && !leansOnPersonal) return { ok: true, score: result.score, message: '' };
-  const warning = result.feedback.warning ?? (leansOnPersonal ? 'It is built from your own name or e-mail, or from this site’s name.' : null);
+  const warning =
+    result.feedback.warning ?? (leansOnPersonal ? 'It is built from your own name or e-mail, or from this site’s name.' : null);
   const why = warning ? `${warning.replace(/\.?$/, '.')} ` : '';
   const tip = result.feedback.suggestions[0] ?? 'Add more words that are less common.';
   return {

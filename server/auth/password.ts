@@ -1,7 +1,12 @@
 import crypto from 'node:crypto';
 import { promisify } from 'node:util';
 
-const scrypt = promisify(crypto.scrypt) as (password: string, salt: Buffer, keylen: number, options: crypto.ScryptOptions) => Promise<Buffer>;
+const scrypt = promisify(crypto.scrypt) as (
+  password: string,
+  salt: Buffer,
+  keylen: number,
+  options: crypto.ScryptOptions,
+) => Promise<Buffer>;
 
 /** scrypt cost parameters; recorded with each hash so they can be raised later. */
 export const SCRYPT_PARAMS = { N: 2 ** 15, r: 8, p: 1, keylen: 32 } as const;
@@ -9,7 +14,12 @@ export const SCRYPT_PARAMS = { N: 2 ** 15, r: 8, p: 1, keylen: 32 } as const;
 /** Format: scrypt$N$r$p$salt(base64url)$hash(base64url). */
 export async function hashPassword(password: string, params = SCRYPT_PARAMS): Promise<string> {
   const salt = crypto.randomBytes(16);
-  const hash = await scrypt(password, salt, params.keylen, { N: params.N, r: params.r, p: params.p, maxmem: 128 * params.N * params.r * 2 });
+  const hash = await scrypt(password, salt, params.keylen, {
+    N: params.N,
+    r: params.r,
+    p: params.p,
+    maxmem: 128 * params.N * params.r * 2,
+  });
   return ['scrypt', params.N, params.r, params.p, salt.toString('base64url'), hash.toString('base64url')].join('$');
 }
 
@@ -21,7 +31,12 @@ export async function verifyPassword(password: string, stored: string | null): P
   const expected = Buffer.from(hashText, 'base64url');
   const N = Number(n);
   const R = Number(r);
-  const actual = await scrypt(password, Buffer.from(saltText, 'base64url'), expected.length, { N, r: R, p: Number(p), maxmem: 128 * N * R * 2 });
+  const actual = await scrypt(password, Buffer.from(saltText, 'base64url'), expected.length, {
+    N,
+    r: R,
+    p: Number(p),
+    maxmem: 128 * N * R * 2,
+  });
   return actual.length === expected.length && crypto.timingSafeEqual(actual, expected);
 }
 

@@ -44,13 +44,19 @@ function limiter(options: Omit<Partial<Options>, 'message'> & { message: string 
  */
 export function signInLimits(): RequestHandler[] {
   return [
-    limiter({ windowMs: MINUTE, limit: 30, skipSuccessfulRequests: true, message: 'Too many failed sign-in attempts from your address. Wait a minute and try again.' }),
+    limiter({
+      windowMs: MINUTE,
+      limit: 30,
+      skipSuccessfulRequests: true,
+      message: 'Too many failed sign-in attempts from your address. Wait a minute and try again.',
+    }),
     limiter({
       windowMs: 15 * MINUTE,
       limit: 10,
       skipSuccessfulRequests: true,
       keyGenerator: accountAndAddressKey,
-      message: 'Too many failed sign-in attempts for this account from your address. Wait a quarter of an hour, or choose a new password with “Forgot your password?”.',
+      message:
+        'Too many failed sign-in attempts for this account from your address. Wait a quarter of an hour, or choose a new password with “Forgot your password?”.',
     }),
   ];
 }
@@ -66,5 +72,12 @@ export function resetRequestLimits(): RequestHandler[] {
 
 /** Following e-mailed links: failed look-ups of a token count per address. */
 export function linkLimits(): RequestHandler[] {
-  return [limiter({ windowMs: 15 * MINUTE, limit: 100, skipSuccessfulRequests: true, message: 'Too many attempts with links. Wait a quarter of an hour and try again.' })];
+  return [
+    limiter({
+      windowMs: 15 * MINUTE,
+      limit: 100,
+      skipSuccessfulRequests: true,
+      message: 'Too many attempts with links. Wait a quarter of an hour and try again.',
+    }),
+  ];
 }

@@ -111,7 +111,8 @@ async function run(command: OpsCommand, args: string[]): Promise<void> {
     const result = restoreDatabase(databasePath, value, knownMigrations());
     out(`panelwise: restored ${databasePath} from ${value}: ${describe(result.summary)}`);
     if (result.keptAs) out(`panelwise: the replaced database is kept as ${result.keptAs}`);
-    if (result.stagedRemoved > 0) out(`panelwise: removed ${result.stagedRemoved} staged dry run(s) of the replaced database; leads upload those files again`);
+    if (result.stagedRemoved > 0)
+      out(`panelwise: removed ${result.stagedRemoved} staged dry run(s) of the replaced database; leads upload those files again`);
     out('panelwise: start the server: it applies any newer migrations to the restored database');
     return;
   }
@@ -121,7 +122,11 @@ async function run(command: OpsCommand, args: string[]): Promise<void> {
     await migrateToLatest(db);
     if (command === 'disable-demo') {
       const n = await disableDemoAccounts(db);
-      out(n === 0 ? 'panelwise: no demo account can sign in; nothing changed' : `panelwise: removed the passwords of ${n} demo account(s) and signed them out`);
+      out(
+        n === 0
+          ? 'panelwise: no demo account can sign in; nothing changed'
+          : `panelwise: removed the passwords of ${n} demo account(s) and signed them out`,
+      );
       return;
     }
     const { value, flags } = positional(args, 'EMAIL');

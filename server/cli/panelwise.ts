@@ -40,7 +40,8 @@ function parseArgs(argv: string[]): Args {
   let seed = 1;
   for (let i = 0; i < rest.length; i++) {
     const a = rest[i];
-    const [flag, inline] = a.startsWith('--') && a.includes('=') ? [a.slice(0, a.indexOf('=')), a.slice(a.indexOf('=') + 1)] : [a, undefined];
+    const [flag, inline] =
+      a.startsWith('--') && a.includes('=') ? [a.slice(0, a.indexOf('=')), a.slice(a.indexOf('=') + 1)] : [a, undefined];
     const value = (): string => {
       const v = inline ?? rest[++i];
       if (v === undefined) throw new UsageError(`${flag} needs a value`);
@@ -143,7 +144,15 @@ export function formatReportTable(r: AgreementReport, file: string): string {
       ? '(none)'
       : table(
           ['A', 'B', 'n', 'Exact', 'Kappa', 'Linear', 'Quadratic'],
-          r.pairs.map((p) => [p.a, p.b, String(p.n), fmt(p.exact.value), fmt(p.kappa.value), fmt(p.linearKappa.value), fmt(p.quadraticKappa.value)]),
+          r.pairs.map((p) => [
+            p.a,
+            p.b,
+            String(p.n),
+            fmt(p.exact.value),
+            fmt(p.kappa.value),
+            fmt(p.linearKappa.value),
+            fmt(p.quadraticKappa.value),
+          ]),
           [false, false, true, true, true, true, true],
         ),
   );

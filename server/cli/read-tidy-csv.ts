@@ -56,7 +56,11 @@ function tidyError(file: string, first: ImportIssue): TidyCsvError {
   if (first.line !== null) where.line = first.line;
   if (first.row !== null && first.column !== null) where.column = first.column;
   if (first.row !== null && first.value !== null) where.value = first.value;
-  return new TidyCsvError(file, first.row === null ? first.message.charAt(0).toLowerCase() + first.message.slice(1) : problemOf(first), where);
+  return new TidyCsvError(
+    file,
+    first.row === null ? first.message.charAt(0).toLowerCase() + first.message.slice(1) : problemOf(first),
+    where,
+  );
 }
 
 /**

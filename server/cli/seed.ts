@@ -10,7 +10,9 @@ import { demoChoice } from '../ops/demo-guard';
  */
 const choice = demoChoice({ env: envName(process.env.NODE_ENV) }, process.argv, process.env.SEED_DEMO);
 if (!choice.seed) {
-  console.error('panelwise: not seeding: the demo accounts have a published password (production needs --demo or SEED_DEMO=1; SEED_DEMO=0 never seeds)');
+  console.error(
+    'panelwise: not seeding: the demo accounts have a published password (production needs --demo or SEED_DEMO=1; SEED_DEMO=0 never seeds)',
+  );
   process.exit(1);
 }
 const { db, sqlite } = openDatabase(defaultDatabasePath());

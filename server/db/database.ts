@@ -167,7 +167,11 @@ export interface CalibrationFlagTable {
   federation_id: number;
   classifier_id: number;
   rule: 'bias' | 'drift' | 'agreement';
-  status: ColumnType<'open' | 'acknowledged' | 'closed', 'open' | 'acknowledged' | 'closed' | undefined, 'open' | 'acknowledged' | 'closed'>;
+  status: ColumnType<
+    'open' | 'acknowledged' | 'closed',
+    'open' | 'acknowledged' | 'closed' | undefined,
+    'open' | 'acknowledged' | 'closed'
+  >;
   note: string | null;
   evidence: string;
   evidence_through: string | null;

@@ -21,7 +21,8 @@ const CLOSED_CASES: DemoCase[] = [
     reference: 6,
   },
   {
-    description: 'Forward, reaches for rebounds above the head with one hand, the other hand on the wheel; recovers slowly after chair contact.',
+    description:
+      'Forward, reaches for rebounds above the head with one hand, the other hand on the wheel; recovers slowly after chair contact.',
     videoUrl: 'https://video.example.invalid/kestrel/practice-02',
     skills: ['rebounding', 'chair-contact', 'catching'],
     reference: 5,
@@ -141,7 +142,12 @@ const DAY_MS = 86_400_000;
 const isoDay = (t: number) => new Date(t).toISOString().slice(0, 10);
 
 export async function seedDemoExercises(db: Db, federationId: number, leadUserId: number | null, now: Date = new Date()): Promise<void> {
-  const roster = new Map((await db.selectFrom('classifiers').select(['id', 'code']).where('federation_id', '=', federationId).execute()).map((c) => [c.code, c.id]));
+  const roster = new Map(
+    (await db.selectFrom('classifiers').select(['id', 'code']).where('federation_id', '=', federationId).execute()).map((c) => [
+      c.code,
+      c.id,
+    ]),
+  );
   const idOf = (code: string) => {
     const id = roster.get(code);
     if (id === undefined) throw new Error(`demo exercise: no classifier ${code}`);
@@ -170,7 +176,14 @@ export async function seedDemoExercises(db: Db, federationId: number, leadUserId
     for (const [i, c] of CLOSED_CASES.entries()) {
       const row = await trx
         .insertInto('exercise_cases')
-        .values({ exercise_id: closed.id, position: i + 1, description: c.description, video_url: c.videoUrl, skills: JSON.stringify(c.skills), reference_class: c.reference })
+        .values({
+          exercise_id: closed.id,
+          position: i + 1,
+          description: c.description,
+          video_url: c.videoUrl,
+          skills: JSON.stringify(c.skills),
+          reference_class: c.reference,
+        })
         .returning('id')
         .executeTakeFirstOrThrow();
       caseIds.push(row.id);
@@ -191,7 +204,14 @@ export async function seedDemoExercises(db: Db, federationId: number, leadUserId
       for (const [i, a] of answers.entries()) {
         await trx
           .insertInto('exercise_answers')
-          .values({ case_id: caseIds[i], classifier_id: idOf(code), sport_class: a.cls, skills: JSON.stringify(a.skills), reason: a.reason, updated_at: '2025-01-29T18:00:00.000Z' })
+          .values({
+            case_id: caseIds[i],
+            classifier_id: idOf(code),
+            sport_class: a.cls,
+            skills: JSON.stringify(a.skills),
+            reason: a.reason,
+            updated_at: '2025-01-29T18:00:00.000Z',
+          })
           .execute();
       }
     }
@@ -215,7 +235,14 @@ export async function seedDemoExercises(db: Db, federationId: number, leadUserId
     for (const [i, c] of OPEN_CASES.entries()) {
       const row = await trx
         .insertInto('exercise_cases')
-        .values({ exercise_id: open.id, position: i + 1, description: c.description, video_url: c.videoUrl, skills: JSON.stringify(c.skills), reference_class: c.reference })
+        .values({
+          exercise_id: open.id,
+          position: i + 1,
+          description: c.description,
+          video_url: c.videoUrl,
+          skills: JSON.stringify(c.skills),
+          reference_class: c.reference,
+        })
         .returning('id')
         .executeTakeFirstOrThrow();
       openCaseIds.push(row.id);
@@ -223,13 +250,24 @@ export async function seedDemoExercises(db: Db, federationId: number, leadUserId
     for (const code of ['C02', 'C08', 'C12']) {
       await trx
         .insertInto('exercise_assignments')
-        .values({ exercise_id: open.id, classifier_id: idOf(code), had_open_flag: code === 'C12' ? 1 : 0, invited_at: new Date(now.getTime() - 3 * DAY_MS).toISOString() })
+        .values({
+          exercise_id: open.id,
+          classifier_id: idOf(code),
+          had_open_flag: code === 'C12' ? 1 : 0,
+          invited_at: new Date(now.getTime() - 3 * DAY_MS).toISOString(),
+        })
         .execute();
     }
     // The demo classifier has answered the first case only.
     await trx
       .insertInto('exercise_answers')
-      .values({ case_id: openCaseIds[0], classifier_id: idOf('C12'), sport_class: 5, skills: JSON.stringify(['catching']), reason: 'Holds the wheel to return upright.' })
+      .values({
+        case_id: openCaseIds[0],
+        classifier_id: idOf('C12'),
+        sport_class: 5,
+        skills: JSON.stringify(['catching']),
+        reason: 'Holds the wheel to return upright.',
+      })
       .execute();
   });
 }

@@ -106,21 +106,95 @@ export const SECOND_DEMO_SCENARIO: ScenarioOptions = {
 };
 
 const FIRST_NAMES = [
-  'Ansel', 'Brisa', 'Corin', 'Dalia', 'Emrys', 'Fenna', 'Galen', 'Hesper', 'Ivo', 'Jorun', 'Kasimir', 'Liesl',
-  'Marek', 'Nerys', 'Oskar', 'Perrin', 'Quilla', 'Rosmund', 'Soren', 'Talia', 'Ulric', 'Vesna', 'Wendel',
-  'Xanthe', 'Yorick', 'Zelma', 'Aubrin', 'Belka', 'Casimo', 'Delphy', 'Elowen', 'Farro', 'Gisla', 'Halvard',
-  'Isolde', 'Jaspen', 'Kerrin', 'Lumi', 'Maelis', 'Nilo', 'Orla', 'Pim', 'Rhosyn', 'Sabeth', 'Tamsin', 'Vidar',
+  'Ansel',
+  'Brisa',
+  'Corin',
+  'Dalia',
+  'Emrys',
+  'Fenna',
+  'Galen',
+  'Hesper',
+  'Ivo',
+  'Jorun',
+  'Kasimir',
+  'Liesl',
+  'Marek',
+  'Nerys',
+  'Oskar',
+  'Perrin',
+  'Quilla',
+  'Rosmund',
+  'Soren',
+  'Talia',
+  'Ulric',
+  'Vesna',
+  'Wendel',
+  'Xanthe',
+  'Yorick',
+  'Zelma',
+  'Aubrin',
+  'Belka',
+  'Casimo',
+  'Delphy',
+  'Elowen',
+  'Farro',
+  'Gisla',
+  'Halvard',
+  'Isolde',
+  'Jaspen',
+  'Kerrin',
+  'Lumi',
+  'Maelis',
+  'Nilo',
+  'Orla',
+  'Pim',
+  'Rhosyn',
+  'Sabeth',
+  'Tamsin',
+  'Vidar',
 ];
 const SURNAMES = [
-  'Ashgrove', 'Brackwater', 'Coldmere', 'Dunhallow', 'Eastmarch', 'Fernlow', 'Greyhaven', 'Hollinby',
-  'Ironmoss', 'Juniperfield', 'Kestwick', 'Larkmoor', 'Mistleby', 'Northwold', 'Oakenshore', 'Pellbridge',
-  'Quarrington', 'Rookhallow', 'Saltmarsh', 'Thistlewood', 'Umberfell', 'Vantorre', 'Wrenfield', 'Yarrowby',
-  'Zeldermoor', 'Applecross', 'Brightwater', 'Cindervale', 'Driftmoor', 'Emberly', 'Foxhollow', 'Glimmerton',
+  'Ashgrove',
+  'Brackwater',
+  'Coldmere',
+  'Dunhallow',
+  'Eastmarch',
+  'Fernlow',
+  'Greyhaven',
+  'Hollinby',
+  'Ironmoss',
+  'Juniperfield',
+  'Kestwick',
+  'Larkmoor',
+  'Mistleby',
+  'Northwold',
+  'Oakenshore',
+  'Pellbridge',
+  'Quarrington',
+  'Rookhallow',
+  'Saltmarsh',
+  'Thistlewood',
+  'Umberfell',
+  'Vantorre',
+  'Wrenfield',
+  'Yarrowby',
+  'Zeldermoor',
+  'Applecross',
+  'Brightwater',
+  'Cindervale',
+  'Driftmoor',
+  'Emberly',
+  'Foxhollow',
+  'Glimmerton',
 ];
 
 /** Relative frequency of each class 1.0 … 4.5 among the invented athletes. */
 const CLASS_WEIGHTS = [0.2, 0.08, 0.12, 0.1, 0.14, 0.1, 0.12, 0.14];
-const CATEGORIES: [string, number][] = [['men', 0.55], ['women', 0.3], ['junior', 0.15]];
+const CATEGORIES: [string, number][] = [
+  ['men', 0.55],
+  ['women', 0.3],
+  ['junior', 0.15],
+];
 
 const pad = (n: number, width: number) => String(n).padStart(width, '0');
 
@@ -174,7 +248,9 @@ export function generateScenario(options: ScenarioOptions): Scenario {
     displayName,
     certificationLevel: i % 4 === 0 ? 'international' : i % 10 === 9 ? 'trainee' : 'national',
   }));
-  const noiseOf = new Map(classifiers.map((c) => [c.code, c.certificationLevel === 'trainee' ? 0.11 : c.certificationLevel === 'international' ? 0.07 : 0.085]));
+  const noiseOf = new Map(
+    classifiers.map((c) => [c.code, c.certificationLevel === 'trainee' ? 0.11 : c.certificationLevel === 'international' ? 0.07 : 0.085]),
+  );
 
   // Events: six a season (four league rounds, a cup, a championship).
   const events: ScenarioEvent[] = [];
@@ -208,7 +284,10 @@ export function generateScenario(options: ScenarioOptions): Scenario {
   for (let i = 0; i < options.athletes; i++) {
     const code = `A${pad(i + 1, 4)}`;
     athletes.push({ code, displayName: athleteNames[i], category: weighted(random, CATEGORIES) });
-    const cls = weighted(random, classValues.map((v, k) => [v, CLASS_WEIGHTS[k]] as [number, number]));
+    const cls = weighted(
+      random,
+      classValues.map((v, k) => [v, CLASS_WEIGHTS[k]] as [number, number]),
+    );
     let profile = cls + (random.next() - 0.5) * 0.24;
     // Athletes between 1.0 and 1.5, or between 2.5 and 3.0, are where panels split most.
     if ((cls === 1 || cls === 1.5) && random.chance(0.4)) profile = 1.25 + (random.next() - 0.5) * 0.12;
@@ -255,7 +334,10 @@ export function generateScenario(options: ScenarioOptions): Scenario {
       const assessedOn = addDays(event.startsOn, day++ % 3);
       const size = random.chance(options.twoMemberPanelShare) ? 2 : 3;
       const chair = chairs.length > 0 ? random.pick(chairs) : classifiers[0];
-      const others = random.sample(classifiers.filter((c) => c !== chair), size - 1);
+      const others = random.sample(
+        classifiers.filter((c) => c !== chair),
+        size - 1,
+      );
       const panel = [chair, ...others];
       const ratings = panel.map((c) => ({ classifierCode: c.code, sportClass: rate(state, c.code, assessedOn) }));
       const sorted = ratings.map((r) => r.sportClass).sort((a, b) => a - b);

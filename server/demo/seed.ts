@@ -27,27 +27,56 @@ export function writeScenario(sqlite: BetterSqlite3.Database, scenario: Scenario
     );
     const importId = Number(
       sqlite
-        .prepare("insert into imports (federation_id, user_id, source, file_name, status, counts, committed_at) values (?, ?, 'seed', 'demo scenario', 'committed', ?, strftime('%Y-%m-%dT%H:%M:%fZ','now'))")
-        .run(federationId, userId, JSON.stringify({ assessments: scenario.assessments.length, ratings: scenario.assessments.reduce((n, a) => n + a.ratings.length, 0) })).lastInsertRowid,
+        .prepare(
+          "insert into imports (federation_id, user_id, source, file_name, status, counts, committed_at) values (?, ?, 'seed', 'demo scenario', 'committed', ?, strftime('%Y-%m-%dT%H:%M:%fZ','now'))",
+        )
+        .run(
+          federationId,
+          userId,
+          JSON.stringify({
+            assessments: scenario.assessments.length,
+            ratings: scenario.assessments.reduce((n, a) => n + a.ratings.length, 0),
+          }),
+        ).lastInsertRowid,
     );
-    const insertClassifier = sqlite.prepare('insert into classifiers (federation_id, code, display_name, certification_level, import_id) values (?, ?, ?, ?, ?)');
+    const insertClassifier = sqlite.prepare(
+      'insert into classifiers (federation_id, code, display_name, certification_level, import_id) values (?, ?, ?, ?, ?)',
+    );
     const classifierIds = new Map<string, number>();
     for (const c of scenario.classifiers) {
-      classifierIds.set(c.code, Number(insertClassifier.run(federationId, c.code, c.displayName, c.certificationLevel, importId).lastInsertRowid));
+      classifierIds.set(
+        c.code,
+        Number(insertClassifier.run(federationId, c.code, c.displayName, c.certificationLevel, importId).lastInsertRowid),
+      );
     }
-    const insertAthlete = sqlite.prepare('insert into athletes (federation_id, code, display_name, category, import_id) values (?, ?, ?, ?, ?)');
+    const insertAthlete = sqlite.prepare(
+      'insert into athletes (federation_id, code, display_name, category, import_id) values (?, ?, ?, ?, ?)',
+    );
     const athleteIds = new Map<string, number>();
-    for (const a of scenario.athletes) athleteIds.set(a.code, Number(insertAthlete.run(federationId, a.code, a.displayName, a.category, importId).lastInsertRowid));
-    const insertEvent = sqlite.prepare('insert into events (federation_id, code, name, starts_on, ends_on, level, import_id) values (?, ?, ?, ?, ?, ?, ?)');
+    for (const a of scenario.athletes)
+      athleteIds.set(a.code, Number(insertAthlete.run(federationId, a.code, a.displayName, a.category, importId).lastInsertRowid));
+    const insertEvent = sqlite.prepare(
+      'insert into events (federation_id, code, name, starts_on, ends_on, level, import_id) values (?, ?, ?, ?, ?, ?, ?)',
+    );
     const eventIds = new Map<string, number>();
-    for (const e of scenario.events) eventIds.set(e.code, Number(insertEvent.run(federationId, e.code, e.name, e.startsOn, e.endsOn, e.level, importId).lastInsertRowid));
+    for (const e of scenario.events)
+      eventIds.set(e.code, Number(insertEvent.run(federationId, e.code, e.name, e.startsOn, e.endsOn, e.level, importId).lastInsertRowid));
     const insertAssessment = sqlite.prepare(
       'insert into assessments (federation_id, external_id, athlete_id, event_id, assessed_on, kind, panel_class, import_id) values (?, ?, ?, ?, ?, ?, ?, ?)',
     );
     const insertRating = sqlite.prepare('insert into ratings (assessment_id, classifier_id, sport_class, import_id) values (?, ?, ?, ?)');
     for (const a of scenario.assessments) {
       const assessmentId = Number(
-        insertAssessment.run(federationId, a.externalId, athleteIds.get(a.athleteCode), eventIds.get(a.eventCode), a.assessedOn, a.kind, a.panelClass, importId).lastInsertRowid,
+        insertAssessment.run(
+          federationId,
+          a.externalId,
+          athleteIds.get(a.athleteCode),
+          eventIds.get(a.eventCode),
+          a.assessedOn,
+          a.kind,
+          a.panelClass,
+          importId,
+        ).lastInsertRowid,
       );
       for (const r of a.ratings) insertRating.run(assessmentId, classifierIds.get(r.classifierCode), r.sportClass, importId);
     }
@@ -69,7 +98,10 @@ async function ensureUser(db: Db, email: string, displayName: string, passwordHa
 
 /** Whether the database holds no federation yet (a fresh install). */
 export async function isEmpty(db: Db): Promise<boolean> {
-  const row = await db.selectFrom('federations').select((eb) => eb.fn.countAll<number>().as('n')).executeTakeFirstOrThrow();
+  const row = await db
+    .selectFrom('federations')
+    .select((eb) => eb.fn.countAll<number>().as('n'))
+    .executeTakeFirstOrThrow();
   return Number(row.n) === 0;
 }
 
@@ -88,11 +120,17 @@ export async function seedDemo(db: Db, sqlite: BetterSqlite3.Database): Promise<
     const userId = await ensureUser(db, account.email, account.displayName, passwordHash);
     await db.insertInto('memberships').values({ user_id: userId, federation_id: federationId, role: account.role }).execute();
     if (account.role === 'classifier') {
-      await db.updateTable('classifiers').set({ user_id: userId }).where('federation_id', '=', federationId).where('code', '=', account.classifierCode).execute();
+      await db
+        .updateTable('classifiers')
+        .set({ user_id: userId })
+        .where('federation_id', '=', federationId)
+        .where('code', '=', account.classifierCode)
+        .execute();
     }
     if (account.role === 'lead') leadUserId = userId;
     // The lead also reads the second federation's figures, to show membership of several federations.
-    if (account.role === 'lead') await db.insertInto('memberships').values({ user_id: userId, federation_id: secondId, role: 'researcher' }).execute();
+    if (account.role === 'lead')
+      await db.insertInto('memberships').values({ user_id: userId, federation_id: secondId, role: 'researcher' }).execute();
   }
   await seedDemoExercises(db, federationId, leadUserId);
   return { federationId };

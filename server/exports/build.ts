@@ -95,7 +95,11 @@ export function assessmentFingerprints(ratings: readonly SourceRating[]): Map<st
   const parts = new Map<string, string[]>();
   for (const r of ratings) {
     let list = parts.get(r.assessmentKey);
-    if (!list) parts.set(r.assessmentKey, (list = [r.athleteKey, r.kind, r.assessedOn, r.eventKey ?? '', r.eventLevel ?? '', r.category, String(r.panelClass ?? '')]));
+    if (!list)
+      parts.set(
+        r.assessmentKey,
+        (list = [r.athleteKey, r.kind, r.assessedOn, r.eventKey ?? '', r.eventLevel ?? '', r.category, String(r.panelClass ?? '')]),
+      );
     list.push(`${r.classifierKey}=${r.sportClass}`);
   }
   const out = new Map<string, number>();
@@ -161,22 +165,99 @@ export function renderExport(input: BuildInput): BuiltExport {
   // Columns, in a fixed order.
   const classValues = scaleClasses(federation.scale).map(formatClass);
   const columns: ColumnSpec[] = [
-    { name: 'assessment', type: 'string', nullable: false, pattern: pseudonymPattern(PSEUDONYM_PREFIXES.assessment), description: 'Pseudonym of the assessment (one panel’s decision about one athlete on one occasion).' },
+    {
+      name: 'assessment',
+      type: 'string',
+      nullable: false,
+      pattern: pseudonymPattern(PSEUDONYM_PREFIXES.assessment),
+      description: 'Pseudonym of the assessment (one panel’s decision about one athlete on one occasion).',
+    },
   ];
-  if (fields.has('athlete')) columns.push({ name: 'athlete', type: 'string', nullable: false, pattern: pseudonymPattern(PSEUDONYM_PREFIXES.athlete), description: 'Pseudonym of the athlete.' });
-  columns.push({ name: 'classifier', type: 'string', nullable: false, pattern: pseudonymPattern(PSEUDONYM_PREFIXES.classifier), description: 'Pseudonym of the classifier who gave this rating.' });
-  columns.push({ name: 'sport_class', type: 'number', nullable: false, values: classValues, description: 'The sport class this classifier gave, in points with one decimal (see classScale).' });
-  if (fields.has('panel_class')) columns.push({ name: 'panel_class', type: 'number', nullable: true, values: classValues, description: 'The panel’s final sport class for the assessment, in points; empty when not recorded.' });
-  if (fields.has('kind')) columns.push({ name: 'kind', type: 'string', nullable: true, values: ['first', 'review', 'protest'], description: 'first classification, review or protest; empty when suppressed.' });
-  if (fields.has('season')) columns.push({ name: 'season', type: 'string', nullable: true, pattern: '^\\d{4}-\\d{2}$', description: 'Season of the assessment, 1 July to 30 June, written 2023-24; empty when suppressed.' });
-  if (fields.has('event')) columns.push({ name: 'event', type: 'string', nullable: true, pattern: pseudonymPattern(PSEUDONYM_PREFIXES.event), description: 'Pseudonym of the event; empty when the assessment had no event or was suppressed.' });
-  if (fields.has('event_level')) columns.push({ name: 'event_level', type: 'string', nullable: true, description: 'Level of the event as the federation records it (for example national, championship); empty when suppressed or without event.' });
-  if (fields.has('category')) columns.push({ name: 'category', type: 'string', nullable: true, description: 'The athlete’s competition category (for example men, women, junior); empty when suppressed.' });
+  if (fields.has('athlete'))
+    columns.push({
+      name: 'athlete',
+      type: 'string',
+      nullable: false,
+      pattern: pseudonymPattern(PSEUDONYM_PREFIXES.athlete),
+      description: 'Pseudonym of the athlete.',
+    });
+  columns.push({
+    name: 'classifier',
+    type: 'string',
+    nullable: false,
+    pattern: pseudonymPattern(PSEUDONYM_PREFIXES.classifier),
+    description: 'Pseudonym of the classifier who gave this rating.',
+  });
+  columns.push({
+    name: 'sport_class',
+    type: 'number',
+    nullable: false,
+    values: classValues,
+    description: 'The sport class this classifier gave, in points with one decimal (see classScale).',
+  });
+  if (fields.has('panel_class'))
+    columns.push({
+      name: 'panel_class',
+      type: 'number',
+      nullable: true,
+      values: classValues,
+      description: 'The panel’s final sport class for the assessment, in points; empty when not recorded.',
+    });
+  if (fields.has('kind'))
+    columns.push({
+      name: 'kind',
+      type: 'string',
+      nullable: true,
+      values: ['first', 'review', 'protest'],
+      description: 'first classification, review or protest; empty when suppressed.',
+    });
+  if (fields.has('season'))
+    columns.push({
+      name: 'season',
+      type: 'string',
+      nullable: true,
+      pattern: '^\\d{4}-\\d{2}$',
+      description: 'Season of the assessment, 1 July to 30 June, written 2023-24; empty when suppressed.',
+    });
+  if (fields.has('event'))
+    columns.push({
+      name: 'event',
+      type: 'string',
+      nullable: true,
+      pattern: pseudonymPattern(PSEUDONYM_PREFIXES.event),
+      description: 'Pseudonym of the event; empty when the assessment had no event or was suppressed.',
+    });
+  if (fields.has('event_level'))
+    columns.push({
+      name: 'event_level',
+      type: 'string',
+      nullable: true,
+      description:
+        'Level of the event as the federation records it (for example national, championship); empty when suppressed or without event.',
+    });
+  if (fields.has('category'))
+    columns.push({
+      name: 'category',
+      type: 'string',
+      nullable: true,
+      description: 'The athlete’s competition category (for example men, women, junior); empty when suppressed.',
+    });
   if (fields.has('date')) {
     columns.push(
       request.dateMode === 'month'
-        ? { name: 'assessed_month', type: 'month', nullable: true, pattern: '^\\d{4}-\\d{2}$', description: 'Month of the assessment (ISO 8601 year-month, YYYY-MM); empty when suppressed.' }
-        : { name: 'day_offset', type: 'integer', nullable: true, description: 'Days from the athlete’s first assessment in this export (0 = that assessment); empty when suppressed.' },
+        ? {
+            name: 'assessed_month',
+            type: 'month',
+            nullable: true,
+            pattern: '^\\d{4}-\\d{2}$',
+            description: 'Month of the assessment (ISO 8601 year-month, YYYY-MM); empty when suppressed.',
+          }
+        : {
+            name: 'day_offset',
+            type: 'integer',
+            nullable: true,
+            description: 'Days from the athlete’s first assessment in this export (0 = that assessment); empty when suppressed.',
+          },
     );
   }
 
@@ -207,14 +288,26 @@ export function renderExport(input: BuildInput): BuiltExport {
     if (typeof value === 'number') return String(value);
     return String(neutraliseCell(value));
   };
-  const csv = Papa.unparse(
-    { fields: columns.map((c) => c.name), data: records.map((row) => columns.map((c) => csvCell(c, row[c.name] ?? null))) },
-    { newline: '\r\n', quotes: false },
-  ) + '\r\n';
+  const csv =
+    Papa.unparse(
+      { fields: columns.map((c) => c.name), data: records.map((row) => columns.map((c) => csvCell(c, row[c.name] ?? null))) },
+      { newline: '\r\n', quotes: false },
+    ) + '\r\n';
 
   const base = `research-export-${input.exportId}`;
   const fileNames: Record<ExportFile, string> = { csv: `${base}.csv`, json: `${base}.json`, dictionary: `${base}-dictionary.json` };
-  const json = JSON.stringify({ format: EXPORT_FORMAT, export: input.exportId, dictionary: fileNames.dictionary, columns: columns.map((c) => c.name), rows: records }, null, 1) + '\n';
+  const json =
+    JSON.stringify(
+      {
+        format: EXPORT_FORMAT,
+        export: input.exportId,
+        dictionary: fileNames.dictionary,
+        columns: columns.map((c) => c.name),
+        rows: records,
+      },
+      null,
+      1,
+    ) + '\n';
 
   const athletes = new Set(drafts.map((d) => d.athlete)).size;
   const classifiers = new Set(records.map((r) => r.classifier)).size;
@@ -228,10 +321,25 @@ export function renderExport(input: BuildInput): BuiltExport {
     publisher: federation.name,
     exportedMonth,
     files: {
-      csv: { name: fileNames.csv, mediaType: 'text/csv', encoding: 'UTF-8 (no byte-order mark)', delimiter: ',', newline: 'CRLF', header: true, sha256: sha256(csv) },
-      json: { name: fileNames.json, mediaType: 'application/json', encoding: 'UTF-8', layout: '{format, export, dictionary, columns, rows: [one object per rating, keyed by column name; empty cells are null]}', sha256: sha256(json) },
+      csv: {
+        name: fileNames.csv,
+        mediaType: 'text/csv',
+        encoding: 'UTF-8 (no byte-order mark)',
+        delimiter: ',',
+        newline: 'CRLF',
+        header: true,
+        sha256: sha256(csv),
+      },
+      json: {
+        name: fileNames.json,
+        mediaType: 'application/json',
+        encoding: 'UTF-8',
+        layout: '{format, export, dictionary, columns, rows: [one object per rating, keyed by column name; empty cells are null]}',
+        sha256: sha256(json),
+      },
     },
-    unitOfObservation: 'One row per rating: one classifier’s sport class for one assessment. The ratings of an assessment share its pseudonym.',
+    unitOfObservation:
+      'One row per rating: one classifier’s sport class for one assessment. The ratings of an assessment share its pseudonym.',
     scope: {
       seasons: [...request.scope.seasons].sort(),
       eventLevels: [...request.scope.eventLevels].sort(),
@@ -262,7 +370,13 @@ export function renderExport(input: BuildInput): BuiltExport {
           ? `${DATE_MODE_LABELS.month}. Exact days are never exported. Seasons run from 1 July to 30 June.`
           : `${DATE_MODE_LABELS.offset}: whole days between the assessment and the same athlete’s earliest assessment in this export. No calendar date is exported. Seasons run from 1 July to 30 June.`,
     },
-    neverExported: ['names of athletes, classifiers and events', 'the federation’s codes of athletes, classifiers and events', 'assessment identifiers', 'exact dates', 'free-text notes'],
+    neverExported: [
+      'names of athletes, classifiers and events',
+      'the federation’s codes of athletes, classifiers and events',
+      'assessment identifiers',
+      'exact dates',
+      'free-text notes',
+    ],
     suppression: {
       k,
       rule: [
@@ -273,7 +387,8 @@ export function renderExport(input: BuildInput): BuiltExport {
       ],
       counts: suppressed,
     },
-    csvSafety: 'A text cell that begins with =, +, -, @, a tab or a carriage return is written to the CSV with a leading apostrophe so that spreadsheets do not run it as a formula; the JSON holds the text unchanged.',
+    csvSafety:
+      'A text cell that begins with =, +, -, @, a tab or a carriage return is written to the CSV with a leading apostrophe so that spreadsheets do not run it as a formula; the JSON holds the text unchanged.',
     cautions: CAUTIONS,
     howToCite: `${federation.name} (${exportedMonth.slice(0, 4)}). Anonymised classification panel decisions, research export ${input.exportId}${input.study ? `, study "${input.study.name}"` : ''} [data set, exported ${exportedMonth}]. Made with Panelwise.`,
   };

@@ -73,7 +73,12 @@ async function immediate<T>(db: Db, fn: (trx: Db) => Promise<T>): Promise<T> {
   });
 }
 
-async function checkQuota(trx: Db, params: BuildExportParams, limits: { maxExportsPerDay: number; maxStoredMegabytes: number }, now: Date): Promise<void> {
+async function checkQuota(
+  trx: Db,
+  params: BuildExportParams,
+  limits: { maxExportsPerDay: number; maxStoredMegabytes: number },
+  now: Date,
+): Promise<void> {
   if (params.role !== 'researcher') return;
   const since = new Date(now.getTime() - DAY_MS).toISOString();
   const recent = await trx
@@ -138,7 +143,10 @@ async function checkDifferencing(
     const compared = compareExports(members, theirs);
     const differing = compared.differing.size;
     const shared = compared.shared.size;
-    const which = row.user_id === params.userId ? `your export ${row.id} (made ${row.created_at.slice(0, 10)})` : `an earlier export of the study "${study!.name}"`;
+    const which =
+      row.user_id === params.userId
+        ? `your export ${row.id} (made ${row.created_at.slice(0, 10)})`
+        : `an earlier export of the study "${study!.name}"`;
     if (shared > 0 && shared < k) {
       throw new HttpError(
         422,
@@ -173,17 +181,29 @@ export async function buildExport(ctx: ExportStorageContext, params: BuildExport
 
   let study: Selectable<ResearchStudyTable> | undefined;
   if (request.studyId !== undefined && request.studyId !== null) {
-    study = await db.selectFrom('research_studies').selectAll().where('id', '=', request.studyId).where('federation_id', '=', federation.id).executeTakeFirst();
-    if (!study) throw new HttpError(400, 'validation_failed', 'The export request is not valid', [{ path: 'studyId', message: `Study ${request.studyId} does not exist in this federation` }]);
+    study = await db
+      .selectFrom('research_studies')
+      .selectAll()
+      .where('id', '=', request.studyId)
+      .where('federation_id', '=', federation.id)
+      .executeTakeFirst();
+    if (!study)
+      throw new HttpError(400, 'validation_failed', 'The export request is not valid', [
+        { path: 'studyId', message: `Study ${request.studyId} does not exist in this federation` },
+      ]);
     if (study.closed_at) throw new HttpError(409, 'conflict', `The study "${study.name}" is closed: its stable key can no longer be used`);
   }
 
   // 1. Only whole cells of at least k athletes.
   const small = await federationSmallCells(db, federation.id, k);
-  const ratings = (await scopeRatings(db, federation.id, request.scope)).filter((r) => !small.has(cellKey(quarterOfIsoDate(r.assessedOn), r.kind, r.category)));
+  const ratings = (await scopeRatings(db, federation.id, request.scope)).filter(
+    (r) => !small.has(cellKey(quarterOfIsoDate(r.assessedOn), r.kind, r.category)),
+  );
   const athletes = new Set(ratings.map((r) => r.athleteRowId)).size;
   if (athletes < k) {
-    throw new HttpError(422, 'validation_failed', `The scope holds ${athletes} athletes, fewer than k = ${k}: widen it`, [{ path: 'scope', message: `fewer than ${k} athletes` }]);
+    throw new HttpError(422, 'validation_failed', `The scope holds ${athletes} athletes, fewer than k = ${k}: widen it`, [
+      { path: 'scope', message: `fewer than ${k} athletes` },
+    ]);
   }
   const fingerprints = assessmentFingerprints(ratings);
   const members: ExportMember[] = [];
@@ -215,7 +235,9 @@ export async function buildExport(ctx: ExportStorageContext, params: BuildExport
       .returning('id')
       .executeTakeFirstOrThrow();
     for (let i = 0; i < members.length; i += 500) {
-      const chunk = members.slice(i, i + 500).map((m) => ({ export_id: inserted.id, assessment_id: m.assessmentId, athlete_id: m.athleteId, fingerprint: m.fingerprint }));
+      const chunk = members
+        .slice(i, i + 500)
+        .map((m) => ({ export_id: inserted.id, assessment_id: m.assessmentId, athlete_id: m.athleteId, fingerprint: m.fingerprint }));
       await trx.insertInto('research_export_assessments').values(chunk).execute();
     }
     return inserted.id;

@@ -78,4 +78,3 @@ export async function scopeRatings(db: Db, federationId: number, scope: ExportRe
   const seasons = new Set(scope.seasons);
   return rows.filter((r) => seasons.has(seasonOf(r.assessedOn)));
 }
-

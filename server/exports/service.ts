@@ -44,12 +44,38 @@ export async function exportOptions(db: Db, access: FederationAccess): Promise<E
     .where('federation_id', '=', federationId)
     .execute();
   const seasons = [...new Set(dates.map((d) => seasonOf(`${d.month}-01`)))].sort();
-  const levels = await db.selectFrom('events').select('level').distinct().where('federation_id', '=', federationId).orderBy('level').execute();
-  const withoutEvent = await db.selectFrom('assessments').select('id').where('federation_id', '=', federationId).where('event_id', 'is', null).limit(1).executeTakeFirst();
-  const categories = await db.selectFrom('athletes').select('category').distinct().where('federation_id', '=', federationId).orderBy('category').execute();
+  const levels = await db
+    .selectFrom('events')
+    .select('level')
+    .distinct()
+    .where('federation_id', '=', federationId)
+    .orderBy('level')
+    .execute();
+  const withoutEvent = await db
+    .selectFrom('assessments')
+    .select('id')
+    .where('federation_id', '=', federationId)
+    .where('event_id', 'is', null)
+    .limit(1)
+    .executeTakeFirst();
+  const categories = await db
+    .selectFrom('athletes')
+    .select('category')
+    .distinct()
+    .where('federation_id', '=', federationId)
+    .orderBy('category')
+    .execute();
   const events =
     access.role === 'lead'
-      ? (await db.selectFrom('events').select(['id', 'code', 'name', 'starts_on', 'level']).where('federation_id', '=', federationId).orderBy('starts_on').orderBy('code').execute()).map((e) => ({
+      ? (
+          await db
+            .selectFrom('events')
+            .select(['id', 'code', 'name', 'starts_on', 'level'])
+            .where('federation_id', '=', federationId)
+            .orderBy('starts_on')
+            .orderBy('code')
+            .execute()
+        ).map((e) => ({
           id: e.id,
           code: e.code,
           name: e.name,
@@ -106,13 +132,25 @@ function exportView(
  * differencing, gzip files kept for EXPORT_KEEP_DAYS, audit). The per-export salt is used and
  * forgotten.
  */
-export async function createExport(ctx: ExportStorageContext, access: FederationAccess, request: ExportRequest, now = new Date()): Promise<ExportView> {
+export async function createExport(
+  ctx: ExportStorageContext,
+  access: FederationAccess,
+  request: ExportRequest,
+  now = new Date(),
+): Promise<ExportView> {
   if (access.role !== 'lead' && request.scope.eventIds && request.scope.eventIds.length > 0) {
-    throw new HttpError(403, 'forbidden', 'Researchers choose events by season and level, not one by one', [{ path: 'scope.eventIds', message: 'Only a lead may choose individual events' }]);
+    throw new HttpError(403, 'forbidden', 'Researchers choose events by season and level, not one by one', [
+      { path: 'scope.eventIds', message: 'Only a lead may choose individual events' },
+    ]);
   }
   if (access.role === null || access.userId === null) throw new HttpError(403, 'forbidden', 'API tokens cannot make research exports');
   const built = await buildExport(ctx, {
-    federation: { id: access.federation.id, name: access.federation.name, scaleMin: access.federation.scaleMin, scaleMax: access.federation.scaleMax },
+    federation: {
+      id: access.federation.id,
+      name: access.federation.name,
+      scaleMin: access.federation.scaleMin,
+      scaleMax: access.federation.scaleMax,
+    },
     userId: access.userId,
     role: access.role,
     request,
@@ -172,7 +210,13 @@ const MEDIA_TYPES: Record<ExportFile, string> = {
  * One stored file of the caller's own export, as the path of its gzip-compressed file; 404 for
  * anyone else's, 410 once expired (its files are removed then, if the scheduled job has not yet).
  */
-export async function exportFile(ctx: ExportStorageContext, access: FederationAccess, exportId: number, file: ExportFile, now = new Date()) {
+export async function exportFile(
+  ctx: ExportStorageContext,
+  access: FederationAccess,
+  exportId: number,
+  file: ExportFile,
+  now = new Date(),
+) {
   const row = await ctx.db
     .selectFrom('research_exports')
     .select(['id', 'user_id', 'storage_key', 'expires_at', 'counts'])
@@ -182,11 +226,19 @@ export async function exportFile(ctx: ExportStorageContext, access: FederationAc
   if (!row || row.user_id === null || row.user_id !== access.userId) throw notFound(`Export ${exportId}`);
   const dir = exportsDirectory(ctx);
   const gone = () =>
-    new HttpError(410, 'gone', `Export ${exportId} expired on ${row.expires_at.slice(0, 10)}: exports can be downloaded for ${EXPORT_KEEP_DAYS} days; build it again`);
+    new HttpError(
+      410,
+      'gone',
+      `Export ${exportId} expired on ${row.expires_at.slice(0, 10)}: exports can be downloaded for ${EXPORT_KEEP_DAYS} days; build it again`,
+    );
   if (row.storage_key === null) throw gone();
   if (Date.parse(row.expires_at) <= now.getTime()) {
     await removeExportFiles(dir, row.id, row.storage_key);
-    await ctx.db.updateTable('research_exports').set({ storage_key: null, stored_bytes: 0, removed_at: now.toISOString() }).where('id', '=', row.id).execute();
+    await ctx.db
+      .updateTable('research_exports')
+      .set({ storage_key: null, stored_bytes: 0, removed_at: now.toISOString() })
+      .where('id', '=', row.id)
+      .execute();
     throw gone();
   }
   const gzipPath = exportFilePath(dir, row.id, row.storage_key, file);
@@ -231,32 +283,74 @@ export async function updateSettings(db: Db, access: FederationAccess, next: Exp
     const detail: Record<string, { from: number; to: number }> = { minAthletes: { from: before.minAthletes, to: next.minAthletes } };
     if (next.maxExportsPerDay !== undefined) detail.maxExportsPerDay = { from: before.maxExportsPerDay, to: next.maxExportsPerDay };
     if (next.maxStoredMegabytes !== undefined) detail.maxStoredMegabytes = { from: before.maxStoredMegabytes, to: next.maxStoredMegabytes };
-    await audit(trx, { federationId: access.federation.id, userId: access.userId, action: 'export.settings', entity: 'research_export_settings', entityId: access.federation.id, detail });
+    await audit(trx, {
+      federationId: access.federation.id,
+      userId: access.userId,
+      action: 'export.settings',
+      entity: 'research_export_settings',
+      entityId: access.federation.id,
+      detail,
+    });
   });
   return settingsView(db, access.federation.id);
 }
 
 export async function createStudy(db: Db, access: FederationAccess, input: { name: string; purpose?: string }): Promise<StudyView> {
-  const taken = await db.selectFrom('research_studies').select('id').where('federation_id', '=', access.federation.id).where('name', '=', input.name).executeTakeFirst();
+  const taken = await db
+    .selectFrom('research_studies')
+    .select('id')
+    .where('federation_id', '=', access.federation.id)
+    .where('name', '=', input.name)
+    .executeTakeFirst();
   if (taken) throw new HttpError(409, 'conflict', `A study named "${input.name}" already exists`, [{ path: 'name', message: 'is taken' }]);
   return db.transaction().execute(async (trx) => {
     const row = await trx
       .insertInto('research_studies')
-      .values({ federation_id: access.federation.id, name: input.name, purpose: input.purpose || null, salt: randomSecret(), created_by: access.userId })
+      .values({
+        federation_id: access.federation.id,
+        name: input.name,
+        purpose: input.purpose || null,
+        salt: randomSecret(),
+        created_by: access.userId,
+      })
       .returningAll()
       .executeTakeFirstOrThrow();
-    await audit(trx, { federationId: access.federation.id, userId: access.userId, action: 'export.study.create', entity: 'research_study', entityId: row.id, detail: { name: row.name } });
+    await audit(trx, {
+      federationId: access.federation.id,
+      userId: access.userId,
+      action: 'export.study.create',
+      entity: 'research_study',
+      entityId: row.id,
+      detail: { name: row.name },
+    });
     return studyView(row);
   });
 }
 
 export async function closeStudy(db: Db, access: FederationAccess, studyId: number): Promise<StudyView> {
-  const row = await db.selectFrom('research_studies').selectAll().where('id', '=', studyId).where('federation_id', '=', access.federation.id).executeTakeFirst();
+  const row = await db
+    .selectFrom('research_studies')
+    .selectAll()
+    .where('id', '=', studyId)
+    .where('federation_id', '=', access.federation.id)
+    .executeTakeFirst();
   if (!row) throw notFound(`Study ${studyId}`);
   if (row.closed_at) return studyView(row);
   return db.transaction().execute(async (trx) => {
-    const closed = await trx.updateTable('research_studies').set({ closed_at: new Date().toISOString() }).where('id', '=', studyId).returningAll().executeTakeFirstOrThrow();
-    await audit(trx, { federationId: access.federation.id, userId: access.userId, action: 'export.study.close', entity: 'research_study', entityId: studyId, detail: { name: row.name } });
+    const closed = await trx
+      .updateTable('research_studies')
+      .set({ closed_at: new Date().toISOString() })
+      .where('id', '=', studyId)
+      .returningAll()
+      .executeTakeFirstOrThrow();
+    await audit(trx, {
+      federationId: access.federation.id,
+      userId: access.userId,
+      action: 'export.study.close',
+      entity: 'research_study',
+      entityId: studyId,
+      detail: { name: row.name },
+    });
     return studyView(closed);
   });
 }

@@ -96,7 +96,10 @@ const ORPHAN_AGE_MS = 60 * 60 * 1000;
  * `removed_at`), and files that no export names any more (an interrupted build), once they are
  * an hour old. Awaitable: run it at start and periodically.
  */
-export async function removeExpiredExports(ctx: ExportStorageContext, now: Date = new Date()): Promise<{ exports: number; orphanFiles: number; bytes: number }> {
+export async function removeExpiredExports(
+  ctx: ExportStorageContext,
+  now: Date = new Date(),
+): Promise<{ exports: number; orphanFiles: number; bytes: number }> {
   const dir = exportsDirectory(ctx);
   const expired = await ctx.db
     .selectFrom('research_exports')
@@ -117,7 +120,9 @@ export async function removeExpiredExports(ctx: ExportStorageContext, now: Date 
   }
 
   const live = new Set(
-    (await ctx.db.selectFrom('research_exports').select(['id', 'storage_key']).where('storage_key', 'is not', null).execute()).map((r) => `${r.id}-${r.storage_key}`),
+    (await ctx.db.selectFrom('research_exports').select(['id', 'storage_key']).where('storage_key', 'is not', null).execute()).map(
+      (r) => `${r.id}-${r.storage_key}`,
+    ),
   );
   let orphanFiles = 0;
   for (const name of await fs.promises.readdir(dir)) {

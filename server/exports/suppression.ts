@@ -69,7 +69,10 @@ export function suppressSmallCells(items: SuppressibleAssessment[], options: Sup
 
   if (options.combinationAttributes.length > 0) {
     const keyOf = (item: SuppressibleAssessment) =>
-      JSON.stringify([options.categoryExported ? item.category : null, ...options.combinationAttributes.map((name) => item.attributes[name] ?? null)]);
+      JSON.stringify([
+        options.categoryExported ? item.category : null,
+        ...options.combinationAttributes.map((name) => item.attributes[name] ?? null),
+      ]);
     const athletesByKey = new Map<string, Set<string>>();
     for (const item of items) {
       const key = keyOf(item);

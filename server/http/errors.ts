@@ -72,11 +72,13 @@ export function classifyError(err: unknown): HttpError | null {
   if (code === 'SQLITE_BUSY' || code === 'SQLITE_LOCKED' || code.startsWith('SQLITE_BUSY_')) {
     return new HttpError(503, 'busy', 'The database is busy with another write. Try again in a moment.');
   }
-  if (e.type === 'entity.too.large' || code === 'LIMIT_FILE_SIZE') return new HttpError(413, 'payload_too_large', 'The request body is too large');
+  if (e.type === 'entity.too.large' || code === 'LIMIT_FILE_SIZE')
+    return new HttpError(413, 'payload_too_large', 'The request body is too large');
   if (e.type === 'entity.parse.failed') return new HttpError(400, 'bad_request', 'The request body is not valid JSON');
   const status = typeof e.status === 'number' ? e.status : NaN;
   if (status >= 400 && status < 500) {
-    if (status === 415) return new HttpError(415, 'unsupported_media_type', 'The request body’s encoding or character set is not supported: send UTF-8 JSON');
+    if (status === 415)
+      return new HttpError(415, 'unsupported_media_type', 'The request body’s encoding or character set is not supported: send UTF-8 JSON');
     if (status === 413) return new HttpError(413, 'payload_too_large', 'The request body is too large');
     const message = e.expose === true && typeof e.message === 'string' && e.message.length < 200 ? e.message : 'The request is not valid';
     return new HttpError(status, status === 404 ? 'not_found' : 'bad_request', message);

@@ -25,7 +25,10 @@ export function toBatchIssue(issue: ImportIssue): BatchIssue {
     item: issue.row,
     field: issue.column,
     value: issue.value,
-    message: issue.message.replace(/\bRow (\d+)/g, 'Item $1').replace(/\brow (\d+)/g, 'item $1').replace(', column ', ', field '),
+    message: issue.message
+      .replace(/\bRow (\d+)/g, 'Item $1')
+      .replace(/\brow (\d+)/g, 'item $1')
+      .replace(', column ', ', field '),
   };
 }
 
@@ -54,17 +57,36 @@ export function readBatchItems(input: unknown, scale: ClassScale = DEFAULT_SCALE
       const value = index === null ? undefined : valueAt(input, issue.path);
       const shown = value === undefined ? null : shownValue(typeof value === 'object' ? JSON.stringify(value) : value);
       const where = [index !== null ? `Item ${index}` : 'The body', field ? `field ${field}` : null].filter(Boolean).join(', ');
-      issues.error({ row: index, line: null, column: field, value: shown, message: `${where}: ${shown !== null ? `value "${shown}" ` : ''}${issue.message}` });
+      issues.error({
+        row: index,
+        line: null,
+        column: field,
+        value: shown,
+        message: `${where}: ${shown !== null ? `value "${shown}" ` : ''}${issue.message}`,
+      });
     }
     return { batch: null, issues };
   }
   const v = fieldValidators(scale, 'iso');
   const columns = batchColumns();
   const builder = new BatchBuilder('long', columns, issues);
-  const names = { assessment_id: 'assessment_id', athlete_code: 'athlete_code', event_code: 'event_code', assessed_on: 'assessed_on', kind: 'kind', panel_class: 'panel_class', note: 'note' };
+  const names = {
+    assessment_id: 'assessment_id',
+    athlete_code: 'athlete_code',
+    event_code: 'event_code',
+    assessed_on: 'assessed_on',
+    kind: 'kind',
+    panel_class: 'panel_class',
+    note: 'note',
+  };
   parsed.data.forEach((item, index) => {
     let bad = false;
-    const check = <T>(field: string, raw: string | undefined, validator: (raw: string | undefined) => { ok: true; value: T } | { ok: false; message: string }, fallback: T): T => {
+    const check = <T>(
+      field: string,
+      raw: string | undefined,
+      validator: (raw: string | undefined) => { ok: true; value: T } | { ok: false; message: string },
+      fallback: T,
+    ): T => {
       const r = validator(raw);
       if (r.ok) return r.value;
       bad = true;
@@ -75,7 +97,12 @@ export function readBatchItems(input: unknown, scale: ClassScale = DEFAULT_SCALE
     const athleteCode = check('athlete_code', item.athlete_code, v.code, '');
     const eventCode = check('event_code', item.event_code, v.code, '');
     const assessedOn = check('assessed_on', item.assessed_on, v.date, '');
-    const panelClass = check('panel_class', item.panel_class === null || item.panel_class === undefined ? '' : String(item.panel_class), v.panelClass, null);
+    const panelClass = check(
+      'panel_class',
+      item.panel_class === null || item.panel_class === undefined ? '' : String(item.panel_class),
+      v.panelClass,
+      null,
+    );
     const note = check('note', item.note ?? '', v.note, null);
     const ratings = item.ratings.map((rating, j) => ({
       code: check(`ratings[${j}].classifier_code`, rating.classifier_code, v.code, ''),
@@ -83,7 +110,10 @@ export function readBatchItems(input: unknown, scale: ClassScale = DEFAULT_SCALE
       column: ASSESSMENT_FIELDS.length + j,
     }));
     if (bad) return;
-    const a = builder.assessment({ externalId, athleteCode, eventCode, assessedOn, kind: item.kind ?? null, panelClass, note }, { row: index, line: null, names });
+    const a = builder.assessment(
+      { externalId, athleteCode, eventCode, assessedOn, kind: item.kind ?? null, panelClass, note },
+      { row: index, line: null, names },
+    );
     if (a < 0) return;
     for (const r of ratings) builder.rating(a, r.code, r.cls, { row: index, line: null }, r.column);
   });

@@ -58,7 +58,15 @@ export interface RowPlace {
   row: number;
   line: number | null;
   /** Column names for the assessment's fields. */
-  names: { assessment_id: string; athlete_code: string; event_code: string; assessed_on: string; kind: string; panel_class: string; note: string };
+  names: {
+    assessment_id: string;
+    athlete_code: string;
+    event_code: string;
+    assessed_on: string;
+    kind: string;
+    panel_class: string;
+    note: string;
+  };
 }
 
 /** A growable column of 32-bit integers. */
@@ -259,9 +267,12 @@ export class BatchBuilder {
     }
     const i = existing;
     const at = { row, line: line < 0 ? null : line };
-    if (this.aAthlete.data[i] !== athlete) return this.differs(i, at, names.athlete_code, this.athletes.values[athlete], this.athletes.values[this.aAthlete.data[i]]);
-    if (this.aEvent.data[i] !== event) return this.differs(i, at, names.event_code, this.events.values[event], this.events.values[this.aEvent.data[i]]);
-    if (this.aDate.data[i] !== date) return this.differs(i, at, names.assessed_on, this.dates.values[date], this.dates.values[this.aDate.data[i]]);
+    if (this.aAthlete.data[i] !== athlete)
+      return this.differs(i, at, names.athlete_code, this.athletes.values[athlete], this.athletes.values[this.aAthlete.data[i]]);
+    if (this.aEvent.data[i] !== event)
+      return this.differs(i, at, names.event_code, this.events.values[event], this.events.values[this.aEvent.data[i]]);
+    if (this.aDate.data[i] !== date)
+      return this.differs(i, at, names.assessed_on, this.dates.values[date], this.dates.values[this.aDate.data[i]]);
     if (kind >= 0) {
       const before = this.aKind.data[i];
       if (before === -1) this.aKind.data[i] = kind;
@@ -281,12 +292,26 @@ export class BatchBuilder {
   }
 
   private differs(i: number, place: { row: number; line: number | null }, column: string, value: string, earlier: string): number {
-    this.issues.error(rowIssue(place.row, place.line, column, value, `differs from row ${this.aRow.data[i]} of assessment ${this.externalId[i]} ("${earlier}")`));
+    this.issues.error(
+      rowIssue(
+        place.row,
+        place.line,
+        column,
+        value,
+        `differs from row ${this.aRow.data[i]} of assessment ${this.externalId[i]} ("${earlier}")`,
+      ),
+    );
     return -1;
   }
 
   /** One classifier's rating of an assessment; a second rating by the same classifier is an error. */
-  rating(assessment: number, classifierCode: string, sportClass: number, place: { row: number; line: number | null }, column: number): void {
+  rating(
+    assessment: number,
+    classifierCode: string,
+    sportClass: number,
+    place: { row: number; line: number | null },
+    column: number,
+  ): void {
     this.ratingOf(assessment, this.classifiers.intern(classifierCode), sportClass, place.row, place.line ?? -1, column);
   }
 
@@ -329,7 +354,13 @@ export class BatchBuilder {
       this.notAnalysable++;
       const line = this.aLine.data[i];
       this.issues.warning(
-        rowIssue(this.aRow.data[i], line < 0 ? null : line, idColumn, this.externalId[i], 'has ratings from a single classifier: it is kept, but it is not analysable for agreement'),
+        rowIssue(
+          this.aRow.data[i],
+          line < 0 ? null : line,
+          idColumn,
+          this.externalId[i],
+          'has ratings from a single classifier: it is kept, but it is not analysable for agreement',
+        ),
       );
     }
     return {

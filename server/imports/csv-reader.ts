@@ -69,7 +69,11 @@ export function decodeCsvBytes(bytes: Uint8Array): string {
     try {
       return new TextDecoder(utf16, { fatal: true, ignoreBOM: false }).decode(bytes);
     } catch {
-      throw new FileRefusal([fileIssue(`The file looks like UTF-16 text (${utf16 === 'utf-16le' ? 'little' : 'big'}-endian) but is not valid UTF-16. Save it as "CSV UTF-8" and upload it again.`)]);
+      throw new FileRefusal([
+        fileIssue(
+          `The file looks like UTF-16 text (${utf16 === 'utf-16le' ? 'little' : 'big'}-endian) but is not valid UTF-16. Save it as "CSV UTF-8" and upload it again.`,
+        ),
+      ]);
     }
   }
   try {
@@ -107,7 +111,10 @@ export function detectDelimiter(text: string): string {
   if (used.length === 0) return ',';
   if (used.length > 1) {
     throw new FileRefusal([
-      fileIssue(`The file mixes delimiters: its header uses both ${DELIMITER_NAMES[used[0][0]]}s and ${DELIMITER_NAMES[used[1][0]]}s. Use one delimiter throughout.`, { line: 1 }),
+      fileIssue(
+        `The file mixes delimiters: its header uses both ${DELIMITER_NAMES[used[0][0]]}s and ${DELIMITER_NAMES[used[1][0]]}s. Use one delimiter throughout.`,
+        { line: 1 },
+      ),
     ]);
   }
   return used[0][0];
@@ -116,7 +123,10 @@ export function detectDelimiter(text: string): string {
 interface ColumnPlan {
   layout: ImportLayout;
   /** Column index of each fixed field, or -1. */
-  fixed: Record<'assessment_id' | 'athlete_code' | 'event_code' | 'assessed_on' | 'panel_class' | 'kind' | 'note' | 'classifier_code' | 'sport_class', number>;
+  fixed: Record<
+    'assessment_id' | 'athlete_code' | 'event_code' | 'assessed_on' | 'panel_class' | 'kind' | 'note' | 'classifier_code' | 'sport_class',
+    number
+  >;
   /** Wide layout, one column per classifier: [column index, classifier code]. */
   classifierColumns: [number, string][];
   /** Wide layout, panel seats: [classifier column, class column]. */
@@ -132,12 +142,16 @@ function planColumns(headers: string[], options: CsvReadOptions): ColumnPlan {
   headers.forEach((h, i) => {
     const key = h.toLowerCase();
     if (h === '') return;
-    if (seen.has(key)) issues.push(fileIssue(`The header has the column "${h}" twice (columns ${seen.get(key)! + 1} and ${i + 1})`, { line: 1, column: h }));
+    if (seen.has(key))
+      issues.push(fileIssue(`The header has the column "${h}" twice (columns ${seen.get(key)! + 1} and ${i + 1})`, { line: 1, column: h }));
     else seen.set(key, i);
   });
   if (issues.length) throw new FileRefusal(issues);
 
-  const guessed = guessMapping(headers.filter((h) => h !== ''), options.knownClassifierCodes ?? []).mapping;
+  const guessed = guessMapping(
+    headers.filter((h) => h !== ''),
+    options.knownClassifierCodes ?? [],
+  ).mapping;
   if (options.layout === 'long') {
     for (const [h, target] of Object.entries(guessed)) if (target.startsWith('classifier:') || target.startsWith('seat')) delete guessed[h];
   }
@@ -182,7 +196,12 @@ function planColumns(headers: string[], options: CsvReadOptions): ColumnPlan {
     }
     const other = usedBy.get(target);
     if (other !== undefined) {
-      issues.push(fileIssue(`Columns "${other}" and "${h}" are both mapped to ${target}: map one of them to something else or ignore it`, { line: 1, column: h }));
+      issues.push(
+        fileIssue(`Columns "${other}" and "${h}" are both mapped to ${target}: map one of them to something else or ignore it`, {
+          line: 1,
+          column: h,
+        }),
+      );
       return;
     }
     usedBy.set(target, h);
@@ -197,16 +216,24 @@ function planColumns(headers: string[], options: CsvReadOptions): ColumnPlan {
     } else fixed[target as keyof ColumnPlan['fixed']] = i;
   });
   for (const h of unknown) {
-    issues.push(fileIssue(`The column "${h}" is not a column of the import: map it to a field or choose to ignore it`, { line: 1, column: h }));
+    issues.push(
+      fileIssue(`The column "${h}" is not a column of the import: map it to a field or choose to ignore it`, { line: 1, column: h }),
+    );
   }
   const layout = layoutOf(mapping);
   const hasLong = fixed.classifier_code >= 0 || fixed.sport_class >= 0;
   if (layout === 'wide' && hasLong) {
-    issues.push(fileIssue('The columns mix the long layout (classifier_code, sport_class) and the wide layout (a column per classifier or per panel seat)', { line: 1 }));
+    issues.push(
+      fileIssue(
+        'The columns mix the long layout (classifier_code, sport_class) and the wide layout (a column per classifier or per panel seat)',
+        { line: 1 },
+      ),
+    );
   }
   const required = layout === 'long' ? REQUIRED_LONG_COLUMNS : REQUIRED_ASSESSMENT_COLUMNS;
   for (const col of required) {
-    if (fixed[col] < 0) issues.push(fileIssue(`The header has no column ${col} (required: ${required.join(', ')})`, { line: 1, column: col }));
+    if (fixed[col] < 0)
+      issues.push(fileIssue(`The header has no column ${col} (required: ${required.join(', ')})`, { line: 1, column: col }));
   }
   const seats: [number, number][] = [];
   for (const [seat, part] of [...seatParts.entries()].sort((a, b) => a[0] - b[0])) {
@@ -273,7 +300,9 @@ export class CsvRowReader {
       }
       this.row++;
       if (quoteErrors.has(k)) {
-        this.issues.error(rowIssue(this.row, line, null, fields.join(this.delimiter), 'has a quote (") that is not closed or is misplaced'));
+        this.issues.error(
+          rowIssue(this.row, line, null, fields.join(this.delimiter), 'has a quote (") that is not closed or is misplaced'),
+        );
         continue;
       }
       this.record(fields, this.row, line);
@@ -312,12 +341,28 @@ export class CsvRowReader {
             ),
           ]);
         }
-        issues.error(rowIssue(row, line, headers[fields.length] ?? null, '', `is missing: the row has ${fields.length} fields where the header has ${headers.length}`));
+        issues.error(
+          rowIssue(
+            row,
+            line,
+            headers[fields.length] ?? null,
+            '',
+            `is missing: the row has ${fields.length} fields where the header has ${headers.length}`,
+          ),
+        );
         return;
       }
       const extra = fields.slice(headers.length).findIndex((f) => f.trim() !== '');
       if (extra >= 0) {
-        issues.error(rowIssue(row, line, `${headers.length + extra + 1} (no header)`, fields[headers.length + extra], `is in a column the header does not have (the row has ${fields.length} fields, the header ${headers.length})`));
+        issues.error(
+          rowIssue(
+            row,
+            line,
+            `${headers.length + extra + 1} (no header)`,
+            fields[headers.length + extra],
+            `is in a column the header does not have (the row has ${fields.length} fields, the header ${headers.length})`,
+          ),
+        );
         return;
       }
     }
@@ -346,7 +391,9 @@ export class CsvRowReader {
         if (codeRaw.trim() === '' && clsRaw.trim() === '') continue;
         if (codeRaw.trim() === '') {
           bad = true;
-          issues.error(rowIssue(row, line, headers[ci], codeRaw, `is blank but the seat's sport class (${headers[si]}) is "${clsRaw.trim()}"`));
+          issues.error(
+            rowIssue(row, line, headers[ci], codeRaw, `is blank but the seat's sport class (${headers[si]}) is "${clsRaw.trim()}"`),
+          );
           continue;
         }
         const code = v.code(codeRaw);
@@ -382,7 +429,7 @@ export class CsvRowReader {
   private bad = false;
 
   /** One fixed column's value through its validator; an error is reported and marks the row bad. */
-  private readonly take = <T,>(fields: string[], row: number, line: number, index: number, check: FieldValidator<T>, fallback: T): T => {
+  private readonly take = <T>(fields: string[], row: number, line: number, index: number, check: FieldValidator<T>, fallback: T): T => {
     if (index < 0) return fallback;
     const raw = fields[index];
     const r = check(raw);
@@ -457,7 +504,13 @@ export class CsvRowReader {
       if (b >= 0x80) high = true;
       else if (b !== delim && b !== 0x20 && b !== 0x09 && b !== 0x0b && b !== 0x0c) return false;
     }
-    return !high || buf.toString('utf8', from, to).split(this.delimiter).every((f) => f.trim() === '');
+    return (
+      !high ||
+      buf
+        .toString('utf8', from, to)
+        .split(this.delimiter)
+        .every((f) => f.trim() === '')
+    );
   }
 
   private bytesLine(buf: Buffer, from: number, to: number, line: number, fields: number): void {
@@ -491,7 +544,10 @@ export class CsvRowReader {
       if (plain && (what === ValueKind.Athlete || what === ValueKind.Event || what === ValueKind.Classifier || what === ValueKind.Text)) {
         const text = buf.toString('latin1', s, e);
         const b = this.builder!;
-        const value = what === ValueKind.Text ? text : (what === ValueKind.Athlete ? b.athletes : what === ValueKind.Event ? b.events : b.classifiers).intern(text);
+        const value =
+          what === ValueKind.Text
+            ? text
+            : (what === ValueKind.Athlete ? b.athletes : what === ValueKind.Event ? b.events : b.classifiers).intern(text);
         k = vals.add(buf, s, e, true, value);
         return k;
       }
@@ -558,7 +614,8 @@ export class CsvRowReader {
     const kNote = this.valueIndex(buf, f.note, ValueKind.Note);
     const kCode = this.valueIndex(buf, f.classifier_code, ValueKind.Classifier);
     const kCls = this.valueIndex(buf, f.sport_class, ValueKind.SportClass);
-    if (kExt < 0 || kAth < 0 || kEv < 0 || kDate < 0 || kCode < 0 || kCls < 0 || kPanel === -2 || kKind === -2 || kNote === -2) return false;
+    if (kExt < 0 || kAth < 0 || kEv < 0 || kDate < 0 || kCode < 0 || kCls < 0 || kPanel === -2 || kKind === -2 || kNote === -2)
+      return false;
     const values = this.values;
     const b = this.builder!;
     const a = b.assessmentOf(
@@ -579,7 +636,14 @@ export class CsvRowReader {
       this.lastAssessment = a;
       this.lastIdStart = this.starts[f.assessment_id]!;
       this.lastIdEnd = this.starts[f.assessment_id + 1] - 1;
-      b.ratingOf(a, values[f.classifier_code].value[kCode] as number, values[f.sport_class].value[kCls] as number, row, line, f.classifier_code);
+      b.ratingOf(
+        a,
+        values[f.classifier_code].value[kCode] as number,
+        values[f.sport_class].value[kCls] as number,
+        row,
+        line,
+        f.classifier_code,
+      );
     }
     return true;
   }
@@ -787,7 +851,7 @@ function plainFile(bytes: Uint8Array): PlainFile | null {
   const from = bom(0) ? 3 : 0;
   if (bom(from)) return null;
   const crlf = buf.indexOf(13, from) >= 0;
-  for (let at = from; at < buf.length; ) {
+  for (let at = from; at < buf.length;) {
     const nl = buf.indexOf(10, at);
     const end = nl < 0 ? buf.length : nl;
     const text = buf.toString('utf8', at, crlf && nl >= 0 && buf[end - 1] === 13 ? end - 1 : end);
@@ -808,7 +872,10 @@ export function byteReadable(bytes: Uint8Array): boolean {
 }
 
 /** Reads and checks the file's bytes synchronously (the command line): the batch in typed columns. */
-export function readCsvCore(bytes: Uint8Array, options: CsvReadOptions = {}): { core: BatchCore | null; issues: IssueList; layout: ImportLayout | null } {
+export function readCsvCore(
+  bytes: Uint8Array,
+  options: CsvReadOptions = {},
+): { core: BatchCore | null; issues: IssueList; layout: ImportLayout | null } {
   try {
     const plain = plainFile(bytes);
     if (plain) {
@@ -835,11 +902,15 @@ export function readCsvCore(bytes: Uint8Array, options: CsvReadOptions = {}): { 
 const BYTE_SLICE = 4 << 20;
 
 /** The byte reader in slices, giving the event loop a turn between them; null when the file needs the text reader. */
-async function readPlainBytes(plain: PlainFile, options: CsvReadOptions, onProgress?: (done: number, total: number) => void): Promise<CsvReadResult | null> {
+async function readPlainBytes(
+  plain: PlainFile,
+  options: CsvReadOptions,
+  onProgress?: (done: number, total: number) => void,
+): Promise<CsvReadResult | null> {
   const { buf, crlf } = plain;
   const reader = new CsvRowReader(options, plain.delimiter, crlf ? '\r\n' : '\n');
   try {
-    for (let at = plain.from; at < buf.length; ) {
+    for (let at = plain.from; at < buf.length;) {
       const nl = buf.indexOf(10, Math.min(buf.length, at + BYTE_SLICE));
       const end = nl < 0 ? buf.length : nl + 1;
       reader.feedBytes(buf, at, end, crlf);
@@ -862,7 +933,11 @@ const SLICE = 1 << 20;
  * other in papaparse chunks through a stream; either way the event loop gets a turn between
  * slices (progress events go out, other requests are served). `onProgress` gets the share read.
  */
-export async function readCsvBytes(bytes: Uint8Array, options: CsvReadOptions = {}, onProgress?: (done: number, total: number) => void): Promise<CsvReadResult> {
+export async function readCsvBytes(
+  bytes: Uint8Array,
+  options: CsvReadOptions = {},
+  onProgress?: (done: number, total: number) => void,
+): Promise<CsvReadResult> {
   let prepared: { text: string; delimiter: string };
   try {
     const plain = plainFile(bytes);
@@ -908,8 +983,8 @@ export async function readCsvBytes(bytes: Uint8Array, options: CsvReadOptions = 
       });
     });
     reader ??= new CsvRowReader(options, delimiter);
-    const batch = (reader).finish();
-    return { batch, issues: (reader).issues, layout: (reader).layout, mapping: (reader).mapping };
+    const batch = reader.finish();
+    return { batch, issues: reader.issues, layout: reader.layout, mapping: reader.mapping };
   } catch (error) {
     return refuse(error);
   }

@@ -28,7 +28,9 @@ export function fieldValidator<T>(schema: ZodType<T, string>): FieldValidator<T>
     let result = cache.get(text);
     if (result === undefined) {
       const parsed = schema.safeParse(text);
-      result = parsed.success ? { ok: true, value: parsed.data } : { ok: false, message: parsed.error.issues[0]?.message ?? 'is not valid' };
+      result = parsed.success
+        ? { ok: true, value: parsed.data }
+        : { ok: false, message: parsed.error.issues[0]?.message ?? 'is not valid' };
       if (cache.size < CACHE_LIMIT) cache.set(text, result);
     }
     lastText = text;
@@ -74,7 +76,11 @@ export function optionalClassSchema(scale: ClassScale): ZodType<number | null, s
 }
 
 const DATE_PATTERNS: Record<DateFormat, { re: RegExp; order: [number, number, number]; words: string }> = {
-  iso: { re: /^(\d{4})-(\d{2})-(\d{2})(?:[T ]\d{2}:\d{2}(?::\d{2}(?:\.\d{1,9})?)?(?:Z|[+-]\d{2}:?\d{2})?)?$/, order: [1, 2, 3], words: 'an ISO 8601 date (YYYY-MM-DD)' },
+  iso: {
+    re: /^(\d{4})-(\d{2})-(\d{2})(?:[T ]\d{2}:\d{2}(?::\d{2}(?:\.\d{1,9})?)?(?:Z|[+-]\d{2}:?\d{2})?)?$/,
+    order: [1, 2, 3],
+    words: 'an ISO 8601 date (YYYY-MM-DD)',
+  },
   'DD/MM/YYYY': { re: /^(\d{1,2})\/(\d{1,2})\/(\d{4})$/, order: [3, 2, 1], words: 'a date DD/MM/YYYY' },
   'MM/DD/YYYY': { re: /^(\d{1,2})\/(\d{1,2})\/(\d{4})$/, order: [3, 1, 2], words: 'a date MM/DD/YYYY' },
   'DD.MM.YYYY': { re: /^(\d{1,2})\.(\d{1,2})\.(\d{4})$/, order: [3, 2, 1], words: 'a date DD.MM.YYYY' },

@@ -78,7 +78,13 @@ export class FileRefusal extends Error {
 }
 
 export function fileIssue(message: string, where: { row?: number; line?: number; column?: string; value?: string } = {}): ImportIssue {
-  return { row: where.row ?? null, line: where.line ?? null, column: where.column ?? null, value: where.value === undefined ? null : shownValue(where.value), message };
+  return {
+    row: where.row ?? null,
+    line: where.line ?? null,
+    column: where.column ?? null,
+    value: where.value === undefined ? null : shownValue(where.value),
+    message,
+  };
 }
 
 /** The problem of an issue without its "Row …, column …: value …" prefix. */

@@ -57,7 +57,13 @@ function codes(sqlite: BetterSqlite3.Database, table: 'classifiers' | 'athletes'
 
 const zero = () => ({ new: 0, changed: 0, unchanged: 0 });
 
-export function planImport(sqlite: BetterSqlite3.Database, federationId: number, batch: ValidatedBatch, options: PlanOptions, issues: IssueList): ImportPlan {
+export function planImport(
+  sqlite: BetterSqlite3.Database,
+  federationId: number,
+  batch: ValidatedBatch,
+  options: PlanOptions,
+  issues: IssueList,
+): ImportPlan {
   const a = batch.assessments;
   const r = batch.ratings;
   const counts: ImportCounts = {
@@ -97,7 +103,13 @@ export function planImport(sqlite: BetterSqlite3.Database, federationId: number,
       const code = r.classifierCode[k];
       if (!unknown.has(code)) continue;
       issues.error(
-        rowIssue(r.row[k], r.line[k] ?? null, batch.columns[r.column[k]] ?? 'classifier_code', code, "is not a classifier of the federation's roster (choose to add unknown classifiers to the roster, or correct the code)"),
+        rowIssue(
+          r.row[k],
+          r.line[k] ?? null,
+          batch.columns[r.column[k]] ?? 'classifier_code',
+          code,
+          "is not a classifier of the federation's roster (choose to add unknown classifiers to the roster, or correct the code)",
+        ),
       );
     }
   }
@@ -165,7 +177,9 @@ export function planImport(sqlite: BetterSqlite3.Database, federationId: number,
   const existingRatings = new Map<number, number[]>();
   if (batchOfDbId.size > 0) {
     const rows = sqlite
-      .prepare('select ratings.assessment_id, ratings.classifier_id, ratings.id, ratings.sport_class from ratings join assessments on assessments.id = ratings.assessment_id where assessments.federation_id = ?')
+      .prepare(
+        'select ratings.assessment_id, ratings.classifier_id, ratings.id, ratings.sport_class from ratings join assessments on assessments.id = ratings.assessment_id where assessments.federation_id = ?',
+      )
       .raw(true)
       .iterate(federationId) as IterableIterator<[number, number, number, number]>;
     for (const [assessmentId, classifierId, ratingId, cls] of rows) {
@@ -233,5 +247,14 @@ export function planImport(sqlite: BetterSqlite3.Database, federationId: number,
 
 /** Whether applying the plan would change anything. */
 export function planChangesSomething(counts: ImportCounts): boolean {
-  return counts.assessments.new + counts.assessments.changed + counts.ratings.new + counts.ratings.changed + counts.classifiers.new + counts.athletes.new + counts.events.new > 0;
+  return (
+    counts.assessments.new +
+      counts.assessments.changed +
+      counts.ratings.new +
+      counts.ratings.changed +
+      counts.classifiers.new +
+      counts.athletes.new +
+      counts.events.new >
+    0
+  );
 }

@@ -23,7 +23,8 @@ function keyOf(federationId: number, userId: number | null, jobId: string): stri
 
 function sweep(): void {
   const now = Date.now();
-  for (const [key, job] of jobs) if (job.finishedAt !== null && now - job.finishedAt > KEEP_MS && job.listeners.size === 0) jobs.delete(key);
+  for (const [key, job] of jobs)
+    if (job.finishedAt !== null && now - job.finishedAt > KEEP_MS && job.listeners.size === 0) jobs.delete(key);
 }
 
 function jobOf(key: string): Job {

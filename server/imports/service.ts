@@ -6,7 +6,15 @@
  */
 import crypto from 'node:crypto';
 import fs from 'node:fs';
-import { STAGED_IMPORT_DAYS, type UploadOptions, type DryRun, type ImportCounts, type ImportView, type BatchResult, type ImportStatus } from '../../shared/schemas/imports';
+import {
+  STAGED_IMPORT_DAYS,
+  type UploadOptions,
+  type DryRun,
+  type ImportCounts,
+  type ImportView,
+  type BatchResult,
+  type ImportStatus,
+} from '../../shared/schemas/imports';
 import type { FederationAccess } from '../auth/access';
 import type { AppContext } from '../context';
 import { HttpError, notFound } from '../http/errors';
@@ -41,7 +49,9 @@ function rosterCodes(ctx: AppContext, federationId: number): string[] {
 function sameFileAs(ctx: AppContext, federationId: number, hash: string | null): DryRun['sameFileAs'] {
   if (!hash) return null;
   const row = ctx.sqlite
-    .prepare("select id, committed_at from imports where federation_id = ? and file_hash = ? and status = 'committed' order by id desc limit 1")
+    .prepare(
+      "select id, committed_at from imports where federation_id = ? and file_hash = ? and status = 'committed' order by id desc limit 1",
+    )
     .get(federationId, hash) as { id: number; committed_at: string | null } | undefined;
   return row ? { importId: row.id, committedAt: row.committed_at } : null;
 }
@@ -61,7 +71,13 @@ export async function dryRunCsv(
   const fileHash = crypto.createHash('sha256').update(file.bytes).digest('hex');
   const read = await readCsvBytes(
     file.bytes,
-    { mapping: options.mapping, dateFormat: options.dateFormat, scale: scaleOf(federation), unknownColumns: 'reject', knownClassifierCodes: rosterCodes(ctx, federation.id) },
+    {
+      mapping: options.mapping,
+      dateFormat: options.dateFormat,
+      scale: scaleOf(federation),
+      unknownColumns: 'reject',
+      knownClassifierCodes: rosterCodes(ctx, federation.id),
+    },
     (done, total) => reporter.report('reading', done, total),
   );
   const base = { fileName: file.name, fileHash, layout: read.layout, sameFileAs: sameFileAs(ctx, federation.id, fileHash) };
@@ -100,7 +116,9 @@ export async function dryRunCsv(
 
   const importId = Number(
     ctx.sqlite
-      .prepare("insert into imports (federation_id, user_id, source, file_name, file_hash, status, counts) values (?, ?, 'csv', ?, ?, 'staged', ?)")
+      .prepare(
+        "insert into imports (federation_id, user_id, source, file_name, file_hash, status, counts) values (?, ?, 'csv', ?, ?, 'staged', ?)",
+      )
       .run(federation.id, userId, file.name, fileHash, JSON.stringify(plan.counts)).lastInsertRowid,
   );
   try {
@@ -121,7 +139,9 @@ interface ImportRow {
 }
 
 function importRow(ctx: AppContext, federationId: number, importId: number): ImportRow {
-  const row = ctx.sqlite.prepare('select id, federation_id, status, source, counts from imports where id = ? and federation_id = ?').get(importId, federationId) as ImportRow | undefined;
+  const row = ctx.sqlite
+    .prepare('select id, federation_id, status, source, counts from imports where id = ? and federation_id = ?')
+    .get(importId, federationId) as ImportRow | undefined;
   if (!row) throw notFound('The import');
   return row;
 }
@@ -163,12 +183,19 @@ const DAY_MS = 24 * 60 * 60 * 1000;
 export async function expireStagedImports(ctx: AppContext, options: { now?: Date; days?: number } = {}): Promise<number[]> {
   const now = options.now ?? new Date();
   const cutoff = new Date(now.getTime() - (options.days ?? STAGED_IMPORT_DAYS) * DAY_MS).toISOString();
-  const rows = ctx.sqlite.prepare("select id, federation_id from imports where status = 'staged' and created_at < ?").all(cutoff) as { id: number; federation_id: number }[];
+  const rows = ctx.sqlite.prepare("select id, federation_id from imports where status = 'staged' and created_at < ?").all(cutoff) as {
+    id: number;
+    federation_id: number;
+  }[];
   const expired: number[] = [];
   for (const row of rows) {
     const changed = ctx.sqlite.transaction(() => {
       const result = ctx.sqlite.prepare("update imports set status = 'expired' where id = ? and status = 'staged'").run(row.id);
-      if (result.changes === 1) auditSync(ctx, row.federation_id, null, 'import.expire', row.id, { expiredAt: now.toISOString(), days: options.days ?? STAGED_IMPORT_DAYS });
+      if (result.changes === 1)
+        auditSync(ctx, row.federation_id, null, 'import.expire', row.id, {
+          expiredAt: now.toISOString(),
+          days: options.days ?? STAGED_IMPORT_DAYS,
+        });
       return result.changes === 1;
     })();
     if (!changed) continue;
@@ -179,13 +206,18 @@ export async function expireStagedImports(ctx: AppContext, options: { now?: Date
 }
 
 /** Runs expireStagedImports now and then daily; `stop()` ends it; `idle()` awaits the run in progress. */
-export function scheduleStagedImportExpiry(ctx: AppContext, onError: (error: unknown) => void = () => {}): { stop(): void; idle(): Promise<void> } {
+export function scheduleStagedImportExpiry(
+  ctx: AppContext,
+  onError: (error: unknown) => void = () => {},
+): { stop(): void; idle(): Promise<void> } {
   let running: Promise<void> = Promise.resolve();
   const run = () => {
-    running = running.then(() => expireStagedImports(ctx)).then(
-      () => undefined,
-      (error: unknown) => onError(error),
-    );
+    running = running
+      .then(() => expireStagedImports(ctx))
+      .then(
+        () => undefined,
+        (error: unknown) => onError(error),
+      );
   };
   run();
   const timer = setInterval(run, DAY_MS);
@@ -251,7 +283,14 @@ export async function commitImport(
 }
 
 /** The audit entry, written with the raw connection inside its synchronous transaction. */
-function auditSync(ctx: AppContext, federationId: number, userId: number | null, action: string, importId: number, detail: Record<string, unknown>): void {
+function auditSync(
+  ctx: AppContext,
+  federationId: number,
+  userId: number | null,
+  action: string,
+  importId: number,
+  detail: Record<string, unknown>,
+): void {
   ctx.sqlite
     .prepare("insert into audit_log (federation_id, user_id, action, entity, entity_id, detail) values (?, ?, ?, 'import', ?, ?)")
     .run(federationId, userId, action, String(importId), JSON.stringify(detail));
@@ -268,7 +307,13 @@ function revertBlocker(ctx: AppContext, row: ImportRow): string | null {
   return later === undefined ? null : `Import #${later} came later: revert it first`;
 }
 
-export async function revertImport(ctx: AppContext, federation: Federation, userId: number | null, importId: number, reporter: Reporter = silent): Promise<ImportView> {
+export async function revertImport(
+  ctx: AppContext,
+  federation: Federation,
+  userId: number | null,
+  importId: number,
+  reporter: Reporter = silent,
+): Promise<ImportView> {
   const row = importRow(ctx, federation.id, importId);
   const blocker = revertBlocker(ctx, row);
   if (blocker) throw new HttpError(409, 'conflict', blocker);
@@ -280,7 +325,9 @@ export async function revertImport(ctx: AppContext, federation: Federation, user
         const stillBlocked = revertBlocker(ctx, again);
         if (stillBlocked) throw new RevertRefused(stillBlocked);
         revertRows(ctx.sqlite, importId);
-        ctx.sqlite.prepare("update imports set status = 'reverted', reverted_at = strftime('%Y-%m-%dT%H:%M:%fZ','now') where id = ?").run(importId);
+        ctx.sqlite
+          .prepare("update imports set status = 'reverted', reverted_at = strftime('%Y-%m-%dT%H:%M:%fZ','now') where id = ?")
+          .run(importId);
         auditSync(ctx, federation.id, userId, 'import.revert', importId, { counts: JSON.parse(again.counts) as unknown });
       })
       .immediate();
@@ -299,7 +346,8 @@ export async function revertImport(ctx: AppContext, federation: Federation, user
 
 export async function discardImport(ctx: AppContext, federation: Federation, userId: number | null, importId: number): Promise<void> {
   const row = importRow(ctx, federation.id, importId);
-  if (row.status !== 'staged') throw new HttpError(409, 'conflict', `The import is ${row.status}: only a checked file waiting to be committed can be discarded`);
+  if (row.status !== 'staged')
+    throw new HttpError(409, 'conflict', `The import is ${row.status}: only a checked file waiting to be committed can be discarded`);
   ctx.sqlite.prepare("update imports set status = 'discarded' where id = ? and status = 'staged'").run(importId);
   await audit(ctx.db, { federationId: federation.id, userId, action: 'import.discard', entity: 'import', entityId: importId });
   await removeStaged(ctx, importId);
@@ -328,7 +376,8 @@ function toView(ctx: AppContext, row: HistoryRow): ImportView {
   try {
     const raw = JSON.parse(row.counts) as Record<string, unknown>;
     // The demo seed records plain totals: show them as new records.
-    for (const key of ['assessments', 'ratings'] as const) if (typeof raw[key] === 'number') raw[key] = { new: raw[key], changed: 0, unchanged: 0 };
+    for (const key of ['assessments', 'ratings'] as const)
+      if (typeof raw[key] === 'number') raw[key] = { new: raw[key], changed: 0, unchanged: 0 };
     counts = raw;
   } catch {
     counts = null;
@@ -362,7 +411,9 @@ export function importView(ctx: AppContext, federationId: number, importId: numb
 }
 
 export function listImports(ctx: AppContext, federationId: number): ImportView[] {
-  const rows = ctx.sqlite.prepare(`${HISTORY_SQL} and imports.status != 'discarded' order by imports.id desc limit 500`).all(federationId) as HistoryRow[];
+  const rows = ctx.sqlite
+    .prepare(`${HISTORY_SQL} and imports.status != 'discarded' order by imports.id desc limit 500`)
+    .all(federationId) as HistoryRow[];
   return rows.map((row) => toView(ctx, row));
 }
 
@@ -393,13 +444,16 @@ export function importBatch(
   const preview = planImport(ctx.sqlite, federation.id, batch, { addClassifiers: options.addClassifiers }, read.issues);
   if (read.issues.errorCount > 0) throw new BatchRefused(read.issues);
   if (options.dryRun) return { status: 200, body: { importId: null, outcome: 'dry-run', counts: preview.counts, warnings } };
-  if (!planChangesSomething(preview.counts)) return { status: 200, body: { importId: null, outcome: 'nothing-to-do', counts: preview.counts, warnings } };
+  if (!planChangesSomething(preview.counts))
+    return { status: 200, body: { importId: null, outcome: 'nothing-to-do', counts: preview.counts, warnings } };
   const hash = crypto.createHash('sha256').update(JSON.stringify(items)).digest('hex');
   const result = ctx.sqlite
     .transaction(() => {
       const importId = Number(
         ctx.sqlite
-          .prepare("insert into imports (federation_id, user_id, source, file_name, file_hash, status, counts, committed_at) values (?, ?, 'api', null, ?, 'committed', '{}', strftime('%Y-%m-%dT%H:%M:%fZ','now'))")
+          .prepare(
+            "insert into imports (federation_id, user_id, source, file_name, file_hash, status, counts, committed_at) values (?, ?, 'api', null, ?, 'committed', '{}', strftime('%Y-%m-%dT%H:%M:%fZ','now'))",
+          )
           .run(federation.id, userId, hash).lastInsertRowid,
       );
       const written = writeBatch(ctx, federation.id, importId, batch, options.addClassifiers);

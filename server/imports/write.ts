@@ -12,7 +12,6 @@ import { CHANGED, NEW, type ImportPlan } from './plan';
 const ASSESSMENT_ROWS = 64;
 const RATING_ROWS = 128;
 
-
 /** The next id an AUTOINCREMENT table will give, read inside the write transaction. */
 function nextId(sqlite: BetterSqlite3.Database, table: string): number {
   const seq = sqlite.prepare('select seq from sqlite_sequence where name = ?').pluck().get(table) as number | undefined;
@@ -26,13 +25,22 @@ function multiInsert(sqlite: BetterSqlite3.Database, head: string, columns: numb
 }
 
 /** Writes the plan's additions and changes for import `importId`. Returns nothing; throws on failure. */
-export function applyPlan(sqlite: BetterSqlite3.Database, federationId: number, importId: number, batch: ValidatedBatch, plan: ImportPlan): void {
+export function applyPlan(
+  sqlite: BetterSqlite3.Database,
+  federationId: number,
+  importId: number,
+  batch: ValidatedBatch,
+  plan: ImportPlan,
+): void {
   const a = batch.assessments;
   const r = batch.ratings;
 
   // Roster, athletes and events the import adds.
-  const insertClassifier = sqlite.prepare("insert into classifiers (federation_id, code, display_name, certification_level, import_id) values (?, ?, ?, 'national', ?)");
-  for (const code of plan.newClassifiers) plan.classifierIds.set(code, Number(insertClassifier.run(federationId, code, code, importId).lastInsertRowid));
+  const insertClassifier = sqlite.prepare(
+    "insert into classifiers (federation_id, code, display_name, certification_level, import_id) values (?, ?, ?, 'national', ?)",
+  );
+  for (const code of plan.newClassifiers)
+    plan.classifierIds.set(code, Number(insertClassifier.run(federationId, code, code, importId).lastInsertRowid));
   const insertAthlete = sqlite.prepare('insert into athletes (federation_id, code, import_id) values (?, ?, ?)');
   for (const code of plan.newAthletes) plan.athleteIds.set(code, Number(insertAthlete.run(federationId, code, importId).lastInsertRowid));
   const insertEvent = sqlite.prepare('insert into events (federation_id, code, name, import_id) values (?, ?, ?, ?)');
@@ -41,7 +49,9 @@ export function applyPlan(sqlite: BetterSqlite3.Database, federationId: number, 
   const insertChange = sqlite.prepare('insert into import_changes (import_id, table_name, row_id, before) values (?, ?, ?, ?)');
 
   // Assessments: changed ones get a before-image and an update; new ones get ids from here on.
-  const updateAssessment = sqlite.prepare('update assessments set athlete_id = ?, event_id = ?, assessed_on = ?, kind = ?, panel_class = ?, note = ? where id = ?');
+  const updateAssessment = sqlite.prepare(
+    'update assessments set athlete_id = ?, event_id = ?, assessed_on = ?, kind = ?, panel_class = ?, note = ? where id = ?',
+  );
   const n = a.externalId.length;
   const dbId = new Int32Array(n);
   let next = nextId(sqlite, 'assessments');
@@ -56,7 +66,19 @@ export function applyPlan(sqlite: BetterSqlite3.Database, federationId: number, 
     dbId[i] = before.id;
     if (plan.assessmentFieldsChanged[i]) {
       const kind = a.kind[i];
-      insertChange.run(importId, 'assessments', before.id, JSON.stringify({ athlete_id: before.athlete_id, event_id: before.event_id, assessed_on: before.assessed_on, kind: before.kind, panel_class: before.panel_class, note: before.note }));
+      insertChange.run(
+        importId,
+        'assessments',
+        before.id,
+        JSON.stringify({
+          athlete_id: before.athlete_id,
+          event_id: before.event_id,
+          assessed_on: before.assessed_on,
+          kind: before.kind,
+          panel_class: before.panel_class,
+          note: before.note,
+        }),
+      );
       updateAssessment.run(
         plan.athleteIds.get(a.athleteCode[i])!,
         plan.eventIds.get(a.eventCode[i])!,
@@ -68,13 +90,25 @@ export function applyPlan(sqlite: BetterSqlite3.Database, federationId: number, 
       );
     }
   }
-  const assessmentHead = 'insert into assessments (id, federation_id, external_id, athlete_id, event_id, assessed_on, kind, panel_class, note, import_id)';
+  const assessmentHead =
+    'insert into assessments (id, federation_id, external_id, athlete_id, event_id, assessed_on, kind, panel_class, note, import_id)';
   const manyAssessments = multiInsert(sqlite, assessmentHead, 10, ASSESSMENT_ROWS);
   const oneAssessment = multiInsert(sqlite, assessmentHead, 10, 1);
   const params: unknown[] = [];
   const pushAssessment = (i: number) => {
     const kind = a.kind[i];
-    params.push(dbId[i], federationId, a.externalId[i], plan.athleteIds.get(a.athleteCode[i]), plan.eventIds.get(a.eventCode[i]), a.assessedOn[i], kind === -1 ? 'first' : KIND_CODES[kind], a.panelClass[i], a.note[i], importId);
+    params.push(
+      dbId[i],
+      federationId,
+      a.externalId[i],
+      plan.athleteIds.get(a.athleteCode[i]),
+      plan.eventIds.get(a.eventCode[i]),
+      a.assessedOn[i],
+      kind === -1 ? 'first' : KIND_CODES[kind],
+      a.panelClass[i],
+      a.note[i],
+      importId,
+    );
   };
   let k = 0;
   for (; k + ASSESSMENT_ROWS <= fresh.length; k += ASSESSMENT_ROWS) {
@@ -135,12 +169,16 @@ export class RevertRefused extends Error {}
  * what it added. Call inside a transaction.
  */
 export function revertRows(sqlite: BetterSqlite3.Database, importId: number): void {
-  const changes = sqlite.prepare('select table_name, row_id, before from import_changes where import_id = ? order by id desc').all(importId) as {
+  const changes = sqlite
+    .prepare('select table_name, row_id, before from import_changes where import_id = ? order by id desc')
+    .all(importId) as {
     table_name: 'assessments' | 'ratings';
     row_id: number;
     before: string;
   }[];
-  const restoreAssessment = sqlite.prepare('update assessments set athlete_id = @athlete_id, event_id = @event_id, assessed_on = @assessed_on, kind = @kind, panel_class = @panel_class, note = @note where id = @id');
+  const restoreAssessment = sqlite.prepare(
+    'update assessments set athlete_id = @athlete_id, event_id = @event_id, assessed_on = @assessed_on, kind = @kind, panel_class = @panel_class, note = @note where id = @id',
+  );
   const restoreRating = sqlite.prepare('update ratings set sport_class = @sport_class where id = @id');
   for (const change of changes) {
     const before = JSON.parse(change.before) as Record<string, unknown>;

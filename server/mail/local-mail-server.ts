@@ -46,7 +46,10 @@ export async function startLocalMailServer(db: Db): Promise<LocalMailServer> {
             raw,
           })
           .execute()
-          .then(() => callback(), (error: Error) => callback(error));
+          .then(
+            () => callback(),
+            (error: Error) => callback(error),
+          );
       });
     },
   });
@@ -57,7 +60,7 @@ export async function startLocalMailServer(db: Db): Promise<LocalMailServer> {
       resolve();
     });
   });
-  const { port } = (server.server.address() as AddressInfo);
+  const { port } = server.server.address() as AddressInfo;
   return {
     port,
     close: () => new Promise<void>((resolve) => server.close(() => resolve())),

@@ -50,7 +50,9 @@ export async function startMailer(options: { config: Config; db: Db; logger: Log
     if (config.env !== 'test') logger.info(`local mail server on ${url}: messages are kept in the Outbox, not delivered`);
   }
   const local = closeServer !== null;
-  const transport = nodemailer.createTransport(local ? { host: '127.0.0.1', port: Number(new URL(url).port), secure: false, ignoreTLS: true } : url);
+  const transport = nodemailer.createTransport(
+    local ? { host: '127.0.0.1', port: Number(new URL(url).port), secure: false, ignoreTLS: true } : url,
+  );
   return {
     local,
     async send(message) {

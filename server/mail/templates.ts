@@ -1,6 +1,7 @@
 /** Plain, accessible e-mails: a text part and a simple HTML part with the same words. */
 
-const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] ?? c);
+const escapeHtml = (s: string) =>
+  s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c] ?? c);
 
 export interface LinkMail {
   greeting: string;
@@ -11,7 +12,16 @@ export interface LinkMail {
 }
 
 export function linkMail(mail: LinkMail): { text: string; html: string } {
-  const text = [mail.greeting, '', ...mail.paragraphs.flatMap((p) => [p, '']), `${mail.action}: ${mail.link}`, '', mail.footer, '', '— Panelwise'].join('\n');
+  const text = [
+    mail.greeting,
+    '',
+    ...mail.paragraphs.flatMap((p) => [p, '']),
+    `${mail.action}: ${mail.link}`,
+    '',
+    mail.footer,
+    '',
+    '— Panelwise',
+  ].join('\n');
   const html = [
     '<!doctype html><html><body style="font-family:system-ui,sans-serif;color:#1d2a33;line-height:1.5">',
     `<p>${escapeHtml(mail.greeting)}</p>`,

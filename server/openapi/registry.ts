@@ -131,7 +131,10 @@ export function buildOpenApiDocument(routes: RouteDoc[], info: OpenApiInfo): Rec
     const responses: Record<string, unknown> = {};
     for (const [status, response] of Object.entries(route.responses)) {
       responses[status] = response.schema
-        ? { description: response.description, content: { [response.contentType ?? 'application/json']: { schema: jsonSchema(response.schema, 'output') } } }
+        ? {
+            description: response.description,
+            content: { [response.contentType ?? 'application/json']: { schema: jsonSchema(response.schema, 'output') } },
+          }
         : { description: response.description };
     }
     if (route.security !== 'none') {
@@ -146,11 +149,17 @@ export function buildOpenApiDocument(routes: RouteDoc[], info: OpenApiInfo): Rec
     }
     const operation: Record<string, unknown> = {
       summary: route.summary,
-      operationId: `${route.method}${openApiPath(route.path).replace(/[{}]/g, '').replace(/[^A-Za-z0-9]+(.)?/g, (_m, c: string | undefined) => (c ? c.toUpperCase() : ''))}`,
+      operationId: `${route.method}${openApiPath(route.path)
+        .replace(/[{}]/g, '')
+        .replace(/[^A-Za-z0-9]+(.)?/g, (_m, c: string | undefined) => (c ? c.toUpperCase() : ''))}`,
       tags: route.tags,
       parameters: parameters.length ? parameters : undefined,
       requestBody: route.body
-        ? { required: true, description: route.body.description, content: { [route.body.contentType ?? 'application/json']: { schema: jsonSchema(route.body.schema, 'input') } } }
+        ? {
+            required: true,
+            description: route.body.description,
+            content: { [route.body.contentType ?? 'application/json']: { schema: jsonSchema(route.body.schema, 'input') } },
+          }
         : undefined,
       responses,
       security,

@@ -51,9 +51,12 @@ export function inspectDatabase(file: string): DatabaseSummary {
     } catch (error) {
       throw new OpsError(`${file} is not a sound SQLite database: ${(error as Error).message}`);
     }
-    if (problems.length !== 1 || problems[0] !== 'ok') throw new OpsError(`${file} fails integrity_check: ${problems.slice(0, 5).join('; ')}`);
+    if (problems.length !== 1 || problems[0] !== 'ok')
+      throw new OpsError(`${file} fails integrity_check: ${problems.slice(0, 5).join('; ')}`);
     const migrated = db.prepare("select 1 from sqlite_master where type = 'table' and name = 'kysely_migration'").get();
-    const migration = migrated ? ((db.prepare('select name from kysely_migration order by name desc limit 1').pluck().get() as string | undefined) ?? null) : null;
+    const migration = migrated
+      ? ((db.prepare('select name from kysely_migration order by name desc limit 1').pluck().get() as string | undefined) ?? null)
+      : null;
     return {
       bytes: fs.statSync(file).size,
       integrity: 'ok',
@@ -133,7 +136,9 @@ export function restoreDatabase(databasePath: string, file: string, knownMigrati
   const summary = inspectDatabase(source);
   if (summary.migration === null) throw new OpsError(`${file} is not a Panelwise database (it has no migrations table)`);
   if (!knownMigrations.includes(summary.migration)) {
-    throw new OpsError(`${file} was written by a newer Panelwise (migration ${summary.migration} is unknown here): upgrade first, then restore`);
+    throw new OpsError(
+      `${file} was written by a newer Panelwise (migration ${summary.migration} is unknown here): upgrade first, then restore`,
+    );
   }
   fs.mkdirSync(path.dirname(target), { recursive: true });
   const incoming = `${target}.restoring-${process.pid}`;

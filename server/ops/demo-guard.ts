@@ -35,7 +35,11 @@ export async function demoAccountsWithPassword(db: Db): Promise<number> {
 }
 
 export async function siteOwnerCount(db: Db): Promise<number> {
-  const row = await db.selectFrom('users').select((eb) => eb.fn.countAll<number>().as('n')).where('is_owner', '=', 1).executeTakeFirstOrThrow();
+  const row = await db
+    .selectFrom('users')
+    .select((eb) => eb.fn.countAll<number>().as('n'))
+    .where('is_owner', '=', 1)
+    .executeTakeFirstOrThrow();
   return Number(row.n);
 }
 

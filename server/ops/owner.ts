@@ -10,10 +10,15 @@ import { audit } from '../services/audit';
 import { DEMO_EMAIL_DOMAIN } from './demo-guard';
 import { OpsError } from './backup';
 
-export async function createOwner(db: Db, input: { email: string; displayName?: string; password: string }, env: string): Promise<{ id: number; email: string }> {
+export async function createOwner(
+  db: Db,
+  input: { email: string; displayName?: string; password: string },
+  env: string,
+): Promise<{ id: number; email: string }> {
   const email = emailSchema.safeParse(input.email);
   if (!email.success) throw new OpsError(`"${input.email}" is not an e-mail address`);
-  if (env === 'production' && email.data.endsWith(DEMO_EMAIL_DOMAIN)) throw new OpsError(`${DEMO_EMAIL_DOMAIN} is the demo's domain: use a real address in production`);
+  if (env === 'production' && email.data.endsWith(DEMO_EMAIL_DOMAIN))
+    throw new OpsError(`${DEMO_EMAIL_DOMAIN} is the demo's domain: use a real address in production`);
   const name = displayNameSchema.safeParse(input.displayName ?? email.data.split('@')[0]);
   if (!name.success) throw new OpsError(`the name is not valid: ${name.error.issues[0]?.message ?? ''}`);
   const length = newPasswordSchema.safeParse(input.password);
@@ -41,7 +46,12 @@ export async function createOwner(db: Db, input: { email: string; displayName?: 
 /** Removes the demo accounts' passwords and signs them out everywhere; the invented data stays. */
 export async function disableDemoAccounts(db: Db): Promise<number> {
   return db.transaction().execute(async (trx) => {
-    const users = await trx.selectFrom('users').select('id').where('email', 'like', `%${DEMO_EMAIL_DOMAIN}`).where('password_hash', 'is not', null).execute();
+    const users = await trx
+      .selectFrom('users')
+      .select('id')
+      .where('email', 'like', `%${DEMO_EMAIL_DOMAIN}`)
+      .where('password_hash', 'is not', null)
+      .execute();
     if (users.length === 0) return 0;
     const ids = users.map((u) => u.id);
     await trx
@@ -49,7 +59,12 @@ export async function disableDemoAccounts(db: Db): Promise<number> {
       .set((eb) => ({ password_hash: null, session_version: eb('session_version', '+', 1) }))
       .where('id', 'in', ids)
       .execute();
-    await trx.updateTable('sessions').set({ revoked_at: new Date().toISOString() }).where('user_id', 'in', ids).where('revoked_at', 'is', null).execute();
+    await trx
+      .updateTable('sessions')
+      .set({ revoked_at: new Date().toISOString() })
+      .where('user_id', 'in', ids)
+      .where('revoked_at', 'is', null)
+      .execute();
     await audit(trx, { userId: null, action: 'demo.disable', entity: 'user', entityId: null, detail: { accounts: ids.length } });
     return ids.length;
   });

@@ -57,7 +57,12 @@ export function acquireServerLock(databasePath: string): { release(): void; repl
   if (databasePath === ':memory:') return { release() {}, replaced: null };
   const file = lockFileOf(databasePath);
   const replaced = serverHolding(databasePath);
-  const lock: ServerLock = { pid: process.pid, host: os.hostname(), startedAt: new Date().toISOString(), databasePath: path.resolve(databasePath) };
+  const lock: ServerLock = {
+    pid: process.pid,
+    host: os.hostname(),
+    startedAt: new Date().toISOString(),
+    databasePath: path.resolve(databasePath),
+  };
   fs.writeFileSync(file, `${JSON.stringify(lock)}\n`, { mode: 0o644 });
   return {
     replaced,

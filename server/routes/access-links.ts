@@ -16,7 +16,8 @@ const noTokens: RequestHandler = (req, _res, next) => {
 };
 
 function tokenParam(value: unknown): string {
-  if (typeof value !== 'string' || value.length < 20 || value.length > 200) throw new HttpError(410, 'gone', 'This link has expired or was already used. Ask for a new one.');
+  if (typeof value !== 'string' || value.length < 20 || value.length > 200)
+    throw new HttpError(410, 'gone', 'This link has expired or was already used. Ask for a new one.');
   return value;
 }
 
@@ -47,7 +48,9 @@ export function accessLinksRouter(ctx: AppContext): Router {
     const { email } = parseWith(resetRequestSchema, req.body);
     // The work happens after the answer: the same answer, in the same time, for any address.
     res.status(202).json({ message: 'If the address has an account, a link to choose a new password is on its way.' });
-    await requestPasswordReset(ctx, email).catch((error: unknown) => ctx.logger.error({ err: error }, 'the password reset could not be started'));
+    await requestPasswordReset(ctx, email).catch((error: unknown) =>
+      ctx.logger.error({ err: error }, 'the password reset could not be started'),
+    );
   });
 
   router.get('/password-resets/:token', noTokens, ...links, async (req, res) => {

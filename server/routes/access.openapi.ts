@@ -64,7 +64,11 @@ export const accessRouteDocs: RouteDoc[] = [
     tags: ['Access'],
     security: 'none',
     body: { schema: resetRequestSchema },
-    responses: { 202: { description: 'If the address has an account, a link is on its way', schema: resetRequestedSchema }, ...invalid, ...limited },
+    responses: {
+      202: { description: 'If the address has an account, a link is on its way', schema: resetRequestedSchema },
+      ...invalid,
+      ...limited,
+    },
   },
   {
     method: 'get',
@@ -101,7 +105,12 @@ export const accessRouteDocs: RouteDoc[] = [
     security: lead,
     params: { userId: 'The member’s user id' },
     body: { schema: memberUpdateSchema },
-    responses: { 200: { description: 'The member', schema: memberViewSchema }, ...invalid, 404: error('No such member'), 409: error('The change would leave no lead') },
+    responses: {
+      200: { description: 'The member', schema: memberViewSchema },
+      ...invalid,
+      404: error('No such member'),
+      409: error('The change would leave no lead'),
+    },
   },
   {
     method: 'post',
@@ -110,7 +119,11 @@ export const accessRouteDocs: RouteDoc[] = [
     tags: ['Members'],
     security: lead,
     body: { schema: inviteSchema },
-    responses: { 201: { description: 'The invitation, and whether its e-mail was sent', schema: invitationCreatedSchema }, ...invalid, 409: error('Already a member') },
+    responses: {
+      201: { description: 'The invitation, and whether its e-mail was sent', schema: invitationCreatedSchema },
+      ...invalid,
+      409: error('Already a member'),
+    },
   },
   {
     method: 'delete',
@@ -170,17 +183,27 @@ export const accessRouteDocs: RouteDoc[] = [
     tags: ['Site owner'],
     security: owner,
     body: { schema: federationCreateSchema },
-    responses: { 201: { description: 'The federation and the invitation', schema: federationCreatedSchema }, ...invalid, 409: error('The address is taken') },
+    responses: {
+      201: { description: 'The federation and the invitation', schema: federationCreatedSchema },
+      ...invalid,
+      409: error('The address is taken'),
+    },
   },
   {
     method: 'post',
     path: '/api/owner/federations/:slug/leads',
-    summary: 'Invite a lead to an existing federation, e.g. one left without a lead (site owner); replaces a pending invitation of the same address',
+    summary:
+      'Invite a lead to an existing federation, e.g. one left without a lead (site owner); replaces a pending invitation of the same address',
     tags: ['Site owner'],
     security: owner,
     params: { slug: 'The federation’s slug' },
     body: { schema: leadInviteSchema },
-    responses: { 201: { description: 'The invitation, and whether its e-mail was sent', schema: invitationCreatedSchema }, ...invalid, 404: error('No such federation'), 409: error('Already a member') },
+    responses: {
+      201: { description: 'The invitation, and whether its e-mail was sent', schema: invitationCreatedSchema },
+      ...invalid,
+      404: error('No such federation'),
+      409: error('Already a member'),
+    },
   },
   {
     method: 'get',

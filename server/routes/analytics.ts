@@ -7,7 +7,16 @@ import { forbidden, HttpError } from '../http/errors';
 import { parseWith } from '../http/validate';
 import { filterKey, MIN_ATHLETES_FOR_AGGREGATES, type ViewFilters } from '../services/analytics-data';
 import { classifierDetail, classifierRows, myAgreement } from '../services/analytics';
-import { ensureEvaluated, evaluateFlagsOnDataChange, flagsOf, lastEvaluation, runEvaluation, saveThresholds, thresholdsOf, updateFlag } from '../services/calibration-flags';
+import {
+  ensureEvaluated,
+  evaluateFlagsOnDataChange,
+  flagsOf,
+  lastEvaluation,
+  runEvaluation,
+  saveThresholds,
+  thresholdsOf,
+  updateFlag,
+} from '../services/calibration-flags';
 import { federationK, isResearchView } from '../services/research-cells';
 import type { TaskName, TaskPayload, TaskResult } from '../workers/tasks';
 
@@ -51,7 +60,10 @@ function researchFiltersOf(ctx: AppContext, access: FederationAccess, filters: A
       `Researchers filter by whole seasons and quarters, assessment kind and category; ${finer.join(', ')} cannot be used`,
       finer.map((path) => ({
         path,
-        message: path === 'event' ? 'is not a filter for researchers: events are not shown to them' : 'is not a filter for researchers: choose a season or a quarter',
+        message:
+          path === 'event'
+            ? 'is not a filter for researchers: events are not shown to them'
+            : 'is not a filter for researchers: choose a season or a quarter',
       })),
     );
   }
@@ -70,7 +82,11 @@ async function aggregateFiltersOf(ctx: AppContext, req: Request): Promise<ViewFi
   const view = isResearchView(access) ? researchFiltersOf(ctx, access, filters) : filters;
   const athletes = await athletesOf(ctx, access, view);
   if (athletes > 0 && athletes < MIN_ATHLETES_FOR_AGGREGATES) {
-    throw new HttpError(422, 'validation_failed', `These filters leave ${athletes} athletes; figures are shown for groups of at least ${MIN_ATHLETES_FOR_AGGREGATES}. Widen the filters.`);
+    throw new HttpError(
+      422,
+      'validation_failed',
+      `These filters leave ${athletes} athletes; figures are shown for groups of at least ${MIN_ATHLETES_FOR_AGGREGATES}. Widen the filters.`,
+    );
   }
   return view;
 }
@@ -80,7 +96,13 @@ function federationOf(access: FederationAccess) {
 }
 
 /** A view's figures from the pool, shared by every caller asking for the same key at the same data version. */
-function figures<N extends TaskName>(ctx: AppContext, access: FederationAccess, name: N, payload: TaskPayload<N>, key: string): Promise<TaskResult<N>> {
+function figures<N extends TaskName>(
+  ctx: AppContext,
+  access: FederationAccess,
+  name: N,
+  payload: TaskPayload<N>,
+  key: string,
+): Promise<TaskResult<N>> {
   return ctx.pool.run(name, payload, { federationId: access.federation.id, key });
 }
 
@@ -110,7 +132,8 @@ async function myAgreementOf(ctx: AppContext, access: FederationAccess, filters:
 }
 
 async function ownCode(ctx: AppContext, access: FederationAccess): Promise<string> {
-  if (access.role !== 'classifier' || access.classifierId === null) throw forbidden('Your account is not linked to a classifier of this federation');
+  if (access.role !== 'classifier' || access.classifierId === null)
+    throw forbidden('Your account is not linked to a classifier of this federation');
   const row = await ctx.db.selectFrom('classifiers').select('code').where('id', '=', access.classifierId).executeTakeFirst();
   if (!row) throw forbidden('Your account is not linked to a classifier of this federation');
   return row.code;
@@ -178,13 +201,25 @@ export function analyticsRouter(ctx: AppContext): Router {
     const mineFigures = await myAgreementOf(ctx, access, filters, mine);
     // The federation's spread is an aggregate: not shown for groups that are too small.
     const athletes = await athletesOf(ctx, access, filters);
-    res.json(athletes < MIN_ATHLETES_FOR_AGGREGATES ? { ...mineFigures, distribution: { quadraticKappa: [], bias: [], exactWithPanel: [] } } : mineFigures);
+    res.json(
+      athletes < MIN_ATHLETES_FOR_AGGREGATES
+        ? { ...mineFigures, distribution: { quadraticKappa: [], bias: [], exactWithPanel: [] } }
+        : mineFigures,
+    );
   });
 
   router.get(`${base}/pairs`, leadOnly, async (req, res) => {
     const access = accessOf(req);
     const filters = filtersOf(req);
-    res.json(await figures(ctx, access, 'analytics.pairs', { federation: federationOf(access), filters }, `${filterKey(filters)}|${filters.minShared ?? ''}`));
+    res.json(
+      await figures(
+        ctx,
+        access,
+        'analytics.pairs',
+        { federation: federationOf(access), filters },
+        `${filterKey(filters)}|${filters.minShared ?? ''}`,
+      ),
+    );
   });
 
   router.get(`${base}/pairs/:a/:b`, leadOnly, async (req, res) => {
@@ -192,7 +227,15 @@ export function analyticsRouter(ctx: AppContext): Router {
     const a = parseWith(code, req.params.a, 'classifier code');
     const b = parseWith(code, req.params.b, 'classifier code');
     const filters = filtersOf(req);
-    res.json(await figures(ctx, access, 'analytics.pair', { federation: federationOf(access), filters, a, b }, `${a}|${b}|${filterKey(filters)}|${filters.minShared ?? ''}`));
+    res.json(
+      await figures(
+        ctx,
+        access,
+        'analytics.pair',
+        { federation: federationOf(access), filters, a, b },
+        `${a}|${b}|${filterKey(filters)}|${filters.minShared ?? ''}`,
+      ),
+    );
   });
 
   router.get(`${base}/boundaries`, everyone, async (req, res) => {
@@ -206,7 +249,13 @@ export function analyticsRouter(ctx: AppContext): Router {
     const filters = filtersOf(req);
     const thresholds = await thresholdsOf(ctx, access.federation.id);
     res.json(
-      await figures(ctx, access, 'analytics.rater-drift', { federation: federationOf(access), filters, thresholds }, `${JSON.stringify(thresholds)}|${filterKey(filters)}`),
+      await figures(
+        ctx,
+        access,
+        'analytics.rater-drift',
+        { federation: federationOf(access), filters, thresholds },
+        `${JSON.stringify(thresholds)}|${filterKey(filters)}`,
+      ),
     );
   });
 
@@ -214,26 +263,40 @@ export function analyticsRouter(ctx: AppContext): Router {
     const access = accessOf(req);
     const filters = await aggregateFiltersOf(ctx, req);
     const withChanges = access.role === 'lead';
-    res.json(await figures(ctx, access, 'analytics.class-drift', { federation: federationOf(access), filters, withChanges }, `${withChanges}|${filterKey(filters)}`));
+    res.json(
+      await figures(
+        ctx,
+        access,
+        'analytics.class-drift',
+        { federation: federationOf(access), filters, withChanges },
+        `${withChanges}|${filterKey(filters)}`,
+      ),
+    );
   });
 
   router.get(`${base}/flags`, leadOnly, async (req, res) => {
     const access = accessOf(req);
     await ensureEvaluated(ctx, access.federation.id);
-    res.json({ flags: await flagsOf(ctx, access.federation.id, { activeOnly: false }), evaluatedAt: await lastEvaluation(ctx, access.federation.id) });
+    res.json({
+      flags: await flagsOf(ctx, access.federation.id, { activeOnly: false }),
+      evaluatedAt: await lastEvaluation(ctx, access.federation.id),
+    });
   });
 
   router.post(`${base}/flags/evaluate`, leadOnly, async (req, res) => {
     const access = accessOf(req);
     const result = await runEvaluation(ctx, access.federation.id, 'an evaluation on demand');
     // An evaluation already running answered for this one: report the flags as they now stand.
-    res.json(result ?? { opened: 0, updated: 0, evaluatedAt: (await lastEvaluation(ctx, access.federation.id)) ?? new Date().toISOString() });
+    res.json(
+      result ?? { opened: 0, updated: 0, evaluatedAt: (await lastEvaluation(ctx, access.federation.id)) ?? new Date().toISOString() },
+    );
   });
 
   router.patch(`${base}/flags/:id`, leadOnly, async (req, res) => {
     const access = accessOf(req);
     const id = Number(req.params.id);
-    if (!Number.isInteger(id) || id <= 0) throw new HttpError(400, 'validation_failed', `The flag id "${String(req.params.id)}" is not a number`);
+    if (!Number.isInteger(id) || id <= 0)
+      throw new HttpError(400, 'validation_failed', `The flag id "${String(req.params.id)}" is not a number`);
     const update = parseWith(flagUpdateSchema, req.body);
     res.json(await updateFlag(ctx, access.federation.id, id, access.userId, update));
   });

@@ -31,7 +31,12 @@ const base = '/federations/:federation/exercises';
 function idOf(req: Request, name: 'id' | 'caseId' | 'flagId'): number {
   const raw = req.params[name];
   const parsed = z.coerce.number().int().positive().safeParse(raw);
-  if (!parsed.success) throw new HttpError(400, 'validation_failed', `The ${name === 'id' ? 'exercise' : name === 'caseId' ? 'case' : 'flag'} id "${String(raw)}" is not a number`);
+  if (!parsed.success)
+    throw new HttpError(
+      400,
+      'validation_failed',
+      `The ${name === 'id' ? 'exercise' : name === 'caseId' ? 'case' : 'flag'} id "${String(raw)}" is not a number`,
+    );
   return parsed.data;
 }
 

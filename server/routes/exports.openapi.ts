@@ -90,7 +90,8 @@ export const exportsRouteDocs: RouteDoc[] = [
   {
     method: 'get',
     path: `${base}/:exportId/:file`,
-    summary: 'Download one file of an export: csv, json or dictionary, streamed (gzip to a client that accepts it; its maker; for seven days)',
+    summary:
+      'Download one file of an export: csv, json or dictionary, streamed (gzip to a client that accepts it; its maker; for seven days)',
     tags,
     security: session,
     params: { exportId: 'The export’s id', file: 'csv, json or dictionary' },

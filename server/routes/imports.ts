@@ -39,9 +39,17 @@ const receiveFile: RequestHandler = (req, res, next) => {
         if (!error) return next();
         if (error instanceof multer.MulterError) {
           if (error.code === 'LIMIT_FILE_SIZE') {
-            return next(new HttpError(413, 'payload_too_large', 'The file is larger than 50 MB: split it into smaller files, or send the assessments through the batch API'));
+            return next(
+              new HttpError(
+                413,
+                'payload_too_large',
+                'The file is larger than 50 MB: split it into smaller files, or send the assessments through the batch API',
+              ),
+            );
           }
-          return next(new HttpError(400, 'bad_request', `The upload is not valid: ${error.message}${error.field ? ` (field ${error.field})` : ''}`));
+          return next(
+            new HttpError(400, 'bad_request', `The upload is not valid: ${error.message}${error.field ? ` (field ${error.field})` : ''}`),
+          );
         }
         next(error);
       }),
@@ -78,12 +86,23 @@ function uploadOptions(body: unknown) {
   }
   return parseWith(
     uploadOptionsSchema,
-    { mapping, dateFormat: fields.dateFormat || undefined, addClassifiers: fields.addClassifiers === undefined ? undefined : truthy(fields.addClassifiers) },
+    {
+      mapping,
+      dateFormat: fields.dateFormat || undefined,
+      addClassifiers: fields.addClassifiers === undefined ? undefined : truthy(fields.addClassifiers),
+    },
     'upload',
   );
 }
 
-function mappingView(row: { id: number; name: string; layout: 'long' | 'wide'; mapping: string; date_format: string; updated_at: string }): SavedMapping {
+function mappingView(row: {
+  id: number;
+  name: string;
+  layout: 'long' | 'wide';
+  mapping: string;
+  date_format: string;
+  updated_at: string;
+}): SavedMapping {
   return {
     id: row.id,
     name: row.name,
@@ -126,7 +145,11 @@ export function importsRouter(ctx: AppContext): Router {
     try {
       const name = Buffer.from(file.originalname, 'latin1').toString('utf8').slice(0, 200) || null;
       // Reading, checking and comparing the file is heavy: it runs in the worker pool.
-      const result = await ctx.pool.run('imports.dry-run', { federation, userId, file: { bytes, name }, options }, { federationId: federation.id, onProgress: progress.report });
+      const result = await ctx.pool.run(
+        'imports.dry-run',
+        { federation, userId, file: { bytes, name }, options },
+        { federationId: federation.id, onProgress: progress.report },
+      );
       progress.finish('done');
       res.json(result);
     } catch (error) {
@@ -164,7 +187,11 @@ export function importsRouter(ctx: AppContext): Router {
     const progress = progressReporter(federation.id, userId, jobOf(req.query));
     try {
       const importId = idOf(req.params.importId, 'The import');
-      const view = await ctx.pool.run('imports.revert', { federation, userId, importId }, { federationId: federation.id, onProgress: progress.report });
+      const view = await ctx.pool.run(
+        'imports.revert',
+        { federation, userId, importId },
+        { federationId: federation.id, onProgress: progress.report },
+      );
       progress.finish('done');
       res.json(view);
     } catch (error) {
@@ -198,10 +225,15 @@ export function importsRouter(ctx: AppContext): Router {
     const { federation, userId } = accessOf(req);
     const input = parseWith(saveMappingSchema, req.body);
     const layout = Object.values(input.mapping).some((t) => t.startsWith('classifier:') || t.startsWith('seat')) ? 'wide' : 'long';
-    const existing = ctx.sqlite.prepare('select id from import_mappings where federation_id = ? and name = ?').pluck().get(federation.id, input.name) as number | undefined;
+    const existing = ctx.sqlite
+      .prepare('select id from import_mappings where federation_id = ? and name = ?')
+      .pluck()
+      .get(federation.id, input.name) as number | undefined;
     if (existing !== undefined) {
       ctx.sqlite
-        .prepare("update import_mappings set layout = ?, mapping = ?, date_format = ?, user_id = ?, updated_at = strftime('%Y-%m-%dT%H:%M:%fZ','now') where id = ?")
+        .prepare(
+          "update import_mappings set layout = ?, mapping = ?, date_format = ?, user_id = ?, updated_at = strftime('%Y-%m-%dT%H:%M:%fZ','now') where id = ?",
+        )
         .run(layout, JSON.stringify(input.mapping), input.dateFormat, userId, existing);
     } else {
       ctx.sqlite
@@ -211,7 +243,14 @@ export function importsRouter(ctx: AppContext): Router {
     const row = ctx.sqlite
       .prepare('select id, name, layout, mapping, date_format, updated_at from import_mappings where federation_id = ? and name = ?')
       .get(federation.id, input.name) as Parameters<typeof mappingView>[0];
-    await audit(ctx.db, { federationId: federation.id, userId, action: existing === undefined ? 'import_mapping.create' : 'import_mapping.update', entity: 'import_mapping', entityId: row.id, detail: { name: input.name } });
+    await audit(ctx.db, {
+      federationId: federation.id,
+      userId,
+      action: existing === undefined ? 'import_mapping.create' : 'import_mapping.update',
+      entity: 'import_mapping',
+      entityId: row.id,
+      detail: { name: input.name },
+    });
     res.status(existing === undefined ? 201 : 200).json(mappingView(row));
   });
 
@@ -221,7 +260,13 @@ export function importsRouter(ctx: AppContext): Router {
     if (!id.success) throw notFound('The saved mapping');
     const result = ctx.sqlite.prepare('delete from import_mappings where id = ? and federation_id = ?').run(id.data, federation.id);
     if (result.changes === 0) throw notFound('The saved mapping');
-    await audit(ctx.db, { federationId: federation.id, userId, action: 'import_mapping.delete', entity: 'import_mapping', entityId: id.data });
+    await audit(ctx.db, {
+      federationId: federation.id,
+      userId,
+      action: 'import_mapping.delete',
+      entity: 'import_mapping',
+      entityId: id.data,
+    });
     res.status(204).end();
   });
 
@@ -229,14 +274,22 @@ export function importsRouter(ctx: AppContext): Router {
     const { federation, userId } = accessOf(req);
     const query = parseWith(batchQuerySchema, req.query, 'query');
     try {
-      const result = importBatch(ctx, federation, userId, req.body, { dryRun: truthy(query.dryRun), addClassifiers: truthy(query.addClassifiers) });
+      const result = importBatch(ctx, federation, userId, req.body, {
+        dryRun: truthy(query.dryRun),
+        addClassifiers: truthy(query.addClassifiers),
+      });
       res.status(result.status).json(result.body);
     } catch (error) {
       if (error instanceof BatchRefused) {
-        throw new HttpError(422, 'validation_failed', `The batch was refused and nothing was written: ${error.issues.errorCount} problem(s)`, {
-          errorCount: error.issues.errorCount,
-          errors: error.issues.errors.map(toBatchIssue),
-        });
+        throw new HttpError(
+          422,
+          'validation_failed',
+          `The batch was refused and nothing was written: ${error.issues.errorCount} problem(s)`,
+          {
+            errorCount: error.issues.errorCount,
+            errors: error.issues.errors.map(toBatchIssue),
+          },
+        );
       }
       throw error;
     }

@@ -20,7 +20,14 @@ import { ownerRouter } from './owner';
 import { sessionRouter } from './session';
 
 /** Every route's OpenAPI description, one list per feature (`<feature>.openapi.ts`). */
-export const apiRouteDocs: readonly RouteDoc[] = [...foundationRouteDocs, ...accessRouteDocs, ...exportsRouteDocs, ...analyticsRouteDocs, ...importsRouteDocs, ...exercisesRouteDocs];
+export const apiRouteDocs: readonly RouteDoc[] = [
+  ...foundationRouteDocs,
+  ...accessRouteDocs,
+  ...exportsRouteDocs,
+  ...analyticsRouteDocs,
+  ...importsRouteDocs,
+  ...exercisesRouteDocs,
+];
 
 /**
  * Every API router, mounted under /api. Add a feature's router here and its descriptions to

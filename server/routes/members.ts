@@ -22,7 +22,14 @@ export function outboxEnabled(ctx: AppContext): boolean {
 }
 
 export function outboxView(row: { id: number; mail_to: string; subject: string; text_body: string; received_at: string }): OutboxMessage {
-  return { id: row.id, to: row.mail_to, subject: row.subject, text: row.text_body, links: linksIn(row.text_body), receivedAt: row.received_at };
+  return {
+    id: row.id,
+    to: row.mail_to,
+    subject: row.subject,
+    text: row.text_body,
+    links: linksIn(row.text_body),
+    receivedAt: row.received_at,
+  };
 }
 
 /**

@@ -26,7 +26,12 @@ async function ownerFederations(ctx: AppContext): Promise<OwnerFederation[]> {
       'federations.slug',
       'federations.name',
       'federations.created_at',
-      eb.selectFrom('memberships').select(sql<number>`count(*)`.as('n')).whereRef('memberships.federation_id', '=', 'federations.id').where('memberships.active', '=', 1).as('members'),
+      eb
+        .selectFrom('memberships')
+        .select(sql<number>`count(*)`.as('n'))
+        .whereRef('memberships.federation_id', '=', 'federations.id')
+        .where('memberships.active', '=', 1)
+        .as('members'),
       eb
         .selectFrom('memberships')
         .select(sql<number>`count(*)`.as('n'))
@@ -71,25 +76,58 @@ export function ownerRouter(ctx: AppContext): Router {
     const auth = requireSession(req);
     const input = parseWith(federationCreateSchema, req.body);
     const taken = await ctx.db.selectFrom('federations').select('id').where('slug', '=', input.slug).executeTakeFirst();
-    if (taken) throw new HttpError(409, 'conflict', `The address ${input.slug} is taken by another federation`, [{ path: 'slug', message: 'Already in use' }]);
-    const federation = await ctx.db.insertInto('federations').values({ slug: input.slug, name: input.name }).returning(['id', 'slug', 'name']).executeTakeFirstOrThrow();
-    await audit(ctx.db, { federationId: federation.id, userId: auth.user.id, action: 'federation.create', entity: 'federation', entityId: federation.id, detail: { slug: federation.slug } });
-    const { invitation, mailSent } = await createInvitation(ctx, federation, { email: input.leadEmail, role: 'lead' }, { id: auth.user.id, displayName: auth.user.displayName });
+    if (taken)
+      throw new HttpError(409, 'conflict', `The address ${input.slug} is taken by another federation`, [
+        { path: 'slug', message: 'Already in use' },
+      ]);
+    const federation = await ctx.db
+      .insertInto('federations')
+      .values({ slug: input.slug, name: input.name })
+      .returning(['id', 'slug', 'name'])
+      .executeTakeFirstOrThrow();
+    await audit(ctx.db, {
+      federationId: federation.id,
+      userId: auth.user.id,
+      action: 'federation.create',
+      entity: 'federation',
+      entityId: federation.id,
+      detail: { slug: federation.slug },
+    });
+    const { invitation, mailSent } = await createInvitation(
+      ctx,
+      federation,
+      { email: input.leadEmail, role: 'lead' },
+      { id: auth.user.id, displayName: auth.user.displayName },
+    );
     res.status(201).json({ federation: { id: federation.id, slug: federation.slug, name: federation.name }, invitation, mailSent });
   });
 
   router.post('/owner/federations/:slug/leads', ownerOnly, async (req, res) => {
     const auth = requireSession(req);
     const { email } = parseWith(leadInviteSchema, req.body);
-    const federation = await ctx.db.selectFrom('federations').select(['id', 'slug', 'name']).where('slug', '=', String(req.params.slug)).executeTakeFirst();
+    const federation = await ctx.db
+      .selectFrom('federations')
+      .select(['id', 'slug', 'name'])
+      .where('slug', '=', String(req.params.slug))
+      .executeTakeFirst();
     if (!federation) throw new HttpError(404, 'not_found', `There is no federation ${String(req.params.slug)}`);
-    const { invitation, mailSent } = await createInvitation(ctx, federation, { email, role: 'lead' }, { id: auth.user.id, displayName: auth.user.displayName });
+    const { invitation, mailSent } = await createInvitation(
+      ctx,
+      federation,
+      { email, role: 'lead' },
+      { id: auth.user.id, displayName: auth.user.displayName },
+    );
     res.status(201).json({ invitation, mailSent });
   });
 
   router.get('/owner/outbox', ownerOnly, async (_req, res) => {
     if (!outboxEnabled(ctx)) throw new HttpError(404, 'not_found', 'The Outbox is only available outside production');
-    const rows = await ctx.db.selectFrom('outbox_messages').select(['id', 'mail_to', 'subject', 'text_body', 'received_at']).orderBy('id', 'desc').limit(200).execute();
+    const rows = await ctx.db
+      .selectFrom('outbox_messages')
+      .select(['id', 'mail_to', 'subject', 'text_body', 'received_at'])
+      .orderBy('id', 'desc')
+      .limit(200)
+      .execute();
     res.json({ messages: rows.map(outboxView) });
   });
 

@@ -11,7 +11,11 @@ import { parseWith } from '../http/validate';
 import { audit } from '../services/audit';
 
 export async function sessionView(ctx: AppContext, userId: number): Promise<SessionView> {
-  const user = await ctx.db.selectFrom('users').select(['id', 'email', 'display_name', 'is_owner']).where('id', '=', userId).executeTakeFirstOrThrow();
+  const user = await ctx.db
+    .selectFrom('users')
+    .select(['id', 'email', 'display_name', 'is_owner'])
+    .where('id', '=', userId)
+    .executeTakeFirstOrThrow();
   const rows = await ctx.db
     .selectFrom('memberships')
     .innerJoin('federations', 'federations.id', 'memberships.federation_id')
@@ -56,7 +60,11 @@ export function sessionRouter(ctx: AppContext): Router {
     const ok = user ? await verifyPassword(password, user.password_hash) : await verifyAgainstDummy(password);
     if (!user || !ok) throw new HttpError(401, 'unauthenticated', 'The e-mail or password is not right');
     if (user.password_hash && needsRehash(user.password_hash)) {
-      await ctx.db.updateTable('users').set({ password_hash: await hashPassword(password) }).where('id', '=', user.id).execute();
+      await ctx.db
+        .updateTable('users')
+        .set({ password_hash: await hashPassword(password) })
+        .where('id', '=', user.id)
+        .execute();
     }
     await startSession(ctx, res, user.id, user.session_version);
     await audit(ctx.db, { userId: user.id, action: 'session.start', entity: 'user', entityId: user.id });

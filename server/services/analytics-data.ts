@@ -129,21 +129,27 @@ export function federationData(ctx: AppContext, federation: { id: number; scaleM
     const set = buildRatingSet(ratingRows, { min: federation.scaleMin, max: federation.scaleMax });
     const categoryOf = new Map(rows.map((r) => [r.athlete_code, r.category]));
     const athleteCategory = set.athleteCodes.map((code) => categoryOf.get(code) ?? 'open');
-    const roster = ctx.sqlite.prepare('select id, code, display_name from classifiers where federation_id = ? order by code').all(federation.id) as {
+    const roster = ctx.sqlite
+      .prepare('select id, code, display_name from classifiers where federation_id = ? order by code')
+      .all(federation.id) as {
       id: number;
       code: string;
       display_name: string;
     }[];
     const events = (
-      ctx.sqlite.prepare('select code, name, starts_on from events where federation_id = ? order by starts_on, code').all(federation.id) as {
+      ctx.sqlite
+        .prepare('select code, name, starts_on from events where federation_id = ? order by starts_on, code')
+        .all(federation.id) as {
         code: string;
         name: string;
         starts_on: string | null;
       }[]
     ).map((e) => ({ code: e.code, name: e.name, startsOn: e.starts_on }));
-    const categories = (ctx.sqlite.prepare('select distinct category from athletes where federation_id = ? order by category').all(federation.id) as { category: string }[]).map(
-      (r) => r.category,
-    );
+    const categories = (
+      ctx.sqlite.prepare('select distinct category from athletes where federation_id = ? order by category').all(federation.id) as {
+        category: string;
+      }[]
+    ).map((r) => r.category);
     return {
       version,
       set,
@@ -213,7 +219,10 @@ export function filteredSet(ctx: AppContext, data: FederationData, federationId:
     const f: AssessmentFilter = {};
     let from = filters.from;
     let to = filters.to;
-    for (const range of [filters.season ? seasonRange(Number(filters.season)) : null, filters.quarter ? quarterRange(filters.quarter) : null]) {
+    for (const range of [
+      filters.season ? seasonRange(Number(filters.season)) : null,
+      filters.quarter ? quarterRange(filters.quarter) : null,
+    ]) {
       if (!range) continue;
       from = from && from > range.from ? from : range.from;
       to = to && to < range.to ? to : range.to;

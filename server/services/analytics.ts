@@ -116,7 +116,11 @@ export function overviewFigures(ctx: AppContext, federation: FederationRef, filt
       for (let i = 0; i < table.rows; i++) if (table.totals[i] >= 2) units += table.weights[i];
       return { quarter: '', n: units, value, ci95: boot?.ci95 ?? null };
     }).map((p) => ({ ...p.result, quarter: p.quarter }));
-    const lk = (r: StatResult & { ciMethod?: string | null }) => ({ ...stat(r), label: landisKochLabel(r.value), ciMethod: r.ci95 ? (r.ciMethod ?? null) : null });
+    const lk = (r: StatResult & { ciMethod?: string | null }) => ({
+      ...stat(r),
+      label: landisKochLabel(r.value),
+      ciMethod: r.ci95 ? (r.ciMethod ?? null) : null,
+    });
     return {
       counts: {
         assessments: report.counts.assessments,
@@ -150,7 +154,11 @@ export function stakeFigures(p: PointsAtStake): PointsAtStakeFigures {
   return { n: p.n, meanAbs: stat(p.meanAbs), offByHalf: stat(p.offByHalf), per100: p.per100 };
 }
 
-const KRIPPENDORFF_WORDS = { reliable: 'α ≥ .800: rely on the data', tentative: '.667 ≤ α < .800: tentative conclusions only', unreliable: 'α < .667: do not rely on the data' };
+const KRIPPENDORFF_WORDS = {
+  reliable: 'α ≥ .800: rely on the data',
+  tentative: '.667 ≤ α < .800: tentative conclusions only',
+  unreliable: 'α < .667: do not rely on the data',
+};
 
 /**
  * Every coefficient the engine computes for the federation, in the order the overview reads
@@ -177,7 +185,18 @@ export function coefficientsTable(report: AgreementReport): Coefficient[] {
       const note = (r as { note?: keyof typeof KRIPPENDORFF_WORDS | null }).note;
       if (note) interpretation = { label: KRIPPENDORFF_WORDS[note], source: kSource };
     }
-    const out: Coefficient = { id, name, family, value: r.value, ci95: r.ci95, n: r.n, ciMethod: r.ci95 ? ciMethod : null, measures, forgives, interpretation };
+    const out: Coefficient = {
+      id,
+      name,
+      family,
+      value: r.value,
+      ci95: r.ci95,
+      n: r.n,
+      ciMethod: r.ci95 ? ciMethod : null,
+      measures,
+      forgives,
+      interpretation,
+    };
     if (r.reason !== undefined) out.reason = r.reason;
     return out;
   };
@@ -190,36 +209,146 @@ export function coefficientsTable(report: AgreementReport): Coefficient[] {
   const a = report.krippendorffAlpha;
   const g = report.gwet;
   const out: Coefficient[] = [
-    row('exact.unanimous', 'Panels unanimous (same class)', 'observed', ...withBoot(ex.unanimous, 'exactUnanimous', 'wilson'),
-      'Share of assessments where every member gave the same class.', null, null),
-    row('exact.pairwiseMean', 'Same class, pairwise (mean over assessments)', 'observed', ex.pairwiseMean, 'wald',
-      'Share of pairs of members giving the same class, averaged over assessments (Fleiss’ P̄).', null, null),
-    row('exact.pooledPairs', 'Same class, pooled pairs', 'observed', ex.pooledPairs, null,
-      'Agreeing pairs of members over all pairs, pooled over assessments (larger panels weigh more).', null, null),
-    row('fleissKappa', 'Fleiss’ kappa (unweighted)', 'chance-corrected', report.fleissKappa, report.fleissKappa.ciMethod,
-      'Same-class agreement beyond what the class shares would give by chance.', null, 'landis-koch'),
-    ...Object.entries(report.fleissKappaByClass).map(([cls, r]) =>
-      row(`fleissKappa.${cls}`, `Fleiss’ kappa, class ${cls}`, 'chance-corrected', r, 'wald-null-se',
-        `How well panels agree on whether an athlete is class ${cls}, beyond chance.`, null, 'landis-koch'),
+    row(
+      'exact.unanimous',
+      'Panels unanimous (same class)',
+      'observed',
+      ...withBoot(ex.unanimous, 'exactUnanimous', 'wilson'),
+      'Share of assessments where every member gave the same class.',
+      null,
+      null,
     ),
-    row('gwet.ac1', 'Gwet’s AC1', 'chance-corrected', g.ac1, g.ac1.ciMethod,
-      'Same-class agreement beyond chance, with a chance term that uneven class shares do not inflate.', null, 'landis-koch'),
-    row('withinHalfClass.unanimous', 'Panels within half a class', 'weighted', ...withBoot(wi.unanimous, 'withinHalfClassUnanimous', 'wilson'),
-      'Share of assessments whose highest and lowest ratings are at most half a class apart.', 'counts a half-class miss as agreement', null),
-    row('withinHalfClass.pairwiseMean', 'Within half a class, pairwise', 'weighted', wi.pairwiseMean, 'wald',
-      'Share of pairs at most half a class apart, averaged over assessments.', 'counts a half-class miss as agreement', null),
-    row('gwet.ac2Linear', 'Gwet’s AC2, linear weights', 'weighted', g.ac2Linear, g.ac2Linear.ciMethod,
-      'AC1 with partial credit falling linearly with the distance between classes.', 'counts a half-class miss as 6/7 of an agreement', 'landis-koch'),
-    row('gwet.ac2Quadratic', 'Gwet’s AC2, quadratic weights', 'weighted', g.ac2Quadratic, g.ac2Quadratic.ciMethod,
-      'AC1 with partial credit falling with the squared distance between classes.', 'counts a half-class miss as near agreement (48/49)', 'landis-koch'),
-    row('alpha.nominal', 'Krippendorff’s alpha, nominal', 'chance-corrected', a.nominal, a.nominal.ciMethod,
-      'Disagreement observed against disagreement expected by chance, any two different classes counting alike.', null, 'krippendorff'),
-    row('alpha.ordinal', 'Krippendorff’s alpha, ordinal', 'weighted', a.ordinal, a.ordinal.ciMethod,
-      'As nominal, but a miss costs by how many ratings lie between the two classes.', 'counts a miss between neighbouring, rarely used classes as small', 'krippendorff'),
-    row('alpha.interval', 'Krippendorff’s alpha, interval', 'weighted', a.interval, a.interval.ciMethod,
-      'As nominal, but a miss costs the squared distance in points.', 'counts a half-class miss as 1/49 of a 1.0-against-4.5 miss', 'krippendorff'),
-    row('alpha.ratio', 'Krippendorff’s alpha, ratio', 'weighted', a.ratio, a.ratio.ciMethod,
-      'As interval, with distances relative to the size of the classes.', 'counts a half-class miss among high classes as smaller still', 'krippendorff'),
+    row(
+      'exact.pairwiseMean',
+      'Same class, pairwise (mean over assessments)',
+      'observed',
+      ex.pairwiseMean,
+      'wald',
+      'Share of pairs of members giving the same class, averaged over assessments (Fleiss’ P̄).',
+      null,
+      null,
+    ),
+    row(
+      'exact.pooledPairs',
+      'Same class, pooled pairs',
+      'observed',
+      ex.pooledPairs,
+      null,
+      'Agreeing pairs of members over all pairs, pooled over assessments (larger panels weigh more).',
+      null,
+      null,
+    ),
+    row(
+      'fleissKappa',
+      'Fleiss’ kappa (unweighted)',
+      'chance-corrected',
+      report.fleissKappa,
+      report.fleissKappa.ciMethod,
+      'Same-class agreement beyond what the class shares would give by chance.',
+      null,
+      'landis-koch',
+    ),
+    ...Object.entries(report.fleissKappaByClass).map(([cls, r]) =>
+      row(
+        `fleissKappa.${cls}`,
+        `Fleiss’ kappa, class ${cls}`,
+        'chance-corrected',
+        r,
+        'wald-null-se',
+        `How well panels agree on whether an athlete is class ${cls}, beyond chance.`,
+        null,
+        'landis-koch',
+      ),
+    ),
+    row(
+      'gwet.ac1',
+      'Gwet’s AC1',
+      'chance-corrected',
+      g.ac1,
+      g.ac1.ciMethod,
+      'Same-class agreement beyond chance, with a chance term that uneven class shares do not inflate.',
+      null,
+      'landis-koch',
+    ),
+    row(
+      'withinHalfClass.unanimous',
+      'Panels within half a class',
+      'weighted',
+      ...withBoot(wi.unanimous, 'withinHalfClassUnanimous', 'wilson'),
+      'Share of assessments whose highest and lowest ratings are at most half a class apart.',
+      'counts a half-class miss as agreement',
+      null,
+    ),
+    row(
+      'withinHalfClass.pairwiseMean',
+      'Within half a class, pairwise',
+      'weighted',
+      wi.pairwiseMean,
+      'wald',
+      'Share of pairs at most half a class apart, averaged over assessments.',
+      'counts a half-class miss as agreement',
+      null,
+    ),
+    row(
+      'gwet.ac2Linear',
+      'Gwet’s AC2, linear weights',
+      'weighted',
+      g.ac2Linear,
+      g.ac2Linear.ciMethod,
+      'AC1 with partial credit falling linearly with the distance between classes.',
+      'counts a half-class miss as 6/7 of an agreement',
+      'landis-koch',
+    ),
+    row(
+      'gwet.ac2Quadratic',
+      'Gwet’s AC2, quadratic weights',
+      'weighted',
+      g.ac2Quadratic,
+      g.ac2Quadratic.ciMethod,
+      'AC1 with partial credit falling with the squared distance between classes.',
+      'counts a half-class miss as near agreement (48/49)',
+      'landis-koch',
+    ),
+    row(
+      'alpha.nominal',
+      'Krippendorff’s alpha, nominal',
+      'chance-corrected',
+      a.nominal,
+      a.nominal.ciMethod,
+      'Disagreement observed against disagreement expected by chance, any two different classes counting alike.',
+      null,
+      'krippendorff',
+    ),
+    row(
+      'alpha.ordinal',
+      'Krippendorff’s alpha, ordinal',
+      'weighted',
+      a.ordinal,
+      a.ordinal.ciMethod,
+      'As nominal, but a miss costs by how many ratings lie between the two classes.',
+      'counts a miss between neighbouring, rarely used classes as small',
+      'krippendorff',
+    ),
+    row(
+      'alpha.interval',
+      'Krippendorff’s alpha, interval',
+      'weighted',
+      a.interval,
+      a.interval.ciMethod,
+      'As nominal, but a miss costs the squared distance in points.',
+      'counts a half-class miss as 1/49 of a 1.0-against-4.5 miss',
+      'krippendorff',
+    ),
+    row(
+      'alpha.ratio',
+      'Krippendorff’s alpha, ratio',
+      'weighted',
+      a.ratio,
+      a.ratio.ciMethod,
+      'As interval, with distances relative to the size of the classes.',
+      'counts a half-class miss among high classes as smaller still',
+      'krippendorff',
+    ),
   ];
   return out;
 }
@@ -240,7 +369,13 @@ function severityFigures(ctx: AppContext, federation: FederationRef, filters: An
   const { set } = load(ctx, federation, filters);
   return cached(ctx, federation.id, `severity|${filterKey(filters)}`, () => {
     const fit = classifierSeverity(set);
-    const severityModel: SeverityModel = { model: fit.model, ciMethod: fit.ciMethod, residualSd: fit.residualSd, n: fit.n, assessments: fit.assessments };
+    const severityModel: SeverityModel = {
+      model: fit.model,
+      ciMethod: fit.ciMethod,
+      residualSd: fit.residualSd,
+      n: fit.n,
+      assessments: fit.assessments,
+    };
     if (fit.reason !== undefined) severityModel.reason = fit.reason;
     return {
       byCode: new Map(fit.classifiers.map((c) => [c.code, { ...stat(c), links: c.links }])),
@@ -251,7 +386,11 @@ function severityFigures(ctx: AppContext, federation: FederationRef, filters: An
 }
 
 /** The severity model's summary and the panel network (who shared assessments with whom), for the classifiers page. */
-export function severityNetwork(ctx: AppContext, federation: FederationRef, filters: AnalyticsFilters): Pick<SeverityFigures, 'severityModel' | 'network'> {
+export function severityNetwork(
+  ctx: AppContext,
+  federation: FederationRef,
+  filters: AnalyticsFilters,
+): Pick<SeverityFigures, 'severityModel' | 'network'> {
   const { severityModel, network } = severityFigures(ctx, federation, filters);
   return { severityModel, network };
 }
@@ -282,7 +421,11 @@ export function classifierFigures(ctx: AppContext, federation: FederationRef, fi
 }
 
 /** The classifiers' rows: their figures with their active flags (read now). */
-export async function classifierRows(ctx: AppContext, federationId: number, figures: readonly ClassifierFigures[]): Promise<ClassifierRow[]> {
+export async function classifierRows(
+  ctx: AppContext,
+  federationId: number,
+  figures: readonly ClassifierFigures[],
+): Promise<ClassifierRow[]> {
   const flags = await flagsOf(ctx, federationId, { activeOnly: true });
   return figures.map((f) => ({
     ...f,
@@ -359,16 +502,36 @@ export function classifierDetailFigures(
     return {
       row,
       headline: {
-        sameAsFinal: stat(classifiersVsPanel(set).find((c) => c.code === code)?.withFinalClass.exact ?? { value: null, se: null, ci95: null, n: 0, reason: 'no rating in these filters' }),
+        sameAsFinal: stat(
+          classifiersVsPanel(set).find((c) => c.code === code)?.withFinalClass.exact ?? {
+            value: null,
+            se: null,
+            ci95: null,
+            n: 0,
+            reason: 'no rating in these filters',
+          },
+        ),
         sameAsOthers: row.exactWithPanel,
         pointsAtStake: row.pointsAtStake,
         kappa: lk(two.kappa, 'wald'),
         ac1: lk(two.ac1, 'wald'),
-        quadraticKappa: { ...row.quadraticKappa, label: landisKochLabel(row.quadraticKappa.value), ciMethod: row.quadraticKappa.ci95 ? 'wald' : null },
+        quadraticKappa: {
+          ...row.quadraticKappa,
+          label: landisKochLabel(row.quadraticKappa.value),
+          ciMethod: row.quadraticKappa.ci95 ? 'wald' : null,
+        },
       },
       confusion: { ...confusion, rowsAre: code, columnsAre: 'panel final class' },
       biasByQuarter: row.trend,
-      boundaries: classifierBoundarySplits(confusion).map((b) => ({ ...stat(b), lower: b.lower, upper: b.upper, splitRate: b.splitRate, touching: b.touching, above: b.above, below: b.below })),
+      boundaries: classifierBoundarySplits(confusion).map((b) => ({
+        ...stat(b),
+        lower: b.lower,
+        upper: b.upper,
+        splitRate: b.splitRate,
+        touching: b.touching,
+        above: b.above,
+        below: b.below,
+      })),
       drift: driftSeries(set, code),
     };
   });
@@ -417,7 +580,14 @@ export function pairs(ctx: AppContext, federation: FederationRef, filters: Analy
     classifiers: [...used].sort(),
     pairs: all.map((p) => {
       const tooFew = p.n < minShared;
-      return { a: p.a, b: p.b, n: p.n, tooFew, quadraticKappa: tooFew ? null : stat(p.quadraticKappa), exact: tooFew ? null : stat(p.exact) };
+      return {
+        a: p.a,
+        b: p.b,
+        n: p.n,
+        tooFew,
+        quadraticKappa: tooFew ? null : stat(p.quadraticKappa),
+        exact: tooFew ? null : stat(p.exact),
+      };
     }),
   };
 }
@@ -501,11 +671,20 @@ export function raterDrift(ctx: AppContext, federation: FederationRef, filters: 
         byQuarter: quarterStats(deviationByQuarter(set, c.code)),
         change:
           has && mid !== null
-            ? { changeDate: dayToIsoDate(mid), direction: d.direction, size: d.meanAfter! - d.meanBefore!, pAdjusted: d.pAdjusted, met: d.met }
+            ? {
+                changeDate: dayToIsoDate(mid),
+                direction: d.direction,
+                size: d.meanAfter! - d.meanBefore!,
+                pAdjusted: d.pAdjusted,
+                met: d.met,
+              }
             : null,
       };
     });
-    return { parameters: { method: DRIFT_METHOD, falseDiscoveryRate: thresholds.falseDiscoveryRate, driftMin: thresholds.driftMin }, classifiers };
+    return {
+      parameters: { method: DRIFT_METHOD, falseDiscoveryRate: thresholds.falseDiscoveryRate, driftMin: thresholds.driftMin },
+      classifiers,
+    };
   });
 }
 

@@ -41,14 +41,33 @@ export async function listApiTokens(ctx: AppContext, federationId: number): Prom
 }
 
 /** Creates a token for one federation and one scope; the token itself is returned this once only. */
-export async function createApiToken(ctx: AppContext, federationId: number, input: TokenCreate, userId: number | null): Promise<CreatedToken> {
+export async function createApiToken(
+  ctx: AppContext,
+  federationId: number,
+  input: TokenCreate,
+  userId: number | null,
+): Promise<CreatedToken> {
   const { token, hash } = newSecret(TOKEN_PREFIX);
   const row = await ctx.db
     .insertInto('api_tokens')
-    .values({ federation_id: federationId, name: input.name, scope: input.scope, token_hash: hash, token_prefix: token.slice(0, TOKEN_PREFIX.length + 6), created_by: userId })
+    .values({
+      federation_id: federationId,
+      name: input.name,
+      scope: input.scope,
+      token_hash: hash,
+      token_prefix: token.slice(0, TOKEN_PREFIX.length + 6),
+      created_by: userId,
+    })
     .returning('id')
     .executeTakeFirstOrThrow();
-  await audit(ctx.db, { federationId, userId, action: 'api_token.create', entity: 'api_token', entityId: row.id, detail: { scope: input.scope, name: input.name } });
+  await audit(ctx.db, {
+    federationId,
+    userId,
+    action: 'api_token.create',
+    entity: 'api_token',
+    entityId: row.id,
+    detail: { scope: input.scope, name: input.name },
+  });
   const view = (await listApiTokens(ctx, federationId)).find((t) => t.id === row.id);
   if (!view) throw new HttpError(500, 'internal', 'The token was not stored');
   return { token, view };

@@ -42,22 +42,40 @@ import { dataVersion, onDataChange } from './data-version';
 // Thresholds
 
 export async function thresholdsOf(ctx: AppContext, federationId: number): Promise<FlagThresholds> {
-  const row = await ctx.db.selectFrom('calibration_thresholds').select('thresholds').where('federation_id', '=', federationId).executeTakeFirst();
+  const row = await ctx.db
+    .selectFrom('calibration_thresholds')
+    .select('thresholds')
+    .where('federation_id', '=', federationId)
+    .executeTakeFirst();
   if (!row) return { ...DEFAULT_FLAG_THRESHOLDS };
   const parsed = flagThresholdsSchema.safeParse({ ...DEFAULT_FLAG_THRESHOLDS, ...(JSON.parse(row.thresholds) as object) });
   return parsed.success ? parsed.data : { ...DEFAULT_FLAG_THRESHOLDS };
 }
 
-export async function saveThresholds(ctx: AppContext, federationId: number, userId: number | null, thresholds: FlagThresholds): Promise<void> {
+export async function saveThresholds(
+  ctx: AppContext,
+  federationId: number,
+  userId: number | null,
+  thresholds: FlagThresholds,
+): Promise<void> {
   await ctx.db.transaction().execute(async (trx) => {
     await trx
       .insertInto('calibration_thresholds')
       .values({ federation_id: federationId, thresholds: JSON.stringify(thresholds), updated_by: userId })
       .onConflict((oc) =>
-        oc.column('federation_id').doUpdateSet({ thresholds: JSON.stringify(thresholds), updated_by: userId, updated_at: new Date().toISOString() }),
+        oc
+          .column('federation_id')
+          .doUpdateSet({ thresholds: JSON.stringify(thresholds), updated_by: userId, updated_at: new Date().toISOString() }),
       )
       .execute();
-    await audit(trx, { federationId, userId, action: 'update', entity: 'calibration_thresholds', entityId: federationId, detail: { ...thresholds } });
+    await audit(trx, {
+      federationId,
+      userId,
+      action: 'update',
+      entity: 'calibration_thresholds',
+      entityId: federationId,
+      detail: { ...thresholds },
+    });
   });
 }
 
@@ -133,8 +151,19 @@ export async function lastEvaluation(ctx: AppContext, federationId: number): Pro
   return (row?.at as string | null | undefined) ?? null;
 }
 
-export async function updateFlag(ctx: AppContext, federationId: number, flagId: number, userId: number | null, update: FlagUpdate): Promise<CalibrationFlag> {
-  const existing = await ctx.db.selectFrom('calibration_flags').select(['id', 'status']).where('id', '=', flagId).where('federation_id', '=', federationId).executeTakeFirst();
+export async function updateFlag(
+  ctx: AppContext,
+  federationId: number,
+  flagId: number,
+  userId: number | null,
+  update: FlagUpdate,
+): Promise<CalibrationFlag> {
+  const existing = await ctx.db
+    .selectFrom('calibration_flags')
+    .select(['id', 'status'])
+    .where('id', '=', flagId)
+    .where('federation_id', '=', federationId)
+    .executeTakeFirst();
   if (!existing) throw notFound('The flag');
   if (existing.status === 'closed' && update.status !== 'closed') {
     throw new HttpError(409, 'conflict', 'A closed flag stays closed; a new flag opens if the condition is met again on newer ratings');
@@ -145,7 +174,14 @@ export async function updateFlag(ctx: AppContext, federationId: number, flagId: 
       .set({ status: update.status, note: update.note ?? null, status_by: userId, updated_at: new Date().toISOString() })
       .where('id', '=', flagId)
       .execute();
-    await audit(trx, { federationId, userId, action: `flag.${update.status}`, entity: 'calibration_flag', entityId: flagId, detail: { note: update.note ?? null } });
+    await audit(trx, {
+      federationId,
+      userId,
+      action: `flag.${update.status}`,
+      entity: 'calibration_flag',
+      entityId: flagId,
+      detail: { note: update.note ?? null },
+    });
   });
   const flags = await flagsOf(ctx, federationId, { activeOnly: false });
   return flags.find((f) => f.id === flagId)!;
@@ -185,7 +221,8 @@ function windowText(n: number, total: number, from: string | null, to: string | 
 /** The three rules' figures for one classifier as flag evidence, met or not. */
 export function findingsOf(v: ClassifierCalibration, th: FlagThresholds): Finding[] {
   const q = th.falseDiscoveryRate;
-  const test = (pAdj: number | null) => `Benjamini–Hochberg adjusted p ${pText(pAdj)} at a false-discovery rate of ${pct(q)} across the roster`;
+  const test = (pAdj: number | null) =>
+    `Benjamini–Hochberg adjusted p ${pText(pAdj)} at a false-discovery rate of ${pct(q)} across the roster`;
   const out: Finding[] = [];
 
   const b = v.bias;
@@ -313,7 +350,17 @@ function noRatings(rule: FlagRule, th: FlagThresholds): Finding {
     rule,
     met: false,
     why: 'no rating in a panel of two or more is left',
-    evidence: { summary: 'No rating in a panel of two or more.', value: null, ci95: null, threshold, n: 0, from: null, to: null, direction: null, total: 0 },
+    evidence: {
+      summary: 'No rating in a panel of two or more.',
+      value: null,
+      ci95: null,
+      threshold,
+      n: 0,
+      from: null,
+      to: null,
+      direction: null,
+      total: 0,
+    },
   };
 }
 
@@ -370,49 +417,55 @@ export async function evaluateFlags(ctx: AppContext, federationId: number, optio
   const refresh = ctx.sqlite.prepare(
     'update calibration_flags set evidence = ?, evidence_through = ?, still_met = 1, lapsed_at = null, lapse_reason = null, evaluated_at = ? where id = ?',
   );
-  const lapse = ctx.sqlite.prepare('update calibration_flags set evidence = ?, still_met = 0, lapsed_at = ?, lapse_reason = ?, evaluated_at = ? where id = ?');
+  const lapse = ctx.sqlite.prepare(
+    'update calibration_flags set evidence = ?, still_met = 0, lapsed_at = ?, lapse_reason = ?, evaluated_at = ? where id = ?',
+  );
   const touch = ctx.sqlite.prepare('update calibration_flags set evidence = ?, evaluated_at = ? where id = ?');
 
-  ctx.sqlite.transaction(() => {
-    for (const [code, roster] of data.classifiers) {
-      const all = findings.get(code);
-      for (const rule of FLAG_RULES) {
-        const finding = all?.find((f) => f.rule === rule) ?? noRatings(rule, th);
-        const prev = latest.get(roster.id, rule) as LatestRow | undefined;
-        const evidence = JSON.stringify(finding.evidence);
-        if (finding.met) {
-          const through = finding.evidence.to;
-          if (prev && prev.status !== 'closed') {
-            refresh.run(evidence, through, now, prev.id);
-            updated++;
-          } else if (
-            rule !== 'drift' &&
-            prev &&
-            prev.status === 'closed' &&
-            prev.evidence_through !== null &&
-            through !== null &&
-            through <= prev.evidence_through
-          ) {
-            // Closed on these very ratings: wait for newer ones.
-          } else {
-            insert.run(federationId, roster.id, rule, evidence, through, now, now, now);
-            opened.push({ code, name: roster.name, rule, summary: finding.evidence.summary });
+  ctx.sqlite
+    .transaction(() => {
+      for (const [code, roster] of data.classifiers) {
+        const all = findings.get(code);
+        for (const rule of FLAG_RULES) {
+          const finding = all?.find((f) => f.rule === rule) ?? noRatings(rule, th);
+          const prev = latest.get(roster.id, rule) as LatestRow | undefined;
+          const evidence = JSON.stringify(finding.evidence);
+          if (finding.met) {
+            const through = finding.evidence.to;
+            if (prev && prev.status !== 'closed') {
+              refresh.run(evidence, through, now, prev.id);
+              updated++;
+            } else if (
+              rule !== 'drift' &&
+              prev &&
+              prev.status === 'closed' &&
+              prev.evidence_through !== null &&
+              through !== null &&
+              through <= prev.evidence_through
+            ) {
+              // Closed on these very ratings: wait for newer ones.
+            } else {
+              insert.run(federationId, roster.id, rule, evidence, through, now, now, now);
+              opened.push({ code, name: roster.name, rule, summary: finding.evidence.summary });
+            }
+          } else if (prev && prev.status !== 'closed') {
+            if (prev.still_met === 1) {
+              lapse.run(evidence, now, `No longer met after ${cause}: ${finding.why}.`, now, prev.id);
+              lapsed.push({ code, name: roster.name, rule, summary: finding.why });
+              updated++;
+            } else touch.run(evidence, now, prev.id);
           }
-        } else if (prev && prev.status !== 'closed') {
-          if (prev.still_met === 1) {
-            lapse.run(evidence, now, `No longer met after ${cause}: ${finding.why}.`, now, prev.id);
-            lapsed.push({ code, name: roster.name, rule, summary: finding.why });
-            updated++;
-          } else touch.run(evidence, now, prev.id);
         }
       }
-    }
-  }).immediate();
+    })
+    .immediate();
   markEvaluated(ctx, federationId, version);
 
   if (opened.length > 0 || lapsed.length > 0) {
-    if (opened.length > 0) await audit(ctx.db, { federationId, action: 'flags.opened', entity: 'calibration_flag', detail: { count: opened.length } });
-    if (lapsed.length > 0) await audit(ctx.db, { federationId, action: 'flags.lapsed', entity: 'calibration_flag', detail: { count: lapsed.length, cause } });
+    if (opened.length > 0)
+      await audit(ctx.db, { federationId, action: 'flags.opened', entity: 'calibration_flag', detail: { count: opened.length } });
+    if (lapsed.length > 0)
+      await audit(ctx.db, { federationId, action: 'flags.lapsed', entity: 'calibration_flag', detail: { count: lapsed.length, cause } });
     if (th.notifyLead) await notifyLeads(ctx, federation, opened, lapsed);
   }
   return { opened: opened.length, updated, lapsed: lapsed.length, evaluatedAt: now };
@@ -420,10 +473,18 @@ export async function evaluateFlags(ctx: AppContext, federationId: number, optio
 
 type Mention = { code: string; name: string; rule: FlagRule; summary: string };
 
-async function notifyLeads(ctx: AppContext, federation: { id: number; slug: string; name: string }, opened: Mention[], lapsed: Mention[]): Promise<void> {
+async function notifyLeads(
+  ctx: AppContext,
+  federation: { id: number; slug: string; name: string },
+  opened: Mention[],
+  lapsed: Mention[],
+): Promise<void> {
   const mailer = ctx.mailer;
   if (!mailer) {
-    ctx.logger.warn({ federation: federation.slug, flags: opened.length, lapsed: lapsed.length }, 'calibration flags changed, but no mailer is configured');
+    ctx.logger.warn(
+      { federation: federation.slug, flags: opened.length, lapsed: lapsed.length },
+      'calibration flags changed, but no mailer is configured',
+    );
     return;
   }
   const leads = await ctx.db
@@ -492,7 +553,11 @@ function markEvaluated(ctx: AppContext, federationId: number, version: number): 
  * Runs evaluateFlags off the request path, in the app's worker pool (server/workers/pool.ts):
  * the engine's figures on every rating are computed there; new flags' e-mail goes out from here.
  */
-export function evaluateFlagsInPool(ctx: AppContext, federationId: number, options: { background?: boolean; cause?: string } = {}): Promise<EvaluateResponse> {
+export function evaluateFlagsInPool(
+  ctx: AppContext,
+  federationId: number,
+  options: { background?: boolean; cause?: string } = {},
+): Promise<EvaluateResponse> {
   return ctx.pool.run('flags.evaluate', { federationId, cause: options.cause }, { federationId, background: options.background });
 }
 
@@ -519,7 +584,12 @@ export async function ensureEvaluated(ctx: AppContext, federationId: number): Pr
  * One evaluation at a time per federation, in the pool; callers share the one in flight. The
  * main thread records the data version it was asked at (the worker evaluates at least that one).
  */
-export async function runEvaluation(ctx: AppContext, federationId: number, cause: string, options: { background?: boolean } = {}): Promise<EvaluateResponse | undefined> {
+export async function runEvaluation(
+  ctx: AppContext,
+  federationId: number,
+  cause: string,
+  options: { background?: boolean } = {},
+): Promise<EvaluateResponse | undefined> {
   const state = stateOf(ctx);
   let entry = state.get(federationId);
   if (!entry) state.set(federationId, (entry = { version: -1 }));

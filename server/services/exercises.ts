@@ -93,9 +93,18 @@ async function counts(ctx: AppContext, ids: number[]) {
   const out = new Map<number, { cases: number; assigned: number; finished: number }>();
   if (ids.length === 0) return out;
   for (const id of ids) out.set(id, { cases: 0, assigned: 0, finished: 0 });
-  const cases = await ctx.db.selectFrom('exercise_cases').select(['exercise_id', (eb) => eb.fn.countAll<number>().as('n')]).where('exercise_id', 'in', ids).groupBy('exercise_id').execute();
+  const cases = await ctx.db
+    .selectFrom('exercise_cases')
+    .select(['exercise_id', (eb) => eb.fn.countAll<number>().as('n')])
+    .where('exercise_id', 'in', ids)
+    .groupBy('exercise_id')
+    .execute();
   for (const c of cases) out.get(c.exercise_id)!.cases = Number(c.n);
-  const assigned = await ctx.db.selectFrom('exercise_assignments').select(['exercise_id', 'finished_at']).where('exercise_id', 'in', ids).execute();
+  const assigned = await ctx.db
+    .selectFrom('exercise_assignments')
+    .select(['exercise_id', 'finished_at'])
+    .where('exercise_id', 'in', ids)
+    .execute();
   for (const a of assigned) {
     const o = out.get(a.exercise_id)!;
     o.assigned++;
@@ -115,7 +124,11 @@ async function answeredBy(ctx: AppContext, exerciseId: number, classifierId: num
   return Number(row.n);
 }
 
-function summaryOf(row: ExerciseRow, c: { cases: number; assigned: number; finished: number }, mine: ExerciseSummary['mine']): ExerciseSummary {
+function summaryOf(
+  row: ExerciseRow,
+  c: { cases: number; assigned: number; finished: number },
+  mine: ExerciseSummary['mine'],
+): ExerciseSummary {
   return { id: row.id, title: row.title, status: row.status, opensOn: row.opens_on, closesOn: row.closes_on, ...c, mine };
 }
 
@@ -123,7 +136,18 @@ function summaryOf(row: ExerciseRow, c: { cases: number; assigned: number; finis
 export async function listExercises(ctx: AppContext, access: FederationAccess): Promise<ExerciseList> {
   let q = ctx.db
     .selectFrom('exercises as e')
-    .select(['e.id', 'e.federation_id', 'e.title', 'e.status', 'e.opens_on', 'e.closes_on', 'e.source_kind', 'e.source_ref', 'e.opened_at', 'e.closed_at'])
+    .select([
+      'e.id',
+      'e.federation_id',
+      'e.title',
+      'e.status',
+      'e.opens_on',
+      'e.closes_on',
+      'e.source_kind',
+      'e.source_ref',
+      'e.opened_at',
+      'e.closed_at',
+    ])
     .where('e.federation_id', '=', access.federation.id);
   if (access.role !== 'lead') {
     if (access.classifierId === null) return { exercises: [], scale: { min: access.federation.scaleMin, max: access.federation.scaleMax } };
@@ -133,7 +157,10 @@ export async function listExercises(ctx: AppContext, access: FederationAccess): 
       .where('e.status', '!=', 'draft');
   }
   const rows = (await q.orderBy('e.closes_on', 'desc').orderBy('e.id', 'desc').execute()) as ExerciseRow[];
-  const c = await counts(ctx, rows.map((r) => r.id));
+  const c = await counts(
+    ctx,
+    rows.map((r) => r.id),
+  );
   const out: ExerciseSummary[] = [];
   for (const row of rows) {
     let mine: ExerciseSummary['mine'] = null;
@@ -206,7 +233,16 @@ async function assignmentsOf(ctx: AppContext, exerciseId: number): Promise<Assig
   return ctx.db
     .selectFrom('exercise_assignments as x')
     .innerJoin('classifiers as k', 'k.id', 'x.classifier_id')
-    .select(['x.classifier_id', 'k.code', 'k.display_name', 'k.user_id', 'x.had_open_flag', 'x.finished_at', 'x.invited_at', 'x.reminded_at'])
+    .select([
+      'x.classifier_id',
+      'k.code',
+      'k.display_name',
+      'k.user_id',
+      'x.had_open_flag',
+      'x.finished_at',
+      'x.invited_at',
+      'x.reminded_at',
+    ])
     .where('x.exercise_id', '=', exerciseId)
     .orderBy('k.code')
     .execute();
@@ -217,13 +253,27 @@ function panelWindow(w: ReturnType<typeof panelBeforeAfter>['before']): PanelWin
 }
 
 /** The scores of a closed exercise, for a lead (everything) or one classifier (their row, and spreads of groups large enough). */
-async function resultsOf(ctx: AppContext, federation: Federation, row: ExerciseRow, viewer: { lead: true } | { lead: false; classifierId: number }): Promise<ExerciseResults> {
+async function resultsOf(
+  ctx: AppContext,
+  federation: Federation,
+  row: ExerciseRow,
+  viewer: { lead: true } | { lead: false; classifierId: number },
+): Promise<ExerciseResults> {
   const cases = await casesOf(ctx, row.id);
   const answers = await answersOf(ctx, row.id);
   const assignments = await assignmentsOf(ctx, row.id);
   const scale = { min: federation.scaleMin, max: federation.scaleMax };
-  const scored: ScoredAnswer[] = answers.map((a) => ({ rater: a.code, caseId: a.case_id, sportClass: a.sport_class, skills: skillsOf(a.skills) }));
-  const scores = raterScores(cases.map((c) => ({ id: c.id, reference: c.reference_class })), scored, scale);
+  const scored: ScoredAnswer[] = answers.map((a) => ({
+    rater: a.code,
+    caseId: a.case_id,
+    sportClass: a.sport_class,
+    skills: skillsOf(a.skills),
+  }));
+  const scores = raterScores(
+    cases.map((c) => ({ id: c.id, reference: c.reference_class })),
+    scored,
+    scale,
+  );
   const byCode = new Map(scores.map((s) => [s.rater, s]));
   const classifiers: ClassifierScore[] = [];
   for (const a of assignments) {
@@ -235,14 +285,23 @@ async function resultsOf(ctx: AppContext, federation: Federation, row: ExerciseR
       answered: s.answered,
       exact: s.exact,
       withinHalf: s.withinHalf,
-      quadraticKappa: { value: s.quadraticKappa.value, se: s.quadraticKappa.se, ci95: s.quadraticKappa.ci95, n: s.quadraticKappa.n, reason: s.quadraticKappa.reason },
+      quadraticKappa: {
+        value: s.quadraticKappa.value,
+        se: s.quadraticKappa.se,
+        ci95: s.quadraticKappa.ci95,
+        n: s.quadraticKappa.n,
+        reason: s.quadraticKappa.reason,
+      },
       bias: s.bias,
       meanAbsolutePoints: s.meanAbsolutePoints,
       offByHalfPoint: s.offByHalfPoint,
       offByOnePoint: s.offByOnePoint,
     });
   }
-  const spreads = caseSpreads(cases.map((c) => ({ id: c.id, reference: c.reference_class })), scored).map((s, i) => ({
+  const spreads = caseSpreads(
+    cases.map((c) => ({ id: c.id, reference: c.reference_class })),
+    scored,
+  ).map((s, i) => ({
     caseId: s.caseId,
     position: cases[i].position,
     referenceClass: s.reference,
@@ -277,7 +336,13 @@ async function resultsOf(ctx: AppContext, federation: Federation, row: ExerciseR
     const closed = row.closed_at?.slice(0, 10) ?? row.closes_on;
     for (const a of flagged) {
       const r = panelBeforeAfter(set, a.code, opened, closed, BEFORE_AFTER_WINDOW, medians);
-      beforeAfter.push({ classifierCode: a.code, classifierName: a.display_name, before: panelWindow(r.before), after: panelWindow(r.after), quarters: r.quarters });
+      beforeAfter.push({
+        classifierCode: a.code,
+        classifierName: a.display_name,
+        before: panelWindow(r.before),
+        after: panelWindow(r.after),
+        quarters: r.quarters,
+      });
     }
   }
   return { classifiers, cases: spreads, beforeAfter, window: BEFORE_AFTER_WINDOW };
@@ -294,13 +359,24 @@ export async function exerciseDetail(ctx: AppContext, access: FederationAccess, 
   if (!lead) {
     classifierId = access.classifierId;
     if (classifierId === null || row.status === 'draft') throw notFound('The exercise');
-    const assigned = await ctx.db.selectFrom('exercise_assignments').select('classifier_id').where('exercise_id', '=', id).where('classifier_id', '=', classifierId).executeTakeFirst();
+    const assigned = await ctx.db
+      .selectFrom('exercise_assignments')
+      .select('classifier_id')
+      .where('exercise_id', '=', id)
+      .where('classifier_id', '=', classifierId)
+      .executeTakeFirst();
     if (!assigned) throw notFound('The exercise');
   }
   const closed = row.status === 'closed';
   const cases = await casesOf(ctx, id);
   const caseList: ExerciseCaseView[] = cases.map((c) => {
-    const view: ExerciseCaseView = { id: c.id, position: c.position, description: c.description, videoUrl: c.video_url, skills: skillsOf(c.skills) };
+    const view: ExerciseCaseView = {
+      id: c.id,
+      position: c.position,
+      description: c.description,
+      videoUrl: c.video_url,
+      skills: skillsOf(c.skills),
+    };
     // Blindness: the reference class reaches a classifier only after the close.
     if (lead || closed) view.referenceClass = c.reference_class;
     return view;
@@ -327,7 +403,9 @@ export async function exerciseDetail(ctx: AppContext, access: FederationAccess, 
       remindedAt: a.reminded_at,
     }));
   }
-  const results = closed ? await resultsOf(ctx, access.federation, row, lead ? { lead: true } : { lead: false, classifierId: classifierId! }) : null;
+  const results = closed
+    ? await resultsOf(ctx, access.federation, row, lead ? { lead: true } : { lead: false, classifierId: classifierId! })
+    : null;
   const linkedFlags = lead
     ? await ctx.db
         .selectFrom('exercise_flag_links as l')
@@ -356,7 +434,12 @@ export async function exerciseDetail(ctx: AppContext, access: FederationAccess, 
 // Writing (leads)
 
 async function classifierIdsFor(ctx: AppContext, federationId: number, codes: string[]): Promise<Map<string, number>> {
-  const rows = await ctx.db.selectFrom('classifiers').select(['id', 'code']).where('federation_id', '=', federationId).where('code', 'in', codes).execute();
+  const rows = await ctx.db
+    .selectFrom('classifiers')
+    .select(['id', 'code'])
+    .where('federation_id', '=', federationId)
+    .where('code', 'in', codes)
+    .execute();
   const found = new Map(rows.map((r) => [r.code, r.id]));
   const missing = codes.map((code, i) => ({ code, i })).filter((x) => !found.has(x.code));
   if (missing.length > 0) {
@@ -374,12 +457,26 @@ function checkScale(federation: Federation, input: ParsedExerciseInput): void {
   const bad = input.cases
     .map((c, i) => ({ c, i }))
     .filter(({ c }) => c.referenceClass < federation.scaleMin || c.referenceClass > federation.scaleMax)
-    .map(({ c, i }) => ({ path: `cases.${i}.referenceClass`, message: `${formatClass(c.referenceClass)} is off the scale ${formatClass(federation.scaleMin)}–${formatClass(federation.scaleMax)}` }));
-  if (bad.length > 0) throw new HttpError(400, 'validation_failed', `Case ${bad.map((b) => Number(b.path.split('.')[1]) + 1).join(', ')}: the reference class is off the scale`, bad);
+    .map(({ c, i }) => ({
+      path: `cases.${i}.referenceClass`,
+      message: `${formatClass(c.referenceClass)} is off the scale ${formatClass(federation.scaleMin)}–${formatClass(federation.scaleMax)}`,
+    }));
+  if (bad.length > 0)
+    throw new HttpError(
+      400,
+      'validation_failed',
+      `Case ${bad.map((b) => Number(b.path.split('.')[1]) + 1).join(', ')}: the reference class is off the scale`,
+      bad,
+    );
 }
 
 /** Creates a draft exercise; nothing is sent until it opens. */
-export async function createExercise(ctx: AppContext, federation: Federation, userId: number | null, input: ParsedExerciseInput): Promise<number> {
+export async function createExercise(
+  ctx: AppContext,
+  federation: Federation,
+  userId: number | null,
+  input: ParsedExerciseInput,
+): Promise<number> {
   checkScale(federation, input);
   const ids = await classifierIdsFor(ctx, federation.id, input.classifierCodes);
   return ctx.db.transaction().execute(async (trx) => {
@@ -397,7 +494,14 @@ export async function createExercise(ctx: AppContext, federation: Federation, us
       .returning('id')
       .executeTakeFirstOrThrow();
     await writeCasesAndAssignments(trx, id, input, ids);
-    await audit(trx, { federationId: federation.id, userId, action: 'create', entity: 'exercise', entityId: id, detail: { cases: input.cases.length, classifiers: input.classifierCodes.length } });
+    await audit(trx, {
+      federationId: federation.id,
+      userId,
+      action: 'create',
+      entity: 'exercise',
+      entityId: id,
+      detail: { cases: input.cases.length, classifiers: input.classifierCodes.length },
+    });
     return id;
   });
 }
@@ -405,7 +509,16 @@ export async function createExercise(ctx: AppContext, federation: Federation, us
 async function writeCasesAndAssignments(trx: Transaction<Database>, id: number, input: ParsedExerciseInput, ids: Map<string, number>) {
   await trx
     .insertInto('exercise_cases')
-    .values(input.cases.map((c, i) => ({ exercise_id: id, position: i + 1, description: c.description, video_url: c.videoUrl, skills: JSON.stringify(c.skills), reference_class: c.referenceClass })))
+    .values(
+      input.cases.map((c, i) => ({
+        exercise_id: id,
+        position: i + 1,
+        description: c.description,
+        video_url: c.videoUrl,
+        skills: JSON.stringify(c.skills),
+        reference_class: c.referenceClass,
+      })),
+    )
     .execute();
   await trx
     .insertInto('exercise_assignments')
@@ -414,7 +527,13 @@ async function writeCasesAndAssignments(trx: Transaction<Database>, id: number, 
 }
 
 /** Replaces a draft's title, dates, cases and classifiers. */
-export async function updateDraft(ctx: AppContext, federation: Federation, id: number, userId: number | null, input: ParsedExerciseInput): Promise<void> {
+export async function updateDraft(
+  ctx: AppContext,
+  federation: Federation,
+  id: number,
+  userId: number | null,
+  input: ParsedExerciseInput,
+): Promise<void> {
   const row = await exerciseRow(ctx, federation.id, id);
   if (row.status !== 'draft') throw new HttpError(409, 'conflict', 'Only a draft can be edited: this exercise is already open or closed');
   checkScale(federation, input);
@@ -422,7 +541,13 @@ export async function updateDraft(ctx: AppContext, federation: Federation, id: n
   await ctx.db.transaction().execute(async (trx) => {
     await trx
       .updateTable('exercises')
-      .set({ title: input.title, opens_on: input.opensOn, closes_on: input.closesOn, source_kind: input.source?.kind ?? null, source_ref: input.source?.ref ?? null })
+      .set({
+        title: input.title,
+        opens_on: input.opensOn,
+        closes_on: input.closesOn,
+        source_kind: input.source?.kind ?? null,
+        source_ref: input.source?.ref ?? null,
+      })
       .where('id', '=', id)
       .execute();
     await trx.deleteFrom('exercise_cases').where('exercise_id', '=', id).execute();
@@ -472,9 +597,11 @@ const link = (ctx: AppContext, slug: string, id: number) => `${ctx.config.public
 export async function openExercise(ctx: AppContext, federation: Federation, id: number, userId: number | null, now: Date): Promise<void> {
   const row = await exerciseRow(ctx, federation.id, id);
   if (row.status !== 'draft') throw new HttpError(409, 'conflict', `This exercise is ${row.status}, not a draft`);
-  if (closeInstant(row.closes_on) <= now) throw new HttpError(409, 'conflict', `The close date ${row.closes_on} has passed: change it before opening`);
+  if (closeInstant(row.closes_on) <= now)
+    throw new HttpError(409, 'conflict', `The close date ${row.closes_on} has passed: change it before opening`);
   const cases = (await counts(ctx, [id])).get(id)!;
-  if (cases.cases === 0 || cases.assigned === 0) throw new HttpError(409, 'conflict', 'An exercise needs at least one case and one classifier to open');
+  if (cases.cases === 0 || cases.assigned === 0)
+    throw new HttpError(409, 'conflict', 'An exercise needs at least one case and one classifier to open');
   const flags = (await flagsOf(ctx, federation.id, { activeOnly: true })).filter((f) => f.status !== 'closed');
   const codes = await ctx.db.selectFrom('classifiers').select(['id', 'code']).where('federation_id', '=', federation.id).execute();
   const idOf = new Map(codes.map((c) => [c.code, c.id]));
@@ -512,7 +639,12 @@ export async function openExercise(ctx: AppContext, federation: Federation, id: 
       'This is practice: the scores describe consistency with a reference, not a judgement of anyone’s classification.',
     ].join('\n');
     if (await sendTo(ctx, person.email, `Calibration exercise: ${row.title}`, text, fed.slug)) {
-      await ctx.db.updateTable('exercise_assignments').set({ invited_at: now.toISOString() }).where('exercise_id', '=', id).where('classifier_id', '=', person.classifier_id).execute();
+      await ctx.db
+        .updateTable('exercise_assignments')
+        .set({ invited_at: now.toISOString() })
+        .where('exercise_id', '=', id)
+        .where('classifier_id', '=', person.classifier_id)
+        .execute();
     }
   }
 }
@@ -548,7 +680,12 @@ async function sendResults(ctx: AppContext, federationId: number, id: number, no
       'Agreement with a reference describes consistency with the senior panel’s class for these cases; it is practice, not a finding about anyone’s classification.',
     ].join('\n');
     if (await sendTo(ctx, person.email, `Results are out: ${row.title}`, text, fed.slug)) {
-      await ctx.db.updateTable('exercise_assignments').set({ results_sent_at: now.toISOString() }).where('exercise_id', '=', id).where('classifier_id', '=', person.classifier_id).execute();
+      await ctx.db
+        .updateTable('exercise_assignments')
+        .set({ results_sent_at: now.toISOString() })
+        .where('exercise_id', '=', id)
+        .where('classifier_id', '=', person.classifier_id)
+        .execute();
     }
   }
 }
@@ -557,28 +694,60 @@ async function sendResults(ctx: AppContext, federationId: number, id: number, no
 // Answering (classifiers)
 
 /** Saves (or changes) a classifier's answer to one case while the exercise is open. */
-export async function saveAnswer(ctx: AppContext, access: FederationAccess, id: number, caseId: number, answer: ParsedAnswer, now: Date): Promise<{ answer: AnswerView; answered: number; finished: boolean }> {
+export async function saveAnswer(
+  ctx: AppContext,
+  access: FederationAccess,
+  id: number,
+  caseId: number,
+  answer: ParsedAnswer,
+  now: Date,
+): Promise<{ answer: AnswerView; answered: number; finished: boolean }> {
   const classifierId = access.classifierId;
   if (classifierId === null) throw new HttpError(403, 'forbidden', 'Your account is not linked to a classifier of this federation');
   const row = await exerciseRow(ctx, access.federation.id, id);
-  const assigned = await ctx.db.selectFrom('exercise_assignments').select('finished_at').where('exercise_id', '=', id).where('classifier_id', '=', classifierId).executeTakeFirst();
+  const assigned = await ctx.db
+    .selectFrom('exercise_assignments')
+    .select('finished_at')
+    .where('exercise_id', '=', id)
+    .where('classifier_id', '=', classifierId)
+    .executeTakeFirst();
   if (!assigned || row.status === 'draft') throw notFound('The exercise');
-  if (row.status === 'closed' || closeInstant(row.closes_on) <= now) throw new HttpError(409, 'conflict', 'The exercise has closed: answers can no longer change');
-  const theCase = await ctx.db.selectFrom('exercise_cases').select('id').where('id', '=', caseId).where('exercise_id', '=', id).executeTakeFirst();
+  if (row.status === 'closed' || closeInstant(row.closes_on) <= now)
+    throw new HttpError(409, 'conflict', 'The exercise has closed: answers can no longer change');
+  const theCase = await ctx.db
+    .selectFrom('exercise_cases')
+    .select('id')
+    .where('id', '=', caseId)
+    .where('exercise_id', '=', id)
+    .executeTakeFirst();
   if (!theCase) throw notFound('The case');
   const { scaleMin, scaleMax } = access.federation;
   if (answer.sportClass < scaleMin || answer.sportClass > scaleMax) {
-    throw new HttpError(400, 'validation_failed', `The class ${formatClass(answer.sportClass)} is off the scale ${formatClass(scaleMin)}–${formatClass(scaleMax)}`, [
-      { path: 'sportClass', message: `${answer.sportClass} is off the scale` },
-    ]);
+    throw new HttpError(
+      400,
+      'validation_failed',
+      `The class ${formatClass(answer.sportClass)} is off the scale ${formatClass(scaleMin)}–${formatClass(scaleMax)}`,
+      [{ path: 'sportClass', message: `${answer.sportClass} is off the scale` }],
+    );
   }
   const at = now.toISOString();
   const skills = JSON.stringify(SKILLS.filter((s) => answer.skills.includes(s)));
   const result = await ctx.db.transaction().execute(async (trx) => {
     await trx
       .insertInto('exercise_answers')
-      .values({ case_id: caseId, classifier_id: classifierId, sport_class: answer.sportClass, skills, reason: answer.reason, updated_at: at })
-      .onConflict((oc) => oc.columns(['case_id', 'classifier_id']).doUpdateSet({ sport_class: answer.sportClass, skills, reason: answer.reason, updated_at: at }))
+      .values({
+        case_id: caseId,
+        classifier_id: classifierId,
+        sport_class: answer.sportClass,
+        skills,
+        reason: answer.reason,
+        updated_at: at,
+      })
+      .onConflict((oc) =>
+        oc
+          .columns(['case_id', 'classifier_id'])
+          .doUpdateSet({ sport_class: answer.sportClass, skills, reason: answer.reason, updated_at: at }),
+      )
       .execute();
     const answered = Number(
       (
@@ -591,10 +760,23 @@ export async function saveAnswer(ctx: AppContext, access: FederationAccess, id: 
           .executeTakeFirstOrThrow()
       ).n,
     );
-    const total = Number((await trx.selectFrom('exercise_cases').select((eb) => eb.fn.countAll<number>().as('n')).where('exercise_id', '=', id).executeTakeFirstOrThrow()).n);
+    const total = Number(
+      (
+        await trx
+          .selectFrom('exercise_cases')
+          .select((eb) => eb.fn.countAll<number>().as('n'))
+          .where('exercise_id', '=', id)
+          .executeTakeFirstOrThrow()
+      ).n,
+    );
     const finished = answered >= total;
     if (finished && !assigned.finished_at) {
-      await trx.updateTable('exercise_assignments').set({ finished_at: at }).where('exercise_id', '=', id).where('classifier_id', '=', classifierId).execute();
+      await trx
+        .updateTable('exercise_assignments')
+        .set({ finished_at: at })
+        .where('exercise_id', '=', id)
+        .where('classifier_id', '=', classifierId)
+        .execute();
     }
     return { answered, finished };
   });
@@ -613,7 +795,11 @@ export async function saveAnswer(ctx: AppContext, access: FederationAccess, id: 
  * before it is sent, so none goes twice; a failed send releases the claim for the next run.
  */
 export async function sendDueReminders(ctx: AppContext, now: Date): Promise<{ sent: number }> {
-  const open = await ctx.db.selectFrom('exercises').select(['id', 'federation_id', 'title', 'closes_on']).where('status', '=', 'open').execute();
+  const open = await ctx.db
+    .selectFrom('exercises')
+    .select(['id', 'federation_id', 'title', 'closes_on'])
+    .where('status', '=', 'open')
+    .execute();
   let sent = 0;
   for (const ex of open) {
     const closes = closeInstant(ex.closes_on).getTime();
@@ -638,7 +824,13 @@ export async function sendDueReminders(ctx: AppContext, now: Date): Promise<{ se
         `Finish it here: ${link(ctx, fed.slug, ex.id)}`,
       ].join('\n');
       if (await sendTo(ctx, person.email, `Reminder: “${ex.title}” closes on ${ex.closes_on}`, text, fed.slug)) sent++;
-      else await ctx.db.updateTable('exercise_assignments').set({ reminded_at: null }).where('exercise_id', '=', ex.id).where('classifier_id', '=', person.classifier_id).execute();
+      else
+        await ctx.db
+          .updateTable('exercise_assignments')
+          .set({ reminded_at: null })
+          .where('exercise_id', '=', ex.id)
+          .where('classifier_id', '=', person.classifier_id)
+          .execute();
     }
   }
   return { sent };
@@ -660,9 +852,17 @@ export async function closeDueExercises(ctx: AppContext, now: Date): Promise<{ c
 // Flags
 
 /** Closes a calibration flag with a note and a link to the exercise that answered it. */
-export async function closeFlagWithExercise(ctx: AppContext, federation: Federation, id: number, flagId: number, userId: number | null, note: string) {
+export async function closeFlagWithExercise(
+  ctx: AppContext,
+  federation: Federation,
+  id: number,
+  flagId: number,
+  userId: number | null,
+  note: string,
+) {
   const row = await exerciseRow(ctx, federation.id, id);
-  if (row.status !== 'closed') throw new HttpError(409, 'conflict', 'Link a flag to an exercise once the exercise has closed and its results are known');
+  if (row.status !== 'closed')
+    throw new HttpError(409, 'conflict', 'Link a flag to an exercise once the exercise has closed and its results are known');
   const assigned = await ctx.db
     .selectFrom('calibration_flags as f')
     .innerJoin('exercise_assignments as x', (j) => j.onRef('x.classifier_id', '=', 'f.classifier_id').on('x.exercise_id', '=', id))
@@ -671,7 +871,10 @@ export async function closeFlagWithExercise(ctx: AppContext, federation: Federat
     .where('f.federation_id', '=', federation.id)
     .executeTakeFirst();
   if (!assigned) throw notFound('A flag of a classifier assigned to this exercise');
-  const flag = await updateFlag(ctx, federation.id, flagId, userId, { status: 'closed', note: `${note} (calibration exercise #${id}: ${row.title})` });
+  const flag = await updateFlag(ctx, federation.id, flagId, userId, {
+    status: 'closed',
+    note: `${note} (calibration exercise #${id}: ${row.title})`,
+  });
   await ctx.db
     .insertInto('exercise_flag_links')
     .values({ flag_id: flagId, exercise_id: id, linked_by: userId })
@@ -692,7 +895,11 @@ const PROPOSED_CLASSIFIERS = 6;
  * boundary (reference class proposed: the panel's final class, for the lead to confirm with the
  * senior panel), and the classifiers who split there most (for a boundary) or who hold the flag.
  */
-export async function proposeExercise(ctx: AppContext, federation: Federation, query: { flag?: number; boundary?: number }): Promise<ExerciseProposal> {
+export async function proposeExercise(
+  ctx: AppContext,
+  federation: Federation,
+  query: { flag?: number; boundary?: number },
+): Promise<ExerciseProposal> {
   const data = federationData(ctx, federation);
   const set = data.set;
   const q = set.q;
@@ -723,7 +930,8 @@ export async function proposeExercise(ctx: AppContext, federation: Federation, q
     title = `Calibration for ${flag.classifierCode}: the ${formatClass(set.scale.min + boundaryIndex)}/${formatClass(set.scale.min + boundaryIndex + 1)} boundary`;
   } else {
     const b = query.boundary!;
-    if (b < set.scale.min || b >= set.scale.max) throw new HttpError(400, 'validation_failed', `The boundary ${formatClass(b)} is not the lower class of a boundary on the scale`);
+    if (b < set.scale.min || b >= set.scale.max)
+      throw new HttpError(400, 'validation_failed', `The boundary ${formatClass(b)} is not the lower class of a boundary on the scale`);
     boundaryIndex = b - set.scale.min;
     classifierCodes = [...splits.entries()]
       .filter(([, row]) => row[boundaryIndex] > 0)

@@ -25,9 +25,14 @@ async function classifierForLink(ctx: AppContext, federationId: number, code: st
     .where('federation_id', '=', federationId)
     .where('code', '=', code)
     .executeTakeFirst();
-  if (!classifier) throw new HttpError(400, 'validation_failed', `There is no classifier ${code} on the roster`, [{ path: 'classifierCode', message: `No roster entry ${code}` }]);
+  if (!classifier)
+    throw new HttpError(400, 'validation_failed', `There is no classifier ${code} on the roster`, [
+      { path: 'classifierCode', message: `No roster entry ${code}` },
+    ]);
   if (classifier.user_id !== null && classifier.user_id !== forUserId) {
-    throw new HttpError(409, 'conflict', `Classifier ${code} is already linked to an account`, [{ path: 'classifierCode', message: `${code} already has an account` }]);
+    throw new HttpError(409, 'conflict', `Classifier ${code} is already linked to an account`, [
+      { path: 'classifierCode', message: `${code} already has an account` },
+    ]);
   }
   return classifier;
 }
@@ -37,7 +42,15 @@ export async function listInvitations(ctx: AppContext, federationId: number): Pr
     .selectFrom('invitations')
     .leftJoin('classifiers', 'classifiers.id', 'invitations.classifier_id')
     .leftJoin('users', 'users.id', 'invitations.invited_by')
-    .select(['invitations.id', 'invitations.email', 'invitations.role', 'classifiers.code', 'users.display_name', 'invitations.created_at', 'invitations.expires_at'])
+    .select([
+      'invitations.id',
+      'invitations.email',
+      'invitations.role',
+      'classifiers.code',
+      'users.display_name',
+      'invitations.created_at',
+      'invitations.expires_at',
+    ])
     .where('invitations.federation_id', '=', federationId)
     .where('invitations.accepted_at', 'is', null)
     .where('invitations.revoked_at', 'is', null)
@@ -73,9 +86,15 @@ export async function createInvitation(
       .where('user_id', '=', existing.id)
       .where('federation_id', '=', federation.id)
       .executeTakeFirst();
-    if (membership?.active === 1) throw new HttpError(409, 'conflict', `${input.email} is already a member of this federation`, [{ path: 'email', message: 'Already a member' }]);
+    if (membership?.active === 1)
+      throw new HttpError(409, 'conflict', `${input.email} is already a member of this federation`, [
+        { path: 'email', message: 'Already a member' },
+      ]);
   }
-  const classifier = input.role === 'classifier' && input.classifierCode ? await classifierForLink(ctx, federation.id, input.classifierCode, existing?.id ?? null) : null;
+  const classifier =
+    input.role === 'classifier' && input.classifierCode
+      ? await classifierForLink(ctx, federation.id, input.classifierCode, existing?.id ?? null)
+      : null;
   const { token, hash } = newSecret();
   const expiresAt = inIso(INVITATION_DAYS * 24 * 3600 * 1000);
   const id = await ctx.db.transaction().execute(async (trx) => {
@@ -100,7 +119,14 @@ export async function createInvitation(
       })
       .returning('id')
       .executeTakeFirstOrThrow();
-    await audit(trx, { federationId: federation.id, userId: inviter?.id ?? null, action: 'invitation.create', entity: 'invitation', entityId: row.id, detail: { role: input.role, classifier: classifier?.code ?? null } });
+    await audit(trx, {
+      federationId: federation.id,
+      userId: inviter?.id ?? null,
+      action: 'invitation.create',
+      entity: 'invitation',
+      entityId: row.id,
+      detail: { role: input.role, classifier: classifier?.code ?? null },
+    });
     return row.id;
   });
 
@@ -110,7 +136,9 @@ export async function createInvitation(
     greeting: 'Hello,',
     paragraphs: [
       `${inviter?.displayName ?? 'The site owner'} invites you to ${federation.name} on Panelwise as ${roleWords}.`,
-      existing ? 'You already have a Panelwise account: accepting adds this federation to it.' : 'Accepting lets you choose your name and password.',
+      existing
+        ? 'You already have a Panelwise account: accepting adds this federation to it.'
+        : 'Accepting lets you choose your name and password.',
     ],
     action: 'Accept the invitation',
     link,
@@ -119,7 +147,12 @@ export async function createInvitation(
   let mailSent = false;
   if (ctx.mailer) {
     try {
-      await ctx.mailer.send({ to: input.email, subject: `Invitation to ${federation.name} on Panelwise`, ...mail, federation: federation.slug });
+      await ctx.mailer.send({
+        to: input.email,
+        subject: `Invitation to ${federation.name} on Panelwise`,
+        ...mail,
+        federation: federation.slug,
+      });
       mailSent = true;
     } catch (error) {
       ctx.logger.error({ err: error, invitation: id }, 'the invitation e-mail could not be sent');
@@ -193,7 +226,11 @@ export async function acceptInvitation(
   newUser: AcceptNewUser | null,
 ): Promise<{ userId: number; sessionVersion: number; created: boolean; federation: { slug: string; name: string }; role: Role }> {
   const invitation = await pendingInvitation(ctx, token);
-  const existing = await ctx.db.selectFrom('users').select(['id', 'session_version']).where('email', '=', invitation.email).executeTakeFirst();
+  const existing = await ctx.db
+    .selectFrom('users')
+    .select(['id', 'session_version'])
+    .where('email', '=', invitation.email)
+    .executeTakeFirst();
   if (!existing && !newUser) {
     throw new HttpError(400, 'validation_failed', 'Choose your name and password', [
       { path: 'displayName', message: 'Enter your name' },
@@ -238,7 +275,12 @@ export async function acceptInvitation(
         .where('id', '=', invitation.classifier_id)
         .where((eb) => eb.or([eb('user_id', 'is', null), eb('user_id', '=', userId)]))
         .executeTakeFirst();
-      if (Number(linked.numUpdatedRows) !== 1) throw new HttpError(409, 'conflict', `Classifier ${invitation.code} is already linked to another account; ask your lead for a new invitation`);
+      if (Number(linked.numUpdatedRows) !== 1)
+        throw new HttpError(
+          409,
+          'conflict',
+          `Classifier ${invitation.code} is already linked to another account; ask your lead for a new invitation`,
+        );
     }
     await audit(trx, {
       federationId: invitation.federationId,
@@ -248,6 +290,12 @@ export async function acceptInvitation(
       entityId: invitation.id,
       detail: { role: invitation.role, newAccount: !existing },
     });
-    return { userId, sessionVersion, created: !existing, federation: { slug: invitation.slug, name: invitation.name }, role: invitation.role };
+    return {
+      userId,
+      sessionVersion,
+      created: !existing,
+      federation: { slug: invitation.slug, name: invitation.name },
+      role: invitation.role,
+    };
   });
 }

@@ -18,8 +18,16 @@ export async function requestPasswordReset(ctx: AppContext, email: string): Prom
   if (!user) return;
   const { token, hash } = newSecret();
   await ctx.db.transaction().execute(async (trx) => {
-    await trx.updateTable('password_resets').set({ used_at: nowIso() }).where('user_id', '=', user.id).where('used_at', 'is', null).execute();
-    await trx.insertInto('password_resets').values({ user_id: user.id, token_hash: hash, expires_at: inIso(RESET_MINUTES * 60 * 1000) }).execute();
+    await trx
+      .updateTable('password_resets')
+      .set({ used_at: nowIso() })
+      .where('user_id', '=', user.id)
+      .where('used_at', 'is', null)
+      .execute();
+    await trx
+      .insertInto('password_resets')
+      .values({ user_id: user.id, token_hash: hash, expires_at: inIso(RESET_MINUTES * 60 * 1000) })
+      .execute();
     await audit(trx, { userId: user.id, action: 'password_reset.request', entity: 'user', entityId: user.id });
   });
   const link = `${ctx.config.publicOrigin}/reset-password/${token}`;
@@ -74,7 +82,12 @@ export async function completePasswordReset(ctx: AppContext, token: string, pass
       .set((eb) => ({ password_hash: passwordHash, session_version: eb('session_version', '+', 1) }))
       .where('id', '=', reset.user_id)
       .execute();
-    await trx.updateTable('sessions').set({ revoked_at: nowIso() }).where('user_id', '=', reset.user_id).where('revoked_at', 'is', null).execute();
+    await trx
+      .updateTable('sessions')
+      .set({ revoked_at: nowIso() })
+      .where('user_id', '=', reset.user_id)
+      .where('revoked_at', 'is', null)
+      .execute();
     await audit(trx, { userId: reset.user_id, action: 'password_reset.complete', entity: 'user', entityId: reset.user_id });
   });
 }

@@ -62,7 +62,8 @@ interface SqliteLike {
 
 /** The federation's k (research_export_settings.min_athletes, or the default before first use). */
 export function federationK(sqlite: SqliteLike, federationId: number): number {
-  const row = sqlite.prepare('select min_athletes from research_export_settings where federation_id = ?').get(federationId) as { min_athletes: number } | undefined;
+  const row = sqlite.prepare('select min_athletes from research_export_settings where federation_id = ?').get(federationId) as
+    { min_athletes: number } | undefined;
   return row?.min_athletes ?? DEFAULT_MIN_ATHLETES;
 }
 

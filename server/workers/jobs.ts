@@ -110,7 +110,10 @@ export class Jobs {
     let resumed = 0;
     for (const row of rows) {
       if (row.attempts >= MAX_ATTEMPTS) {
-        this.logger.error({ kind, subject: row.subject, lastError: row.last_error }, `background job given up after ${row.attempts} attempts`);
+        this.logger.error(
+          { kind, subject: row.subject, lastError: row.last_error },
+          `background job given up after ${row.attempts} attempts`,
+        );
         this.sqlite.prepare('delete from background_jobs where kind = ? and subject = ?').run(kind, row.subject);
         continue;
       }

@@ -167,7 +167,12 @@ export class Admission {
           if (i < 0) return;
           this.waiting.splice(i, 1);
           this.refused++;
-          reject(busy('The server is busy computing other figures and could not start on yours in time: try again in a few seconds', this.retryAfterSeconds()));
+          reject(
+            busy(
+              'The server is busy computing other figures and could not start on yours in time: try again in a few seconds',
+              this.retryAfterSeconds(),
+            ),
+          );
         }, this.options.queueTimeoutMs);
         entry.timer.unref();
       }
@@ -195,7 +200,10 @@ export class Admission {
 
 interface Executor {
   kind: PoolStats['kind'];
-  execute(message: Omit<TaskMessage, 'progress'>, options: { onProgress?: RunOptions['onProgress']; signal?: AbortSignal }): Promise<TaskOutcome>;
+  execute(
+    message: Omit<TaskMessage, 'progress'>,
+    options: { onProgress?: RunOptions['onProgress']; signal?: AbortSignal },
+  ): Promise<TaskOutcome>;
   close(): Promise<void>;
 }
 
@@ -206,7 +214,9 @@ function inlineExecutor(getCtx: () => AppContext): Executor {
     async execute(message, options) {
       // Yield first, as a worker would: the caller's code after run() never runs inside the task.
       await new Promise((resolve) => setImmediate(resolve));
-      const reporter = { report: (phase: ProgressMessage['phase'], done: number, total: number) => options.onProgress?.(phase, done, total) };
+      const reporter = {
+        report: (phase: ProgressMessage['phase'], done: number, total: number) => options.onProgress?.(phase, done, total),
+      };
       const value = await taskSpec(message.name).run(getCtx(), message.payload, { reporter });
       // The same boundary as a worker's result: plain data only, and a copy the caller may not alter in the cache.
       return { ok: true, value: structuredClone(value), bumped: [], mail: [], threadId: 0 };
@@ -241,11 +251,19 @@ function workerExecutor(setup: WorkerSetup, threads: number): Executor {
       if (port) transferList.push(port.port2 as unknown as MessagePort);
       // An uploaded file is handed over, not copied, when its bytes own their whole buffer.
       const bytes = payload?.file?.bytes;
-      if (bytes instanceof Uint8Array && bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength && bytes.buffer instanceof ArrayBuffer) {
+      if (
+        bytes instanceof Uint8Array &&
+        bytes.byteOffset === 0 &&
+        bytes.byteLength === bytes.buffer.byteLength &&
+        bytes.buffer instanceof ArrayBuffer
+      ) {
         transferList.push(bytes.buffer);
       }
       try {
-        return (await piscina.run({ ...message, progress: port?.port2 ?? null }, { transferList: transferList as never, signal: options.signal ?? null })) as TaskOutcome;
+        return (await piscina.run(
+          { ...message, progress: port?.port2 ?? null },
+          { transferList: transferList as never, signal: options.signal ?? null },
+        )) as TaskOutcome;
       } finally {
         port?.port1.close();
       }
@@ -262,7 +280,8 @@ function workerExecutor(setup: WorkerSetup, threads: number): Executor {
 const CACHE_ENTRIES = 300;
 
 function revive(error: SerializedError): Error {
-  if (error.status !== null && error.code !== null) return new HttpError(error.status, error.code as ErrorCode, error.message, error.details, error.headers);
+  if (error.status !== null && error.code !== null)
+    return new HttpError(error.status, error.code as ErrorCode, error.message, error.details, error.headers);
   const e = new Error(error.message);
   if (error.stack) e.stack = error.stack;
   if (error.code) (e as { code?: string }).code = error.code;
@@ -287,9 +306,13 @@ function makePool(getCtx: () => AppContext, executor: Executor, options: PoolOpt
     timer?.unref();
     let outcome: TaskOutcome;
     try {
-      outcome = await executor.execute({ name, payload, federationId: run.federationId, version }, { onProgress: run.onProgress, signal: abort?.signal });
+      outcome = await executor.execute(
+        { name, payload, federationId: run.federationId, version },
+        { onProgress: run.onProgress, signal: abort?.signal },
+      );
     } catch (error) {
-      if (abort?.signal.aborted) throw busy(`The computation took longer than ${Math.round(options.runTimeoutMs / 1000)} s and was stopped: try again later`, 30);
+      if (abort?.signal.aborted)
+        throw busy(`The computation took longer than ${Math.round(options.runTimeoutMs / 1000)} s and was stopped: try again later`, 30);
       throw error;
     } finally {
       if (timer) clearTimeout(timer);
@@ -337,18 +360,15 @@ function makePool(getCtx: () => AppContext, executor: Executor, options: PoolOpt
         running.delete(promise);
         if (fullKey !== null) inflight.delete(fullKey);
       };
-      promise.then(
-        (value) => {
-          settle();
-          if (fullKey === null) return;
-          results.set(fullKey, value);
-          for (const k of results.keys()) {
-            if (results.size <= CACHE_ENTRIES) break;
-            results.delete(k);
-          }
-        },
-        settle,
-      );
+      promise.then((value) => {
+        settle();
+        if (fullKey === null) return;
+        results.set(fullKey, value);
+        for (const k of results.keys()) {
+          if (results.size <= CACHE_ENTRIES) break;
+          results.delete(k);
+        }
+      }, settle);
       if (fullKey !== null) inflight.set(fullKey, promise);
       return promise as never;
     },

@@ -66,25 +66,39 @@ export const tasks = {
   'analytics.classifiers': task({ run: (ctx, p: ViewPayload) => classifierFigures(ctx, p.federation, p.filters) }),
   'analytics.severity-network': task({ run: (ctx, p: ViewPayload) => severityNetwork(ctx, p.federation, p.filters) }),
   'analytics.classifier': task({
-    run: (ctx, p: ViewPayload & { code: string; thresholds: FlagThresholds }) => classifierDetailFigures(ctx, p.federation, p.filters, p.code, p.thresholds),
+    run: (ctx, p: ViewPayload & { code: string; thresholds: FlagThresholds }) =>
+      classifierDetailFigures(ctx, p.federation, p.filters, p.code, p.thresholds),
   }),
   'analytics.pairs': task({ run: (ctx, p: ViewPayload) => pairs(ctx, p.federation, p.filters) }),
   'analytics.pair': task({ run: (ctx, p: ViewPayload & { a: string; b: string }) => pairDetail(ctx, p.federation, p.filters, p.a, p.b) }),
   'analytics.boundaries': task({ run: (ctx, p: ViewPayload) => boundaries(ctx, p.federation, p.filters) }),
-  'analytics.rater-drift': task({ run: (ctx, p: ViewPayload & { thresholds: FlagThresholds }) => raterDrift(ctx, p.federation, p.filters, p.thresholds) }),
-  'analytics.class-drift': task({ run: (ctx, p: ViewPayload & { withChanges: boolean }) => classDrift(ctx, p.federation, p.filters, p.withChanges) }),
+  'analytics.rater-drift': task({
+    run: (ctx, p: ViewPayload & { thresholds: FlagThresholds }) => raterDrift(ctx, p.federation, p.filters, p.thresholds),
+  }),
+  'analytics.class-drift': task({
+    run: (ctx, p: ViewPayload & { withChanges: boolean }) => classDrift(ctx, p.federation, p.filters, p.withChanges),
+  }),
 
   // Calibration flags: the engine's figures on all ratings, then the flags' rows and the leads' e-mail.
-  'flags.evaluate': task({ writes: true, run: (ctx, p: { federationId: number; cause?: string }) => evaluateFlags(ctx, p.federationId, { cause: p.cause }) }),
+  'flags.evaluate': task({
+    writes: true,
+    run: (ctx, p: { federationId: number; cause?: string }) => evaluateFlags(ctx, p.federationId, { cause: p.cause }),
+  }),
 
   // A research export: read the scope, build the files, store them (server/exports/service.ts).
-  'exports.create': task({ writes: true, run: (ctx, p: { access: FederationAccess; request: ExportRequest }) => createExport(ctx, p.access, p.request) }),
+  'exports.create': task({
+    writes: true,
+    run: (ctx, p: { access: FederationAccess; request: ExportRequest }) => createExport(ctx, p.access, p.request),
+  }),
 
   // Imports (server/imports/service.ts): the dry run of an uploaded file, commit and revert.
   'imports.dry-run': task({
     writes: true,
-    run: (ctx, p: { federation: Federation; userId: number | null; file: { bytes: Uint8Array; name: string | null }; options: UploadOptions }, tools) =>
-      dryRunCsv(ctx, p.federation, p.userId, p.file, p.options, tools.reporter),
+    run: (
+      ctx,
+      p: { federation: Federation; userId: number | null; file: { bytes: Uint8Array; name: string | null }; options: UploadOptions },
+      tools,
+    ) => dryRunCsv(ctx, p.federation, p.userId, p.file, p.options, tools.reporter),
   }),
   'imports.commit': task({
     writes: true,
@@ -93,7 +107,8 @@ export const tasks = {
   }),
   'imports.revert': task({
     writes: true,
-    run: (ctx, p: { federation: Federation; userId: number | null; importId: number }, tools) => revertImport(ctx, p.federation, p.userId, p.importId, tools.reporter),
+    run: (ctx, p: { federation: Federation; userId: number | null; importId: number }, tools) =>
+      revertImport(ctx, p.federation, p.userId, p.importId, tools.reporter),
   }),
 };
 

@@ -15,7 +15,11 @@ export const newPasswordSchema = z
   .min(PASSWORD_MIN, { message: `Use at least ${PASSWORD_MIN} characters` })
   .max(200, { message: 'Use at most 200 characters' });
 
-export const displayNameSchema = z.string().trim().min(1, { message: 'Enter your name' }).max(120, { message: 'Use at most 120 characters' });
+export const displayNameSchema = z
+  .string()
+  .trim()
+  .min(1, { message: 'Enter your name' })
+  .max(120, { message: 'Use at most 120 characters' });
 
 export const classifierCodeSchema = z.string().trim().min(1).max(40);
 
@@ -28,8 +32,14 @@ export const inviteSchema = z
     /** For a classifier: the roster entry (classifier code) to link the account to. */
     classifierCode: classifierCodeSchema.optional(),
   })
-  .refine((v) => v.role !== 'classifier' || !!v.classifierCode, { path: ['classifierCode'], message: 'Choose the roster entry of the classifier' })
-  .refine((v) => v.role === 'classifier' || !v.classifierCode, { path: ['classifierCode'], message: 'Only a classifier is linked to a roster entry' });
+  .refine((v) => v.role !== 'classifier' || !!v.classifierCode, {
+    path: ['classifierCode'],
+    message: 'Choose the roster entry of the classifier',
+  })
+  .refine((v) => v.role === 'classifier' || !v.classifierCode, {
+    path: ['classifierCode'],
+    message: 'Only a classifier is linked to a roster entry',
+  });
 export type Invite = z.infer<typeof inviteSchema>;
 
 export const invitationViewSchema = z.object({
@@ -113,7 +123,9 @@ export const memberUpdateSchema = z
     classifierCode: classifierCodeSchema.nullable().optional(),
   })
   .strict()
-  .refine((v) => v.role !== undefined || v.active !== undefined || v.classifierCode !== undefined, { message: 'Say what to change: role, active or classifierCode' });
+  .refine((v) => v.role !== undefined || v.active !== undefined || v.classifierCode !== undefined, {
+    message: 'Say what to change: role, active or classifierCode',
+  });
 export type MemberUpdate = z.infer<typeof memberUpdateSchema>;
 
 // --- API tokens ----------------------------------------------------------------------------------

@@ -91,7 +91,12 @@ export const filterOptionsSchema = z.object({
 });
 export type FilterOptions = z.infer<typeof filterOptionsSchema>;
 
-export const quarterStatSchema = z.object({ quarter: z.string(), n: z.number(), value: z.number().nullable(), ci95: intervalSchema.nullable() });
+export const quarterStatSchema = z.object({
+  quarter: z.string(),
+  n: z.number(),
+  value: z.number().nullable(),
+  ci95: intervalSchema.nullable(),
+});
 export type QuarterStat = z.infer<typeof quarterStatSchema>;
 
 export const confusionSchema = z.object({
@@ -200,7 +205,10 @@ const whole = (min: number, max: number, unit: string) =>
     .min(min, { message: `At least ${min} ${unit}` })
     .max(max, { message: `At most ${max.toLocaleString('en')} ${unit}` });
 const number = (min: number, max: number, unit: string) =>
-  z.coerce.number({ message: 'Enter a number' }).min(min, { message: `At least ${min} ${unit}` }).max(max, { message: `At most ${max} ${unit}` });
+  z.coerce
+    .number({ message: 'Enter a number' })
+    .min(min, { message: `At least ${min} ${unit}` })
+    .max(max, { message: `At most ${max} ${unit}` });
 
 export const flagThresholdsSchema = z.object({
   /** Benjamini–Hochberg false-discovery rate per rule across the roster. */
@@ -273,7 +281,12 @@ export const coefficientSchema = z.object({
 });
 export type Coefficient = z.infer<typeof coefficientSchema>;
 
-export const splitSchema = statSchema.extend({ lower: z.string(), upper: z.string(), splitRate: z.number().nullable(), splits: z.number() });
+export const splitSchema = statSchema.extend({
+  lower: z.string(),
+  upper: z.string(),
+  splitRate: z.number().nullable(),
+  splits: z.number(),
+});
 
 export const overviewSchema = z.object({
   counts: z.object({
@@ -467,7 +480,9 @@ export type PairDetail = z.infer<typeof pairDetailSchema>;
 
 export const boundariesResponseSchema = z.object({
   boundaries: z.array(statSchema.extend({ lower: z.string(), upper: z.string(), splitRate: z.number().nullable(), splits: z.number() })),
-  trend: z.array(z.object({ quarter: z.string(), boundary: z.string(), n: z.number(), value: z.number().nullable(), ci95: intervalSchema.nullable() })),
+  trend: z.array(
+    z.object({ quarter: z.string(), boundary: z.string(), n: z.number(), value: z.number().nullable(), ci95: intervalSchema.nullable() }),
+  ),
 });
 export type BoundariesResponse = z.infer<typeof boundariesResponseSchema>;
 

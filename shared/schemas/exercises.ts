@@ -30,33 +30,53 @@ export type ExerciseStatus = z.infer<typeof exerciseStatusSchema>;
 
 export const EXERCISE_STATUS_LABELS: Record<ExerciseStatus, string> = { draft: 'Draft', open: 'Open', closed: 'Closed' };
 
-const halfPoints = z.number({ message: 'Enter a class' }).int({ message: 'is not a class in half points' }).min(2, { message: 'is below 1.0' }).max(10, { message: 'is above 5.0' });
+const halfPoints = z
+  .number({ message: 'Enter a class' })
+  .int({ message: 'is not a class in half points' })
+  .min(2, { message: 'is below 1.0' })
+  .max(10, { message: 'is above 5.0' });
 
 /** An http(s) link (a video to watch): only the address is kept. */
 export const videoUrlSchema = z
   .string()
   .trim()
   .max(2000, { message: 'The link is at most 2,000 characters' })
-  .refine((v) => {
-    try {
-      const u = new URL(v);
-      return (u.protocol === 'http:' || u.protocol === 'https:') && u.hostname.length > 0;
-    } catch {
-      return false;
-    }
-  }, { message: 'is not an http(s) address' });
+  .refine(
+    (v) => {
+      try {
+        const u = new URL(v);
+        return (u.protocol === 'http:' || u.protocol === 'https:') && u.hostname.length > 0;
+      } catch {
+        return false;
+      }
+    },
+    { message: 'is not an http(s) address' },
+  );
 
-const uniqueSkills = z.array(skillSchema).max(SKILLS.length).refine((a) => new Set(a).size === a.length, { message: 'names a skill twice' });
+const uniqueSkills = z
+  .array(skillSchema)
+  .max(SKILLS.length)
+  .refine((a) => new Set(a).size === a.length, { message: 'names a skill twice' });
 
 export const exerciseCaseInputSchema = z.object({
-  description: z.string().trim().min(1, { message: 'Describe the case' }).max(2000, { message: 'The description is at most 2,000 characters' }),
-  videoUrl: z.union([videoUrlSchema, z.literal('').transform(() => null), z.null()]).optional().transform((v) => v ?? null),
+  description: z
+    .string()
+    .trim()
+    .min(1, { message: 'Describe the case' })
+    .max(2000, { message: 'The description is at most 2,000 characters' }),
+  videoUrl: z
+    .union([videoUrlSchema, z.literal('').transform(() => null), z.null()])
+    .optional()
+    .transform((v) => v ?? null),
   skills: uniqueSkills.min(1, { message: 'Tick at least one skill to watch' }),
   referenceClass: halfPoints,
 });
 export type ExerciseCaseInput = z.input<typeof exerciseCaseInputSchema>;
 
-export const exerciseSourceSchema = z.object({ kind: z.enum(['flag', 'boundary']), ref: z.string().regex(/^\d{1,9}$/, { message: 'is not a flag id or a class' }) });
+export const exerciseSourceSchema = z.object({
+  kind: z.enum(['flag', 'boundary']),
+  ref: z.string().regex(/^\d{1,9}$/, { message: 'is not a flag id or a class' }),
+});
 export type ExerciseSource = z.infer<typeof exerciseSourceSchema>;
 
 const classifierCode = z.string().regex(/^[A-Za-z0-9._-]{1,64}$/, { message: 'is not a classifier code' });
@@ -80,12 +100,21 @@ export type ExerciseInput = z.input<typeof exerciseInputSchema>;
 export const answerInputSchema = z.object({
   sportClass: halfPoints,
   skills: uniqueSkills.default([]),
-  reason: z.string().trim().max(500, { message: 'The reason is at most 500 characters' }).optional().transform((v) => (v ? v : null)),
+  reason: z
+    .string()
+    .trim()
+    .max(500, { message: 'The reason is at most 500 characters' })
+    .optional()
+    .transform((v) => (v ? v : null)),
 });
 export type AnswerInput = z.input<typeof answerInputSchema>;
 
 export const closeFlagInputSchema = z.object({
-  note: z.string().trim().min(1, { message: 'Say what the exercise showed' }).max(2000, { message: 'The note is at most 2,000 characters' }),
+  note: z
+    .string()
+    .trim()
+    .min(1, { message: 'Say what the exercise showed' })
+    .max(2000, { message: 'The note is at most 2,000 characters' }),
 });
 
 // ---------------------------------------------------------------------------------------------
@@ -198,7 +227,13 @@ export const beforeAfterSchema = z.object({
   before: panelWindowSchema,
   after: panelWindowSchema,
   quarters: z.array(
-    z.object({ quarter: z.string(), phase: z.enum(['before', 'during', 'after']), n: z.number(), exact: z.number().nullable(), meanDeviation: z.number().nullable() }),
+    z.object({
+      quarter: z.string(),
+      phase: z.enum(['before', 'during', 'after']),
+      n: z.number(),
+      exact: z.number().nullable(),
+      meanDeviation: z.number().nullable(),
+    }),
   ),
 });
 export type BeforeAfter = z.infer<typeof beforeAfterSchema>;

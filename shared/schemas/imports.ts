@@ -4,7 +4,10 @@ import { DATE_FORMATS, IMPORT_LAYOUTS, isColumnTarget } from '../import-columns'
 export const importLayoutSchema = z.enum(IMPORT_LAYOUTS);
 export const dateFormatSchema = z.enum(DATE_FORMATS);
 
-export const columnTargetSchema = z.string().refine(isColumnTarget, { message: 'is not a column of the import' }).transform((v) => v);
+export const columnTargetSchema = z
+  .string()
+  .refine(isColumnTarget, { message: 'is not a column of the import' })
+  .transform((v) => v);
 
 export const columnMappingSchema = z.record(z.string().trim().min(1).max(200), columnTargetSchema);
 

@@ -26,7 +26,9 @@ function NoFederation() {
   return (
     <main className="mx-auto max-w-xl p-8">
       <h1>No federation yet</h1>
-      <p className="mt-2 text-muted">Your account is not a member of any federation. Ask your federation's classification lead for an invitation.</p>
+      <p className="mt-2 text-muted">
+        Your account is not a member of any federation. Ask your federation's classification lead for an invitation.
+      </p>
     </main>
   );
 }
@@ -70,7 +72,10 @@ export function FederationLayout() {
 
   return (
     <div className="min-h-screen">
-      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-card focus:p-2">
+      <a
+        href="#main"
+        className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-card focus:p-2"
+      >
         Skip to content
       </a>
       <header className="border-b border-line bg-card">
@@ -95,7 +100,9 @@ export function FederationLayout() {
                 </option>
               ))}
             </select>
-            <span className="hidden shrink-0 rounded-full bg-harbour-soft px-2.5 py-1 text-xs font-semibold text-harbour md:inline">{ROLE_NAMES[membership.role]}</span>
+            <span className="hidden shrink-0 rounded-full bg-harbour-soft px-2.5 py-1 text-xs font-semibold text-harbour md:inline">
+              {ROLE_NAMES[membership.role]}
+            </span>
           </div>
           <div className="ml-auto hidden items-center gap-3 text-sm md:flex">
             <span className="text-muted">{session.data?.user.displayName}</span>
@@ -137,7 +144,9 @@ export function FederationLayout() {
             </ul>
           </nav>
           <div className="flex flex-wrap items-center gap-3 border-t border-line px-4 py-3 text-sm md:hidden">
-            <span className="rounded-full bg-harbour-soft px-2.5 py-1 text-xs font-semibold text-harbour">{ROLE_NAMES[membership.role]}</span>
+            <span className="rounded-full bg-harbour-soft px-2.5 py-1 text-xs font-semibold text-harbour">
+              {ROLE_NAMES[membership.role]}
+            </span>
             <span className="mr-auto text-muted">{session.data?.user.displayName}</span>
             {signOutButton}
           </div>

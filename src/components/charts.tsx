@@ -11,7 +11,14 @@ import { num } from '../lib/stat-format';
  * stays readable with the common colour-vision deficiencies.
  */
 
-const quarterAxis = (width: number) => ({ label: 'Quarter (calendar)', type: 'point' as const, tickRotate: width < 640 ? -45 : 0, padding: 0.3, labelAnchor: 'center' as const, labelOffset: width < 640 ? 66 : 32 });
+const quarterAxis = (width: number) => ({
+  label: 'Quarter (calendar)',
+  type: 'point' as const,
+  tickRotate: width < 640 ? -45 : 0,
+  padding: 0.3,
+  labelAnchor: 'center' as const,
+  labelOffset: width < 640 ? 66 : 32,
+});
 
 /** On a long span, every quarter's label would run together: label each year's first quarter only. */
 function quarterTicks(range: string[], width: number): { ticks?: string[] } {
@@ -68,7 +75,14 @@ export function TrendChart({
           Plot.areaY(band, { x: 'quarter', y1: 'lo', y2: 'hi', fill: CHART_COLORS[0], fillOpacity: 0.18, curve: 'linear' }),
           reference === undefined ? null : Plot.ruleY([reference], { stroke: MUTED, strokeDasharray: '4 3' }),
           Plot.lineY(line, { x: 'quarter', y: 'value', stroke: CHART_COLORS[0], strokeWidth: 2 }),
-          Plot.dot(data, { x: 'quarter', y: 'value', fill: CHART_COLORS[0], r: 3, tip: true, title: (d: QuarterStat) => `${d.quarter}: ${num(d.value, 3)} (n = ${d.n})` }),
+          Plot.dot(data, {
+            x: 'quarter',
+            y: 'value',
+            fill: CHART_COLORS[0],
+            r: 3,
+            tip: true,
+            title: (d: QuarterStat) => `${d.quarter}: ${num(d.value, 3)} (n = ${d.n})`,
+          }),
         ],
       })}
     />
@@ -76,8 +90,24 @@ export function TrendChart({
 }
 
 /** Counts of class by class, with the counts written in the cells. */
-export function ConfusionChart({ confusion, title, xLabel, yLabel, fileName, summary }: { confusion: Confusion; title: string; xLabel: string; yLabel: string; fileName: string; summary: string }) {
-  const cells = confusion.counts.flatMap((row, i) => row.map((n, j) => ({ row: confusion.classes[i], column: confusion.classes[j], n, diagonal: i === j })));
+export function ConfusionChart({
+  confusion,
+  title,
+  xLabel,
+  yLabel,
+  fileName,
+  summary,
+}: {
+  confusion: Confusion;
+  title: string;
+  xLabel: string;
+  yLabel: string;
+  fileName: string;
+  summary: string;
+}) {
+  const cells = confusion.counts.flatMap((row, i) =>
+    row.map((n, j) => ({ row: confusion.classes[i], column: confusion.classes[j], n, diagonal: i === j })),
+  );
   const max = Math.max(1, ...cells.map((c) => c.n));
   return (
     <PlotFigure
@@ -120,8 +150,22 @@ export interface BoundaryBar {
 }
 
 /** Split rate per class boundary with its 95 % interval. */
-export function BoundaryBars({ bars, title, fileName, summary, yLabel = 'Split rate (%)' }: { bars: BoundaryBar[]; title: string; fileName: string; summary: string; yLabel?: string }) {
-  const data = bars.filter((b) => b.value !== null).map((b) => ({ ...b, value: b.value! * 100, lo: b.lo === null ? null : b.lo * 100, hi: b.hi === null ? null : b.hi * 100 }));
+export function BoundaryBars({
+  bars,
+  title,
+  fileName,
+  summary,
+  yLabel = 'Split rate (%)',
+}: {
+  bars: BoundaryBar[];
+  title: string;
+  fileName: string;
+  summary: string;
+  yLabel?: string;
+}) {
+  const data = bars
+    .filter((b) => b.value !== null)
+    .map((b) => ({ ...b, value: b.value! * 100, lo: b.lo === null ? null : b.lo * 100, hi: b.hi === null ? null : b.hi * 100 }));
   return (
     <PlotFigure
       title={title}
@@ -131,11 +175,34 @@ export function BoundaryBars({ bars, title, fileName, summary, yLabel = 'Split r
       height={280}
       build={(width) => ({
         marginLeft: 56,
-        ...pick(categoryAxis(bars.map((b) => b.boundary), width - 76), 'marginBottom'),
-        x: { label: 'Class boundary (lower/upper class)', domain: bars.map((b) => b.boundary), padding: 0.25, ...omit(categoryAxis(bars.map((b) => b.boundary), width - 76), 'marginBottom') },
+        ...pick(
+          categoryAxis(
+            bars.map((b) => b.boundary),
+            width - 76,
+          ),
+          'marginBottom',
+        ),
+        x: {
+          label: 'Class boundary (lower/upper class)',
+          domain: bars.map((b) => b.boundary),
+          padding: 0.25,
+          ...omit(
+            categoryAxis(
+              bars.map((b) => b.boundary),
+              width - 76,
+            ),
+            'marginBottom',
+          ),
+        },
         y: { label: yLabel, grid: true, domain: [0, Math.max(10, ...data.map((d) => d.hi ?? d.value)) * 1.05] },
         marks: [
-          Plot.barY(data, { x: 'boundary', y: 'value', fill: CHART_COLORS[1], tip: true, title: (d: BoundaryBar) => `${d.boundary}: ${num(d.value, 1)} % of ${d.n}` }),
+          Plot.barY(data, {
+            x: 'boundary',
+            y: 'value',
+            fill: CHART_COLORS[1],
+            tip: true,
+            title: (d: BoundaryBar) => `${d.boundary}: ${num(d.value, 1)} % of ${d.n}`,
+          }),
           Plot.ruleX(
             data.filter((d) => d.lo !== null),
             { x: 'boundary', y1: 'lo', y2: 'hi', stroke: INK, strokeWidth: 1.5 },
@@ -148,7 +215,17 @@ export function BoundaryBars({ bars, title, fileName, summary, yLabel = 'Split r
 }
 
 /** Split rate of each boundary by quarter, one small panel per boundary. */
-export function BoundaryTrend({ trend, title, fileName, summary }: { trend: { quarter: string; boundary: string; value: number | null; n: number }[]; title: string; fileName: string; summary: string }) {
+export function BoundaryTrend({
+  trend,
+  title,
+  fileName,
+  summary,
+}: {
+  trend: { quarter: string; boundary: string; value: number | null; n: number }[];
+  title: string;
+  fileName: string;
+  summary: string;
+}) {
   const quarters = quarterRange(trend.map((t) => t.quarter));
   const boundaries = [...new Set(trend.map((t) => t.boundary))];
   // Each boundary's series over every quarter of the span: a quarter without panels is a gap.
@@ -324,17 +401,43 @@ export function MultiLineChart({
             lines.filter((d) => colorOf.has(d.name)),
             { x: 'quarter', y: 'value', z: 'name', stroke: (d: { name: string }) => colorOf.get(d.name)!, strokeWidth: 2.25 },
           ),
-          Plot.tip(data, Plot.pointer({ x: 'quarter', y: 'value', title: (d: { name: string; quarter: string; value: number; n: number }) => `${d.name}, ${d.quarter}: ${formatPoints(d.value)} (n = ${d.n})` })),
+          Plot.tip(
+            data,
+            Plot.pointer({
+              x: 'quarter',
+              y: 'value',
+              title: (d: { name: string; quarter: string; value: number; n: number }) =>
+                `${d.name}, ${d.quarter}: ${formatPoints(d.value)} (n = ${d.n})`,
+            }),
+          ),
         ],
       })}
     >
-      {highlight.length ? <Legend items={[...highlight.map((h) => ({ label: h, color: colorOf.get(h)! })), { label: 'Others', color: '#c4c0b6' }]} /> : null}
+      {highlight.length ? (
+        <Legend items={[...highlight.map((h) => ({ label: h, color: colorOf.get(h)! })), { label: 'Others', color: '#c4c0b6' }]} />
+      ) : null}
     </PlotFigure>
   );
 }
 
 /** The federation's values as unlabelled dots with one's own value marked. */
-export function DistributionChart({ values, own, title, xLabel, fileName, summary, domain }: { values: number[]; own: number | null; title: string; xLabel: string; fileName: string; summary: string; domain?: [number, number] }) {
+export function DistributionChart({
+  values,
+  own,
+  title,
+  xLabel,
+  fileName,
+  summary,
+  domain,
+}: {
+  values: number[];
+  own: number | null;
+  title: string;
+  xLabel: string;
+  fileName: string;
+  summary: string;
+  domain?: [number, number];
+}) {
   return (
     <PlotFigure
       title={title}
@@ -350,7 +453,17 @@ export function DistributionChart({ values, own, title, xLabel, fileName, summar
         marks: [
           Plot.dotX(values, Plot.dodgeY({ x: (d: number) => d, r: 5, fill: '#c4c0b6', stroke: 'white', anchor: 'middle' })),
           own === null ? null : Plot.ruleX([own], { stroke: CHART_COLORS[1], strokeWidth: 3 }),
-          own === null ? null : Plot.text([own], { x: (d: number) => d, frameAnchor: 'top', dy: -2, text: () => 'You', fill: INK, fontWeight: 700, lineAnchor: 'bottom' }),
+          own === null
+            ? null
+            : Plot.text([own], {
+                x: (d: number) => d,
+                frameAnchor: 'top',
+                dy: -2,
+                text: () => 'You',
+                fill: INK,
+                fontWeight: 700,
+                lineAnchor: 'bottom',
+              }),
         ],
       })}
     />
@@ -358,7 +471,19 @@ export function DistributionChart({ values, own, title, xLabel, fileName, summar
 }
 
 /** Count of outcome classes per season, stacked (ordered classes in cividis). */
-export function SeasonDistributionChart({ seasons, classes, title, fileName, summary }: { seasons: { season: string; counts: Record<string, number> }[]; classes: string[]; title: string; fileName: string; summary: string }) {
+export function SeasonDistributionChart({
+  seasons,
+  classes,
+  title,
+  fileName,
+  summary,
+}: {
+  seasons: { season: string; counts: Record<string, number> }[];
+  classes: string[];
+  title: string;
+  fileName: string;
+  summary: string;
+}) {
   const data = seasons.flatMap((s) => classes.map((c) => ({ season: s.season, sportClass: c, n: s.counts[c] ?? 0 })));
   return (
     <PlotFigure
@@ -369,12 +494,35 @@ export function SeasonDistributionChart({ seasons, classes, title, fileName, sum
       height={300}
       build={(width) => ({
         marginLeft: 56,
-        ...pick(categoryAxis(seasons.map((s) => s.season), width - 76), 'marginBottom'),
-        x: { label: 'Season (July to June)', padding: 0.3, ...omit(categoryAxis(seasons.map((s) => s.season), width - 76), 'marginBottom') },
+        ...pick(
+          categoryAxis(
+            seasons.map((s) => s.season),
+            width - 76,
+          ),
+          'marginBottom',
+        ),
+        x: {
+          label: 'Season (July to June)',
+          padding: 0.3,
+          ...omit(
+            categoryAxis(
+              seasons.map((s) => s.season),
+              width - 76,
+            ),
+            'marginBottom',
+          ),
+        },
         y: { label: 'Assessments (count)', grid: true },
         color: { type: 'ordinal', scheme: 'cividis', domain: classes, legend: false },
         marks: [
-          Plot.barY(data, { x: 'season', y: 'n', fill: 'sportClass', order: classes, tip: true, title: (d: { season: string; sportClass: string; n: number }) => `${d.season}, class ${d.sportClass}: ${d.n}` }),
+          Plot.barY(data, {
+            x: 'season',
+            y: 'n',
+            fill: 'sportClass',
+            order: classes,
+            tip: true,
+            title: (d: { season: string; sportClass: string; n: number }) => `${d.season}, class ${d.sportClass}: ${d.n}`,
+          }),
           Plot.ruleY([0]),
         ],
       })}

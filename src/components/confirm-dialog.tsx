@@ -16,7 +16,15 @@ export interface ConfirmOptions {
  * Escape cancels) naming the consequence, with focus on the safe choice when it opens and back
  * on the button that opened it when it closes. Use it through useConfirm().
  */
-export function ConfirmDialog({ open, options, onAnswer }: { open: boolean; options: ConfirmOptions | null; onAnswer: (confirmed: boolean) => void }) {
+export function ConfirmDialog({
+  open,
+  options,
+  onAnswer,
+}: {
+  open: boolean;
+  options: ConfirmOptions | null;
+  onAnswer: (confirmed: boolean) => void;
+}) {
   const ref = useRef<HTMLDialogElement>(null);
   const cancelRef = useRef<HTMLButtonElement>(null);
   const opener = useRef<Element | null>(null);

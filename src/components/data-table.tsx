@@ -48,7 +48,18 @@ export interface DataTableProps<T> {
  * An accessible table with sorting, an optional filter, pagination and a CSV download of all
  * (filtered) rows, built on TanStack Table.
  */
-export function DataTable<T>({ caption, rows, columns, csvFileName, filterable = false, pageSize = 25, emptyText = 'Nothing to show.', initialSort = [], rowKey, layout = 'scroll' }: DataTableProps<T>) {
+export function DataTable<T>({
+  caption,
+  rows,
+  columns,
+  csvFileName,
+  filterable = false,
+  pageSize = 25,
+  emptyText = 'Nothing to show.',
+  initialSort = [],
+  rowKey,
+  layout = 'scroll',
+}: DataTableProps<T>) {
   const [sorting, setSorting] = useState<SortingState>(initialSort);
   const [filter, setFilter] = useState('');
   const filterId = useId();
@@ -109,7 +120,10 @@ export function DataTable<T>({ caption, rows, columns, csvFileName, filterable =
         </div>
       ) : null}
       <div className="data-table-box overflow-x-auto rounded-lg border border-line bg-card" data-layout={layout}>
-        <table role="table" className={`data-table w-full border-collapse text-sm ${layout === 'stack' ? 'data-table-stack' : 'data-table-scroll'}`}>
+        <table
+          role="table"
+          className={`data-table w-full border-collapse text-sm ${layout === 'stack' ? 'data-table-stack' : 'data-table-scroll'}`}
+        >
           <caption className="sr-only">{caption}</caption>
           <thead role="rowgroup" className="bg-paper">
             {table.getHeaderGroups().map((group) => (
@@ -126,7 +140,11 @@ export function DataTable<T>({ caption, rows, columns, csvFileName, filterable =
                       className={`border-b border-line px-3 py-2 font-semibold ${column?.align === 'right' ? 'text-right' : 'text-left'}`}
                     >
                       {header.column.getCanSort() ? (
-                        <button type="button" className="inline-flex items-center gap-1 hover:text-harbour" onClick={header.column.getToggleSortingHandler()}>
+                        <button
+                          type="button"
+                          className="inline-flex items-center gap-1 hover:text-harbour"
+                          onClick={header.column.getToggleSortingHandler()}
+                        >
                           {flexRender(header.column.columnDef.header, header.getContext())}
                           <span aria-hidden="true" className="text-muted">
                             {sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : '↕'}
@@ -154,7 +172,12 @@ export function DataTable<T>({ caption, rows, columns, csvFileName, filterable =
                   {row.getVisibleCells().map((cell) => {
                     const column = columns.find((c) => c.key === cell.column.id);
                     return (
-                      <td key={cell.id} role="cell" data-label={column?.header} className={`px-3 py-2 ${column?.align === 'right' ? 'text-right tabular-nums' : ''}`}>
+                      <td
+                        key={cell.id}
+                        role="cell"
+                        data-label={column?.header}
+                        className={`px-3 py-2 ${column?.align === 'right' ? 'text-right tabular-nums' : ''}`}
+                      >
                         {/* Called, not mounted as a component: the cell's controls keep their state and focus across renders. */}
                         {column?.cell ? column.cell(row.original) : String(cell.getValue() ?? '—')}
                       </td>

@@ -19,7 +19,9 @@ function Message({ title, children }: { title: string; children: React.ReactNode
 export function ForbiddenPage() {
   return (
     <Message title="Not available to you">
-      <p>Your account does not have access to this page or federation. If you think it should, ask your federation's classification lead.</p>
+      <p>
+        Your account does not have access to this page or federation. If you think it should, ask your federation's classification lead.
+      </p>
     </Message>
   );
 }

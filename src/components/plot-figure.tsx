@@ -56,7 +56,13 @@ export function PlotFigure({ title, summary, build, fileName, onSelect, deps, he
       width,
       height,
       ...options,
-      style: { fontFamily: FONT, fontSize: '12px', background: 'transparent', overflow: 'visible', ...(typeof options.style === 'object' ? options.style : {}) },
+      style: {
+        fontFamily: FONT,
+        fontSize: '12px',
+        background: 'transparent',
+        overflow: 'visible',
+        ...(typeof options.style === 'object' ? options.style : {}),
+      },
     });
     chart.setAttribute('aria-hidden', 'true');
     const click = () => {
@@ -128,10 +134,20 @@ export function PlotFigure({ title, summary, build, fileName, onSelect, deps, he
           {title}
         </h3>
         <div className="flex gap-2">
-          <button type="button" className="btn btn-quiet min-h-9 px-3 py-1 text-sm" onClick={downloadSvg} aria-label={`Download “${title}” as SVG`}>
+          <button
+            type="button"
+            className="btn btn-quiet min-h-9 px-3 py-1 text-sm"
+            onClick={downloadSvg}
+            aria-label={`Download “${title}” as SVG`}
+          >
             SVG
           </button>
-          <button type="button" className="btn btn-quiet min-h-9 px-3 py-1 text-sm" onClick={downloadPng} aria-label={`Download “${title}” as PNG`}>
+          <button
+            type="button"
+            className="btn btn-quiet min-h-9 px-3 py-1 text-sm"
+            onClick={downloadPng}
+            aria-label={`Download “${title}” as PNG`}
+          >
             PNG
           </button>
         </div>

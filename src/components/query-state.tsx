@@ -21,6 +21,7 @@ export function QueryState<T>({
   what?: string;
 }) {
   if (query.isPending && !query.isError) return <Loading label={loadingLabel} />;
-  if (query.isError || query.data === undefined) return <ErrorState error={query.error} what={what} retrying={query.isFetching} onRetry={() => void query.refetch()} />;
+  if (query.isError || query.data === undefined)
+    return <ErrorState error={query.error} what={what} retrying={query.isFetching} onRetry={() => void query.refetch()} />;
   return <>{children(query.data)}</>;
 }

@@ -24,7 +24,17 @@ export function ErrorNotice({ error }: { error: unknown }) {
 }
 
 /** An error of loading data, with a button that loads it again. */
-export function ErrorState({ error, onRetry, retrying = false, what }: { error: unknown; onRetry: () => void; retrying?: boolean; what?: string }) {
+export function ErrorState({
+  error,
+  onRetry,
+  retrying = false,
+  what,
+}: {
+  error: unknown;
+  onRetry: () => void;
+  retrying?: boolean;
+  what?: string;
+}) {
   return (
     <div role="alert" className="flex flex-wrap items-center gap-3 rounded-lg bg-alert-soft px-4 py-3 text-alert">
       <p className="mr-auto">

@@ -26,7 +26,10 @@ export async function api<T>(path: string, options: RequestOptions = {}): Promis
     response = await fetch(`/api${path}`, {
       method: options.method ?? 'GET',
       credentials: 'same-origin',
-      headers: options.body === undefined || isForm ? { accept: 'application/json' } : { 'content-type': 'application/json', accept: 'application/json' },
+      headers:
+        options.body === undefined || isForm
+          ? { accept: 'application/json' }
+          : { 'content-type': 'application/json', accept: 'application/json' },
       body: options.body === undefined ? undefined : isForm ? (options.body as FormData) : JSON.stringify(options.body),
       signal: options.signal,
     });
@@ -46,7 +49,10 @@ export async function api<T>(path: string, options: RequestOptions = {}): Promis
   }
   if (!response.ok) {
     const error = (data as { error?: { code?: string; message?: string; details?: unknown } } | undefined)?.error;
-    const fallback = response.status >= 500 ? 'The server could not answer just now. Try again in a moment.' : response.statusText || `The request was refused (${response.status})`;
+    const fallback =
+      response.status >= 500
+        ? 'The server could not answer just now. Try again in a moment.'
+        : response.statusText || `The request was refused (${response.status})`;
     throw new ApiError(response.status, error?.code ?? 'unknown', error?.message ?? fallback, error?.details);
   }
   return data as T;

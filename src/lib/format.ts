@@ -26,7 +26,10 @@ function cached<T extends Intl.NumberFormat | Intl.DateTimeFormat | Intl.PluralR
 }
 
 const numberFormat = (digits: number, sign: 'negative' | 'exceptZero') =>
-  cached(`n:${digits}:${sign}`, () => new Intl.NumberFormat(locale, { minimumFractionDigits: digits, maximumFractionDigits: digits, signDisplay: sign }));
+  cached(
+    `n:${digits}:${sign}`,
+    () => new Intl.NumberFormat(locale, { minimumFractionDigits: digits, maximumFractionDigits: digits, signDisplay: sign }),
+  );
 
 const isNumber = (value: number | null | undefined): value is number => value !== null && value !== undefined && Number.isFinite(value);
 

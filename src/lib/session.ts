@@ -10,7 +10,7 @@ export function sessionQueryOptions() {
       try {
         // Without a session the server answers 200 {user: null}: the probe is not an error.
         const session = await api<SessionView | SignedOutView>('/session');
-        return session.user === null ? null : (session);
+        return session.user === null ? null : session;
       } catch (error) {
         if (error instanceof ApiError && error.status === 401) return null;
         throw error;

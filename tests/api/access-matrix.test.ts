@@ -40,8 +40,10 @@ export function registeredRoutes(router: { stack: Layer[] }, prefix = ''): { met
     if (layer.route) {
       const paths = Array.isArray(layer.route.path) ? layer.route.path : [layer.route.path];
       for (const p of paths) {
-        if (typeof p !== 'string') throw new Error(`A route is registered with a non-string path (${String(p)}): the matrix cannot name it`);
-        for (const [method, on] of Object.entries(layer.route.methods)) if (on) out.push({ method: method === '_all' ? 'all' : method, path: prefix + p });
+        if (typeof p !== 'string')
+          throw new Error(`A route is registered with a non-string path (${String(p)}): the matrix cannot name it`);
+        for (const [method, on] of Object.entries(layer.route.methods))
+          if (on) out.push({ method: method === '_all' ? 'all' : method, path: prefix + p });
       }
     } else if (layer.handle?.stack) {
       const mount = layer.slash || layer.rawPath === undefined || layer.rawPath === '/' ? '' : layer.rawPath;
@@ -54,7 +56,10 @@ export function registeredRoutes(router: { stack: Layer[] }, prefix = ''): { met
 
 async function loadEntries(): Promise<(AccessEntry & { file: string })[]> {
   const folder = path.resolve(import.meta.dirname, 'access');
-  const files = fs.readdirSync(folder).filter((f) => f.endsWith('.ts') && f !== 'types.ts').sort();
+  const files = fs
+    .readdirSync(folder)
+    .filter((f) => f.endsWith('.ts') && f !== 'types.ts')
+    .sort();
   const all: (AccessEntry & { file: string })[] = [];
   for (const file of files) {
     const module = (await import(pathToFileURL(path.join(folder, file)).href)) as { entries?: AccessEntry[] };
@@ -87,7 +92,11 @@ describe('role × route matrix', () => {
     routes = registeredRoutes(apiRouter(t.ctx) as unknown as { stack: Layer[] }).map((r) => ({ method: r.method, path: `/api${r.path}` }));
 
     // The outsider: a lead of another federation only.
-    const federation = await t.ctx.db.insertInto('federations').values({ slug: 'osprey-matrix', name: 'Osprey Matrix Test League' }).returning('id').executeTakeFirstOrThrow();
+    const federation = await t.ctx.db
+      .insertInto('federations')
+      .values({ slug: 'osprey-matrix', name: 'Osprey Matrix Test League' })
+      .returning('id')
+      .executeTakeFirstOrThrow();
     const user = await t.ctx.db
       .insertInto('users')
       .values({ email: EMAILS.outsider!, display_name: 'Outsider Lead', password_hash: await hashPassword(OUTSIDER_PASSWORD) })
@@ -112,7 +121,8 @@ describe('role × route matrix', () => {
     const method = entry.method;
     let req;
     if (caller === 'anonymous') req = request(t.app)[method](target);
-    else if (caller === 'readToken' || caller === 'importToken') req = request(t.app)[method](target).set('Authorization', `Bearer ${tokens[caller]}`);
+    else if (caller === 'readToken' || caller === 'importToken')
+      req = request(t.app)[method](target).set('Authorization', `Bearer ${tokens[caller]}`);
     else {
       let agent = entry.method === 'get' ? cachedAgents.get(caller) : undefined;
       if (!agent) {
@@ -129,7 +139,10 @@ describe('role × route matrix', () => {
   it('finds the routes on the router itself, nested routers included', () => {
     const inner = express.Router();
     inner.get('/things/:id', (_req, res) => void res.end());
-    inner.route('/things').post((_req, res) => void res.end()).delete((_req, res) => void res.end());
+    inner
+      .route('/things')
+      .post((_req, res) => void res.end())
+      .delete((_req, res) => void res.end());
     const outer = express.Router();
     outer.use('/mounted', inner);
     outer.use(express.Router().get('/flat', (_req, res) => void res.end()));

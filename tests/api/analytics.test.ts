@@ -117,7 +117,13 @@ describe('agreement dashboards API', () => {
     close(res.body.headline.pointsAtStake.offByHalf.value, stake.offByHalf.value);
     close(res.body.headline.pointsAtStake.per100, stake.per100);
     // The coefficients table: every coefficient, with its interval method; bands only on kappa-type rows, Krippendorff's rule on alpha.
-    const rows = res.body.coefficients as { id: string; value: number | null; ciMethod: string | null; interpretation: { label: string; source: string } | null; measures: string }[];
+    const rows = res.body.coefficients as {
+      id: string;
+      value: number | null;
+      ciMethod: string | null;
+      interpretation: { label: string; source: string } | null;
+      measures: string;
+    }[];
     const byId = new Map(rows.map((r) => [r.id, r]));
     close(byId.get('fleissKappa')!.value, report.fleissKappa.value);
     close(byId.get('gwet.ac1')!.value, report.gwet.ac1.value);
@@ -131,7 +137,8 @@ describe('agreement dashboards API', () => {
       expect(r.interpretation?.source ?? '').toMatch(/Krippendorff \(2004\)/);
       expect(r.interpretation?.label ?? '').not.toMatch(/Poor|Slight|Fair|Moderate|Substantial|Almost Perfect/);
     }
-    for (const cls of Object.keys(report.fleissKappaByClass)) close(byId.get(`fleissKappa.${cls}`)!.value, report.fleissKappaByClass[cls].value);
+    for (const cls of Object.keys(report.fleissKappaByClass))
+      close(byId.get(`fleissKappa.${cls}`)!.value, report.fleissKappaByClass[cls].value);
     expect(byId.get('gwet.ac1')!.interpretation?.source).toMatch(/Landis & Koch/);
     expect(byId.get('exact.unanimous')!.interpretation).toBeNull();
     for (const r of rows) expect(r.measures.length).toBeGreaterThan(10);
@@ -144,7 +151,9 @@ describe('agreement dashboards API', () => {
     expect(res.body.counts).toMatchObject({ assessments: report.counts.assessments, ratings: report.counts.ratings, classifiers: 20 });
     expect(res.body.sources.landisKoch).toMatch(/Landis & Koch \(1977\)/);
     expect(res.body.trend.length).toBeGreaterThan(8);
-    expect(res.body.trend.map((p: { quarter: string }) => p.quarter)).toEqual([...res.body.trend.map((p: { quarter: string }) => p.quarter)].sort());
+    expect(res.body.trend.map((p: { quarter: string }) => p.quarter)).toEqual(
+      [...res.body.trend.map((p: { quarter: string }) => p.quarter)].sort(),
+    );
     expect(res.body.openFlags).toEqual(expect.any(Array));
   });
 
@@ -152,11 +161,17 @@ describe('agreement dashboards API', () => {
     const res = await lead.get(`${base}/overview?season=2024&kind=review&category=women`);
     expect(res.status).toBe(200);
     const women = new Set(
-      (t.ctx.sqlite.prepare("select code from athletes where category = 'women' and federation_id = (select id from federations where slug = 'kestrel-coast')").all() as { code: string }[]).map(
-        (r) => r.code,
-      ),
+      (
+        t.ctx.sqlite
+          .prepare(
+            "select code from athletes where category = 'women' and federation_id = (select id from federations where slug = 'kestrel-coast')",
+          )
+          .all() as { code: string }[]
+      ).map((r) => r.code),
     );
-    const narrowed = subsetRatingSet(filterRatingSet(set, { from: '2024-07-01', to: '2025-06-30', kinds: ['review'] }), (a, s) => women.has(s.athleteCodes[s.athlete[a]]));
+    const narrowed = subsetRatingSet(filterRatingSet(set, { from: '2024-07-01', to: '2025-06-30', kinds: ['review'] }), (a, s) =>
+      women.has(s.athleteCodes[s.athlete[a]]),
+    );
     const report = analyzeRatings(narrowed);
     expect(res.body.counts.assessments).toBe(narrowed.assessmentCount);
     close(res.body.alpha.value, report.krippendorffAlpha.ordinal.value);
@@ -198,8 +213,12 @@ describe('agreement dashboards API', () => {
     expect(res.status).toBe(200);
     const confusion = confusionWithPanel(set, 'C05');
     expect(res.body.confusion.counts).toEqual(confusion.counts);
-    expect(res.body.biasByQuarter.map((q: { value: number }) => q.value)).toEqual(deviationByQuarter(set, 'C05').map((q) => q.result.value));
-    expect(res.body.boundaries.map((b: { splitRate: number | null }) => b.splitRate)).toEqual(classifierBoundarySplits(confusion).map((b) => b.splitRate));
+    expect(res.body.biasByQuarter.map((q: { value: number }) => q.value)).toEqual(
+      deviationByQuarter(set, 'C05').map((q) => q.result.value),
+    );
+    expect(res.body.boundaries.map((b: { splitRate: number | null }) => b.splitRate)).toEqual(
+      classifierBoundarySplits(confusion).map((b) => b.splitRate),
+    );
     const series = classifierDeviations(set, 'C05');
     const cp = changePointTest(series.deviation, hashSeed('C05', 1))!;
     expect(res.body.drift.n).toBe(series.deviation.length);
@@ -236,7 +255,9 @@ describe('agreement dashboards API', () => {
     close(detail.body.stats.ac1.value, two.ac1.value);
     close(detail.body.stats.kappa.value, two.kappa.value);
     close(detail.body.stats.pointsApart.meanAbs.value, pointsApart(cm.counts).meanAbs.value);
-    expect(detail.body.stats.splits.map((x: { splitRate: number | null }) => x.splitRate)).toEqual(classifierBoundarySplits(cm).map((x) => x.splitRate));
+    expect(detail.body.stats.splits.map((x: { splitRate: number | null }) => x.splitRate)).toEqual(
+      classifierBoundarySplits(cm).map((x) => x.splitRate),
+    );
   });
 
   it('boundaries: split rates and the quarterly trend equal classBoundaries', async () => {
@@ -298,7 +319,16 @@ describe('agreement dashboards API', () => {
       for (const a of names.athletes.slice(0, 50)) expect(text).not.toContain(a.displayName);
       if (path !== '/filters') expect(text).not.toMatch(/\d{4}-\d{2}-\d{2}/);
     }
-    for (const path of ['/classifiers', '/classifiers/C12', '/me', '/pairs', '/pairs/C01/C02', '/drift/raters', '/flags', '/flag-settings']) {
+    for (const path of [
+      '/classifiers',
+      '/classifiers/C12',
+      '/me',
+      '/pairs',
+      '/pairs/C01/C02',
+      '/drift/raters',
+      '/flags',
+      '/flag-settings',
+    ]) {
       expect((await researcher.get(base + path)).status).toBe(403);
     }
     // No event list and no event filter for researchers (400, naming the field); no aggregate of fewer than 10 athletes for anyone but a lead.
@@ -328,13 +358,18 @@ describe('agreement dashboards API', () => {
     const fed = t.ctx.sqlite.prepare("select id from federations where slug = 'kestrel-coast'").get() as { id: number };
     const athlete = t.ctx.sqlite.prepare('select id from athletes where federation_id = ? limit 1').get(fed.id) as { id: number };
     const event = t.ctx.sqlite.prepare('select id from events where federation_id = ? limit 1').get(fed.id) as { id: number };
-    const cs = t.ctx.sqlite.prepare("select id from classifiers where federation_id = ? and code in ('C01', 'C02')").all(fed.id) as { id: number }[];
+    const cs = t.ctx.sqlite.prepare("select id from classifiers where federation_id = ? and code in ('C01', 'C02')").all(fed.id) as {
+      id: number;
+    }[];
     const id = Number(
       t.ctx.sqlite
-        .prepare("insert into assessments (federation_id, external_id, athlete_id, event_id, assessed_on, kind, panel_class) values (?, 'KE-TEST1', ?, ?, '2026-05-01', 'review', 5)")
+        .prepare(
+          "insert into assessments (federation_id, external_id, athlete_id, event_id, assessed_on, kind, panel_class) values (?, 'KE-TEST1', ?, ?, '2026-05-01', 'review', 5)",
+        )
         .run(fed.id, athlete.id, event.id).lastInsertRowid,
     );
-    for (const c of cs) t.ctx.sqlite.prepare('insert into ratings (assessment_id, classifier_id, sport_class) values (?, ?, 5)').run(id, c.id);
+    for (const c of cs)
+      t.ctx.sqlite.prepare('insert into ratings (assessment_id, classifier_id, sport_class) values (?, ?, 5)').run(id, c.id);
     expect((await lead.get(`${base}/overview`)).body.counts.assessments).toBe(before);
     t.ctx.dataVersions.bump(fed.id);
     expect((await lead.get(`${base}/overview`)).body.counts.assessments).toBe(before + 1);
@@ -347,7 +382,9 @@ describe('agreement dashboards API', () => {
 
   it('calibration flags: evaluated against the engine, kept with the lead’s status, e-mailed when new, not reopened on the same ratings', async () => {
     const sent: { to: string; subject: string; text: string }[] = [];
-    (t.ctx as unknown as { mailer: unknown }).mailer = { send: async (m: { to: string; subject: string; text: string }) => void sent.push(m) };
+    (t.ctx as unknown as { mailer: unknown }).mailer = {
+      send: async (m: { to: string; subject: string; text: string }) => void sent.push(m),
+    };
     t.ctx.sqlite.prepare('delete from calibration_flags').run();
 
     // The default rules, evaluated by the engine directly on the rows read from the database.
@@ -363,8 +400,17 @@ describe('agreement dashboards API', () => {
     }[];
     const verdicts = evaluateCalibration(set, DEFAULT_FLAG_THRESHOLDS);
     for (const rule of ['bias', 'drift', 'agreement'] as const) {
-      const expected = verdicts.filter((v) => v[rule].met).map((v) => v.code).sort();
-      expect(flags.filter((f) => f.rule === rule).map((f) => f.classifierCode).sort(), rule).toEqual(expected);
+      const expected = verdicts
+        .filter((v) => v[rule].met)
+        .map((v) => v.code)
+        .sort();
+      expect(
+        flags
+          .filter((f) => f.rule === rule)
+          .map((f) => f.classifierCode)
+          .sort(),
+        rule,
+      ).toEqual(expected);
     }
     const c12 = flags.find((f) => f.classifierCode === 'C12' && f.rule === 'bias')!;
     close(c12.evidence.value, verdicts.find((v) => v.code === 'C12')!.bias.mean);
@@ -376,7 +422,9 @@ describe('agreement dashboards API', () => {
 
     expect((await lead.patch(`${base}/flags/${c12.id}`).send({ status: 'closed' })).status).toBe(400);
     expect((await lead.patch(`${base}/flags/${c12.id}`).send({ status: 'acknowledged' })).body.status).toBe('acknowledged');
-    const closed = await lead.patch(`${base}/flags/${c12.id}`).send({ status: 'closed', note: 'Talked it through at the spring calibration day.' });
+    const closed = await lead
+      .patch(`${base}/flags/${c12.id}`)
+      .send({ status: 'closed', note: 'Talked it through at the spring calibration day.' });
     expect(closed.body).toMatchObject({ status: 'closed', note: 'Talked it through at the spring calibration day.' });
 
     const again = await lead.post(`${base}/flags/evaluate`);

@@ -16,14 +16,26 @@ const KC = '/api/federations/kestrel-coast';
 /** The newest message the local mail server stored for an address (waits for it to arrive). */
 async function messageTo(t: TestApp, to: string, after = 0) {
   for (let i = 0; i < 100; i++) {
-    const row = await t.ctx.db.selectFrom('outbox_messages').selectAll().where('mail_to', '=', to).where('id', '>', after).orderBy('id', 'desc').executeTakeFirst();
+    const row = await t.ctx.db
+      .selectFrom('outbox_messages')
+      .selectAll()
+      .where('mail_to', '=', to)
+      .where('id', '>', after)
+      .orderBy('id', 'desc')
+      .executeTakeFirst();
     if (row) return row;
     await new Promise((r) => setTimeout(r, 50));
   }
   throw new Error(`no message to ${to}`);
 }
 
-const lastMessageId = async (t: TestApp) => (await t.ctx.db.selectFrom('outbox_messages').select((eb) => eb.fn.max('id').as('id')).executeTakeFirst())?.id ?? 0;
+const lastMessageId = async (t: TestApp) =>
+  (
+    await t.ctx.db
+      .selectFrom('outbox_messages')
+      .select((eb) => eb.fn.max('id').as('id'))
+      .executeTakeFirst()
+  )?.id ?? 0;
 
 /** The path of the link in a message's text (the origin is PUBLIC_ORIGIN). */
 function linkPath(text: string, kind: 'invitations' | 'reset-password'): { path: string; token: string } {
@@ -52,9 +64,14 @@ describe('invitations through the local mail server', () => {
     expect(before.status).toBe(200);
     expect(before.body.unlinkedClassifiers.map((c: { code: string }) => c.code)).toContain('C03');
 
-    const invited = await lead.post(`${KC}/invitations`).send({ email: 'New.Classifier@Example.test', role: 'classifier', classifierCode: 'C03' });
+    const invited = await lead
+      .post(`${KC}/invitations`)
+      .send({ email: 'New.Classifier@Example.test', role: 'classifier', classifierCode: 'C03' });
     expect(invited.status).toBe(201);
-    expect(invited.body).toMatchObject({ mailSent: true, invitation: { email: 'new.classifier@example.test', role: 'classifier', classifierCode: 'C03' } });
+    expect(invited.body).toMatchObject({
+      mailSent: true,
+      invitation: { email: 'new.classifier@example.test', role: 'classifier', classifierCode: 'C03' },
+    });
 
     // The message went over SMTP to the local server, which stored it; the lead's Outbox lists it with its link.
     const stored = await messageTo(t, 'new.classifier@example.test');
@@ -68,30 +85,56 @@ describe('invitations through the local mail server', () => {
     expect(stored.html_body).toContain(path);
 
     // Only a hash of the token is stored.
-    const row = await t.ctx.db.selectFrom('invitations').selectAll().where('email', '=', 'new.classifier@example.test').executeTakeFirstOrThrow();
+    const row = await t.ctx.db
+      .selectFrom('invitations')
+      .selectAll()
+      .where('email', '=', 'new.classifier@example.test')
+      .executeTakeFirstOrThrow();
     expect(row.token_hash).toBe(hashSecret(token));
     expect(JSON.stringify(row)).not.toContain(token);
 
     const preview = await request(t.app).get(`/api/invitations/${token}`);
     expect(preview.status).toBe(200);
-    expect(preview.body).toMatchObject({ email: 'new.classifier@example.test', role: 'classifier', classifierCode: 'C03', existingUser: false, federation: { slug: 'kestrel-coast' } });
+    expect(preview.body).toMatchObject({
+      email: 'new.classifier@example.test',
+      role: 'classifier',
+      classifierCode: 'C03',
+      existingUser: false,
+      federation: { slug: 'kestrel-coast' },
+    });
 
-    const invalid = await request(t.app).post(`/api/invitations/${token}/accept`).send({ displayName: '', password: 'short', confirmPassword: 'other' });
+    const invalid = await request(t.app)
+      .post(`/api/invitations/${token}/accept`)
+      .send({ displayName: '', password: 'short', confirmPassword: 'other' });
     expect(invalid.status).toBe(400);
     expect(invalid.body.error.details.map((d: { path: string }) => d.path).sort()).toEqual(['confirmPassword', 'displayName', 'password']);
 
-    const accepted = await request(t.app).post(`/api/invitations/${token}/accept`).send({ displayName: 'Wren Alder', password: 'a-new-classifier-pass', confirmPassword: 'a-new-classifier-pass' });
+    const accepted = await request(t.app)
+      .post(`/api/invitations/${token}/accept`)
+      .send({ displayName: 'Wren Alder', password: 'a-new-classifier-pass', confirmPassword: 'a-new-classifier-pass' });
     expect(accepted.status).toBe(201);
-    expect(accepted.body).toEqual({ federation: { slug: 'kestrel-coast', name: 'Kestrel Coast Wheelchair Basketball Federation' }, role: 'classifier', signedIn: true });
+    expect(accepted.body).toEqual({
+      federation: { slug: 'kestrel-coast', name: 'Kestrel Coast Wheelchair Basketball Federation' },
+      role: 'classifier',
+      signedIn: true,
+    });
     expect(String(accepted.headers['set-cookie'])).toMatch(/HttpOnly/);
 
     // Used once: the same link answers 410 now.
     expect((await request(t.app).get(`/api/invitations/${token}`)).status).toBe(410);
-    expect((await request(t.app).post(`/api/invitations/${token}/accept`).send({ displayName: 'X', password: 'another-password', confirmPassword: 'another-password' })).status).toBe(410);
+    expect(
+      (
+        await request(t.app)
+          .post(`/api/invitations/${token}/accept`)
+          .send({ displayName: 'X', password: 'another-password', confirmPassword: 'another-password' })
+      ).status,
+    ).toBe(410);
 
     const classifier = await signedInAgent(t.app, 'new.classifier@example.test', 'a-new-classifier-pass');
     const session = await classifier.get('/api/session');
-    expect(session.body.memberships).toEqual([{ federation: expect.objectContaining({ slug: 'kestrel-coast' }), role: 'classifier', classifierCode: 'C03' }]);
+    expect(session.body.memberships).toEqual([
+      { federation: expect.objectContaining({ slug: 'kestrel-coast' }), role: 'classifier', classifierCode: 'C03' },
+    ]);
     // Their own figures, and no one else's.
     expect((await classifier.get(`${KC}/members`)).status).toBe(403);
     expect((await classifier.get(`${KC}/analytics/classifiers/C05`)).status).toBe(403);
@@ -105,7 +148,9 @@ describe('invitations through the local mail server', () => {
     expect(noCode.body.error.details).toEqual([{ path: 'classifierCode', message: 'Choose the roster entry of the classifier' }]);
     const taken = await lead.post(`${KC}/invitations`).send({ email: 'x@example.test', role: 'classifier', classifierCode: 'C12' });
     expect(taken.status).toBe(409);
-    expect((await lead.post(`${KC}/invitations`).send({ email: 'x@example.test', role: 'classifier', classifierCode: 'C99' })).status).toBe(400);
+    expect((await lead.post(`${KC}/invitations`).send({ email: 'x@example.test', role: 'classifier', classifierCode: 'C99' })).status).toBe(
+      400,
+    );
     expect((await lead.post(`${KC}/invitations`).send({ email: RESEARCHER, role: 'researcher' })).status).toBe(409);
   });
 
@@ -114,13 +159,17 @@ describe('invitations through the local mail server', () => {
     const after = await lastMessageId(t);
     const invited = await lead.post(`${KC}/invitations`).send({ email: 'late@example.test', role: 'researcher' });
     const { token } = linkPath((await messageTo(t, 'late@example.test', after)).text_body, 'invitations');
-    await t.ctx.db.updateTable('invitations').set({ expires_at: '2000-01-01T00:00:00.000Z' }).where('id', '=', invited.body.invitation.id).execute();
+    await t.ctx.db
+      .updateTable('invitations')
+      .set({ expires_at: '2000-01-01T00:00:00.000Z' })
+      .where('id', '=', invited.body.invitation.id)
+      .execute();
     const expired = await request(t.app).get(`/api/invitations/${token}`);
     expect(expired.status).toBe(410);
     expect(expired.body.error.code).toBe('gone');
 
     const again = await lead.post(`${KC}/invitations`).send({ email: 'late@example.test', role: 'researcher' });
-    const second = linkPath((await messageTo(t, 'late@example.test', await lastMessageId(t) - 1)).text_body, 'invitations');
+    const second = linkPath((await messageTo(t, 'late@example.test', (await lastMessageId(t)) - 1)).text_body, 'invitations');
     expect((await lead.delete(`${KC}/invitations/${again.body.invitation.id}`)).status).toBe(204);
     expect((await request(t.app).get(`/api/invitations/${second.token}`)).status).toBe(410);
   });
@@ -128,10 +177,14 @@ describe('invitations through the local mail server', () => {
   it('the site owner creates a federation and invites its first lead; an existing account gains the membership', async () => {
     const owner = await signedInAgent(t.app, OWNER);
     expect((await signedInAgent(t.app, LEAD).then((a) => a.get('/api/owner/federations'))).status).toBe(403);
-    const created = await owner.post('/api/owner/federations').send({ slug: 'gannet-bay', name: 'Gannet Bay Wheelchair Basketball', leadEmail: RESEARCHER });
+    const created = await owner
+      .post('/api/owner/federations')
+      .send({ slug: 'gannet-bay', name: 'Gannet Bay Wheelchair Basketball', leadEmail: RESEARCHER });
     expect(created.status).toBe(201);
     expect(created.body.mailSent).toBe(true);
-    expect((await owner.post('/api/owner/federations').send({ slug: 'gannet-bay', name: 'Again', leadEmail: 'a@example.test' })).status).toBe(409);
+    expect(
+      (await owner.post('/api/owner/federations').send({ slug: 'gannet-bay', name: 'Again', leadEmail: 'a@example.test' })).status,
+    ).toBe(409);
     const list = await owner.get('/api/owner/federations');
     expect(list.body.federations).toContainEqual(expect.objectContaining({ slug: 'gannet-bay', leads: 0, pendingInvitations: 1 }));
 
@@ -144,16 +197,24 @@ describe('invitations through the local mail server', () => {
     expect(accepted.status).toBe(201);
     expect(accepted.body.signedIn).toBe(true);
     const session = await researcher.get('/api/session');
-    expect(session.body.memberships.map((m: { federation: { slug: string }; role: string }) => `${m.federation.slug}:${m.role}`)).toEqual(['gannet-bay:lead', 'kestrel-coast:researcher']);
+    expect(session.body.memberships.map((m: { federation: { slug: string }; role: string }) => `${m.federation.slug}:${m.role}`)).toEqual([
+      'gannet-bay:lead',
+      'kestrel-coast:researcher',
+    ]);
     expect((await researcher.get('/api/federations/gannet-bay/members')).status).toBe(200);
   });
 
   it('the site owner invites a lead to an existing federation, so a federation is never left without one', async () => {
     const owner = await signedInAgent(t.app, OWNER);
-    await owner.post('/api/owner/federations').send({ slug: 'tern-point', name: 'Tern Point Wheelchair Basketball', leadEmail: 'first.lead@example.test' });
+    await owner
+      .post('/api/owner/federations')
+      .send({ slug: 'tern-point', name: 'Tern Point Wheelchair Basketball', leadEmail: 'first.lead@example.test' });
     expect((await owner.post('/api/owner/federations/tern-point/leads').send({ email: 'not-an-email' })).status).toBe(400);
     expect((await owner.post('/api/owner/federations/no-such-place/leads').send({ email: 'x@example.test' })).status).toBe(404);
-    expect((await signedInAgent(t.app, LEAD).then((a) => a.post('/api/owner/federations/tern-point/leads').send({ email: 'x@example.test' }))).status).toBe(403);
+    expect(
+      (await signedInAgent(t.app, LEAD).then((a) => a.post('/api/owner/federations/tern-point/leads').send({ email: 'x@example.test' })))
+        .status,
+    ).toBe(403);
 
     const before = await lastMessageId(t);
     const invited = await owner.post('/api/owner/federations/tern-point/leads').send({ email: 'second.lead@example.test' });
@@ -165,10 +226,14 @@ describe('invitations through the local mail server', () => {
     expect(list.body.federations).toContainEqual(expect.objectContaining({ slug: 'tern-point', leads: 0, pendingInvitations: 2 }));
 
     const { token } = linkPath(message.text_body, 'invitations');
-    const accepted = await request(t.app).post(`/api/invitations/${token}/accept`).send({ displayName: 'Second Lead', password: 'second-lead-password', confirmPassword: 'second-lead-password' });
+    const accepted = await request(t.app)
+      .post(`/api/invitations/${token}/accept`)
+      .send({ displayName: 'Second Lead', password: 'second-lead-password', confirmPassword: 'second-lead-password' });
     expect(accepted.status).toBe(201);
     expect(accepted.body.role).toBe('lead');
-    expect((await owner.get('/api/owner/federations')).body.federations).toContainEqual(expect.objectContaining({ slug: 'tern-point', leads: 1 }));
+    expect((await owner.get('/api/owner/federations')).body.federations).toContainEqual(
+      expect.objectContaining({ slug: 'tern-point', leads: 1 }),
+    );
   });
 });
 
@@ -191,10 +256,24 @@ describe('password reset through the local mail server', () => {
     expect(message.subject).toBe('Choose a new Panelwise password');
     const { token } = linkPath(message.text_body, 'reset-password');
     expect((await request(t.app).get(`/api/password-resets/${token}`)).body.email).toBe(CLASSIFIER);
-    const mismatch = await request(t.app).post(`/api/password-resets/${token}`).send({ password: 'brand-new-password', confirmPassword: 'brand-new-passwort' });
+    const mismatch = await request(t.app)
+      .post(`/api/password-resets/${token}`)
+      .send({ password: 'brand-new-password', confirmPassword: 'brand-new-passwort' });
     expect(mismatch.status).toBe(400);
-    expect((await request(t.app).post(`/api/password-resets/${token}`).send({ password: 'brand-new-password', confirmPassword: 'brand-new-password' })).status).toBe(204);
-    expect((await request(t.app).post(`/api/password-resets/${token}`).send({ password: 'brand-new-password', confirmPassword: 'brand-new-password' })).status).toBe(410);
+    expect(
+      (
+        await request(t.app)
+          .post(`/api/password-resets/${token}`)
+          .send({ password: 'brand-new-password', confirmPassword: 'brand-new-password' })
+      ).status,
+    ).toBe(204);
+    expect(
+      (
+        await request(t.app)
+          .post(`/api/password-resets/${token}`)
+          .send({ password: 'brand-new-password', confirmPassword: 'brand-new-password' })
+      ).status,
+    ).toBe(410);
 
     expect((await oldSession.get('/api/session')).status).toBe(401);
     expect((await request(t.app).post('/api/session').send({ email: CLASSIFIER, password: 'panelwise-demo' })).status).toBe(401);
@@ -207,7 +286,11 @@ describe('password reset through the local mail server', () => {
     const after = await lastMessageId(t);
     await request(t.app).post('/api/password-resets').send({ email: RESEARCHER });
     const { token } = linkPath((await messageTo(t, RESEARCHER, after)).text_body, 'reset-password');
-    await t.ctx.db.updateTable('password_resets').set({ expires_at: '2000-01-01T00:00:00.000Z' }).where('token_hash', '=', hashSecret(token)).execute();
+    await t.ctx.db
+      .updateTable('password_resets')
+      .set({ expires_at: '2000-01-01T00:00:00.000Z' })
+      .where('token_hash', '=', hashSecret(token))
+      .execute();
     expect((await request(t.app).get(`/api/password-resets/${token}`)).status).toBe(410);
   });
 
@@ -227,7 +310,14 @@ describe('brute force', () => {
 
   it('after 10 wrong passwords from one address the next attempt from it gets 429, even with the right password', async () => {
     const statuses: number[] = [];
-    for (let i = 0; i < 10; i++) statuses.push((await request(t.app).post('/api/session').send({ email: RESEARCHER, password: `wrong-${i}` })).status);
+    for (let i = 0; i < 10; i++)
+      statuses.push(
+        (
+          await request(t.app)
+            .post('/api/session')
+            .send({ email: RESEARCHER, password: `wrong-${i}` })
+        ).status,
+      );
     expect(statuses).toEqual(Array(10).fill(401));
     const blocked = await request(t.app).post('/api/session').send({ email: RESEARCHER, password: 'panelwise-demo' });
     expect(blocked.status).toBe(429);
@@ -236,7 +326,10 @@ describe('brute force', () => {
     // The lock is per account and address (and, higher, per address): another account still signs in,
     // and the same account from another address does too, so a guesser cannot lock its owner out.
     expect((await request(t.app).post('/api/session').send({ email: LEAD, password: 'panelwise-demo' })).status).toBe(201);
-    const elsewhere = await request(t.app).post('/api/session').set('X-Forwarded-For', '203.0.113.50').send({ email: RESEARCHER, password: 'panelwise-demo' });
+    const elsewhere = await request(t.app)
+      .post('/api/session')
+      .set('X-Forwarded-For', '203.0.113.50')
+      .send({ email: RESEARCHER, password: 'panelwise-demo' });
     expect(elsewhere.status).toBe(201);
   });
 });
@@ -255,7 +348,13 @@ describe('session tokens and members', () => {
     expect((await request(t.app).get('/api/session').set('Cookie', cookie)).status).toBe(200);
 
     const forge = (secret: Uint8Array, iat: number, exp: number) =>
-      new SignJWT({ sid: claims.sid, uid: claims.uid, sv: claims.sv }).setProtectedHeader({ alg: 'HS256' }).setIssuer('panelwise').setAudience('panelwise-session').setIssuedAt(iat).setExpirationTime(exp).sign(secret);
+      new SignJWT({ sid: claims.sid, uid: claims.uid, sv: claims.sv })
+        .setProtectedHeader({ alg: 'HS256' })
+        .setIssuer('panelwise')
+        .setAudience('panelwise-session')
+        .setIssuedAt(iat)
+        .setExpirationTime(exp)
+        .sign(secret);
     const now = Math.floor(Date.now() / 1000);
     const badSignature = await forge(new TextEncoder().encode('not-the-server-secret-at-all-000'), now, now + 600);
     expect((await request(t.app).get('/api/session').set('Cookie', `${SESSION_COOKIE}=${badSignature}`)).status).toBe(401);
@@ -341,7 +440,13 @@ describe('API tokens', () => {
     expect((await request(t.app).post(`${KC}/api-tokens`).set(bearer).send({ name: 'more', scope: 'import' })).status).toBe(403);
     expect((await lead.get(`${KC}/api-tokens`)).body.tokens.find((x: { id: number }) => x.id === view.id).lastUsedAt).not.toBeNull();
 
-    expect((await request(t.app).get(`${KC}/summary`).set({ Authorization: `Bearer ${token}x` })).status).toBe(401);
+    expect(
+      (
+        await request(t.app)
+          .get(`${KC}/summary`)
+          .set({ Authorization: `Bearer ${token}x` })
+      ).status,
+    ).toBe(401);
     expect((await request(t.app).get(`${KC}/summary`).set({ Authorization: 'Bearer pwt_not-a-token' })).status).toBe(401);
     expect((await lead.delete(`${KC}/api-tokens/${view.id}`)).status).toBe(204);
     expect((await request(t.app).get(`${KC}/summary`).set(bearer)).status).toBe(401);

@@ -32,7 +32,10 @@ function importedCounts(file: string, importId: number): { status: unknown; asse
     return {
       status: db.prepare('select status from imports where id = ?').pluck().get(importId),
       assessments: db.prepare("select count(*) from assessments where external_id like 'BACKUP-%'").pluck().get() as number,
-      ratings: db.prepare("select count(*) from ratings r join assessments a on a.id = r.assessment_id where a.external_id like 'BACKUP-%'").pluck().get() as number,
+      ratings: db
+        .prepare("select count(*) from ratings r join assessments a on a.id = r.assessment_id where a.external_id like 'BACKUP-%'")
+        .pluck()
+        .get() as number,
     };
   } finally {
     db.close();
@@ -49,7 +52,10 @@ describe('a backup while an import commits', () => {
       body: JSON.stringify({ email: 'lead@demo.panelwise.test', password: 'panelwise-demo' }),
     });
     expect(signIn.status).toBe(201);
-    const cookie = signIn.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+    const cookie = signIn.headers
+      .getSetCookie()
+      .map((c) => c.split(';')[0])
+      .join('; ');
     const form = new FormData();
     form.append('file', new Blob([longCsv({ ratings: RATINGS, prefix: 'BACKUP-' })], { type: 'text/csv' }), 'large.csv');
     const dry = await fetch(`${base}/api/federations/kestrel-coast/imports`, { method: 'POST', body: form, headers: { cookie } });
@@ -58,7 +64,10 @@ describe('a backup while an import commits', () => {
     const expected = dryBody.counts.assessments.new;
 
     let answered = false;
-    const commit = fetch(`${base}/api/federations/kestrel-coast/imports/${dryBody.importId}/commit`, { method: 'POST', headers: { cookie } }).then((r) => {
+    const commit = fetch(`${base}/api/federations/kestrel-coast/imports/${dryBody.importId}/commit`, {
+      method: 'POST',
+      headers: { cookie },
+    }).then((r) => {
       answered = true;
       return r.status;
     });

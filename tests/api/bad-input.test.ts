@@ -61,7 +61,12 @@ describe('nesting', () => {
 describe('size', () => {
   it('anonymous routes take small bodies only: 10 MB on sign-in or reset is 413 without being read', async () => {
     const big = JSON.stringify({ email: 'someone@example.test', password: 'x'.repeat(10 * 1024 * 1024) });
-    for (const path of ['/api/session', '/api/password-resets', `/api/password-resets/${'x'.repeat(43)}`, `/api/invitations/${'x'.repeat(43)}/accept`]) {
+    for (const path of [
+      '/api/session',
+      '/api/password-resets',
+      `/api/password-resets/${'x'.repeat(43)}`,
+      `/api/invitations/${'x'.repeat(43)}/accept`,
+    ]) {
       const res = await json(request(t.app).post(path), big);
       expect(res.status, path).toBe(413);
       expect(res.body.error).toEqual({ code: 'payload_too_large', message: 'The request body is too large' });

@@ -58,7 +58,11 @@ describe('calibration flags on the demo, and after data or thresholds change', (
     const all = await active();
     expect(overview.map((f) => [f.id, f.stillMet]).sort()).toEqual(all.map((f) => [f.id, f.stillMet]).sort());
     for (const f of all) {
-      const page = (await lead.get(`${base}/classifiers/${f.classifierCode}`)).body as { row: { n: number }; drift: { points: { date: string }[] }; flags: CalibrationFlag[] };
+      const page = (await lead.get(`${base}/classifiers/${f.classifierCode}`)).body as {
+        row: { n: number };
+        drift: { points: { date: string }[] };
+        flags: CalibrationFlag[];
+      };
       const same = page.flags.find((g) => g.id === f.id)!;
       expect(same).toMatchObject({ stillMet: f.stillMet, evidence: f.evidence });
       // Counts and dates are today's: the classifier's ratings in panels, their first and last dates.
@@ -76,7 +80,8 @@ describe('calibration flags on the demo, and after data or thresholds change', (
       if (!f.stillMet) expect(f.lapsedAt).not.toBeNull();
     }
     const mine = (await classifier.get(`${base}/me`)).body.flags as CalibrationFlag[];
-    for (const f of mine.filter((g) => g.status !== 'closed')) expect(f).toMatchObject({ stillMet: all.find((g) => g.id === f.id)!.stillMet });
+    for (const f of mine.filter((g) => g.status !== 'closed'))
+      expect(f).toMatchObject({ stillMet: all.find((g) => g.id === f.id)!.stillMet });
     return all;
   }
 
@@ -133,7 +138,9 @@ describe('calibration flags on the demo, and after data or thresholds change', (
 
   it('a lowered threshold put back: the extra flags are shown as no longer met, and met again when lowered again', async () => {
     const before = (await active()).filter((f) => f.stillMet).map((f) => f.id);
-    expect((await lead.put(`${base}/flag-settings`).send({ ...DEFAULT_FLAG_THRESHOLDS, biasMin: 0.05, agreementGap: 0.02 })).status).toBe(200);
+    expect((await lead.put(`${base}/flag-settings`).send({ ...DEFAULT_FLAG_THRESHOLDS, biasMin: 0.05, agreementGap: 0.02 })).status).toBe(
+      200,
+    );
     const lowered = (await everyPageAgrees()).filter((f) => f.stillMet && !before.includes(f.id));
     expect(lowered.length).toBeGreaterThan(0);
 
@@ -149,12 +156,19 @@ describe('calibration flags on the demo, and after data or thresholds change', (
     // The leads hear of it by e-mail too (the fake SMTP server keeps messages in outbox_messages).
     let mail: { subject: string; text_body: string } | undefined;
     for (let i = 0; i < 100 && !mail; i++) {
-      mail = t.ctx.sqlite.prepare("select subject, text_body from outbox_messages where subject like '%no longer met%' order by id desc").get() as typeof mail;
+      mail = t.ctx.sqlite
+        .prepare("select subject, text_body from outbox_messages where subject like '%no longer met%' order by id desc")
+        .get() as typeof mail;
       if (!mail) await new Promise((r) => setTimeout(r, 50));
     }
     expect(mail?.subject).toMatch(/calibration flags? no longer met in Kestrel Coast/);
     expect(mail?.text_body).toContain(lowered[0].classifierCode);
-    expect(restored.filter((f) => f.stillMet).map((f) => f.id).sort()).toEqual([...before].sort());
+    expect(
+      restored
+        .filter((f) => f.stillMet)
+        .map((f) => f.id)
+        .sort(),
+    ).toEqual([...before].sort());
 
     await lead.put(`${base}/flag-settings`).send({ ...DEFAULT_FLAG_THRESHOLDS, biasMin: 0.05, agreementGap: 0.02 });
     const again = await active();

@@ -155,8 +155,11 @@ describe('privacy that survives differencing', () => {
       for (const season of seasons)
         for (const level of ['championship', 'national'])
           for (const kinds of [['first'], ['review'], ['first', 'review']] as Kind[][]) {
-            const inScope = rows.filter((r) => allowed(r) && seasonOf(r.assessed_on) === season && r.level === level && kinds.includes(r.kind));
-            const athletesOf = (categories: string[]) => new Set(inScope.filter((r) => categories.includes(r.category)).map((r) => r.athlete)).size;
+            const inScope = rows.filter(
+              (r) => allowed(r) && seasonOf(r.assessed_on) === season && r.level === level && kinds.includes(r.kind),
+            );
+            const athletesOf = (categories: string[]) =>
+              new Set(inScope.filter((r) => categories.includes(r.category)).map((r) => r.athlete)).size;
             const juniors = athletesOf(['junior']);
             if (juniors > 0 && juniors < k && athletesOf(['men', 'women']) >= k) {
               found = { k, scope: { seasons: [season], eventLevels: [level], categories: ['men', 'women'], kinds }, juniors };
@@ -166,11 +169,23 @@ describe('privacy that survives differencing', () => {
     }
     expect(found, 'a scope with a few juniors in the demo data').not.toBeNull();
     const { k, scope, juniors } = found!;
-    const body = (categories: string[]): ExportRequest => ({ scope: { ...scope, categories }, fields: ['athlete', 'category', 'kind'], dateMode: 'month' });
+    const body = (categories: string[]): ExportRequest => ({
+      scope: { ...scope, categories },
+      fields: ['athlete', 'category', 'kind'],
+      dateMode: 'month',
+    });
     await lead.put(`${exportsBase}/settings`).send({ minAthletes: k }).expect(200);
     try {
-      const menWomen = (await researcher.post(exportsBase).send(body(['men', 'women'])).expect(201)).body as ExportView;
-      const refused = await researcher.post(exportsBase).send(body(['junior', 'men', 'women'])).expect(422);
+      const menWomen = (
+        await researcher
+          .post(exportsBase)
+          .send(body(['men', 'women']))
+          .expect(201)
+      ).body as ExportView;
+      const refused = await researcher
+        .post(exportsBase)
+        .send(body(['junior', 'men', 'women']))
+        .expect(422);
       expect(refused.body.error.message).toContain(`would differ from your export ${menWomen.id}`);
       expect(refused.body.error.message).toContain(`by ${juniors} athlete`);
       expect(refused.body.error.message).toContain(`fewer than k = ${k}`);
@@ -179,10 +194,19 @@ describe('privacy that survives differencing', () => {
       const count = t.ctx.sqlite.prepare('select count(*) as n from research_exports').get() as { n: number };
       expect(count.n).toBe(1);
       // The same export again differs by no athlete: allowed (the researcher could download the first one anyway).
-      await researcher.post(exportsBase).send(body(['men', 'women'])).expect(201);
+      await researcher
+        .post(exportsBase)
+        .send(body(['men', 'women']))
+        .expect(201);
       // The other order is refused the same way (the lead's exports are compared with the lead's own, not the researcher's).
-      await lead.post(exportsBase).send(body(['junior', 'men', 'women'])).expect(201);
-      const leadAgain = await lead.post(exportsBase).send(body(['men', 'women'])).expect(422);
+      await lead
+        .post(exportsBase)
+        .send(body(['junior', 'men', 'women']))
+        .expect(201);
+      const leadAgain = await lead
+        .post(exportsBase)
+        .send(body(['men', 'women']))
+        .expect(422);
       expect(leadAgain.body.error.message).toContain(`by ${juniors} athlete`);
     } finally {
       await lead.put(`${exportsBase}/settings`).send({ minAthletes: K }).expect(200);
@@ -191,16 +215,39 @@ describe('privacy that survives differencing', () => {
 
   it('leaves out a category of fewer than k athletes altogether, so the two exports of the issue are identical', async () => {
     // Three juniors moved to a category of their own: every cell of it holds fewer than k athletes.
-    const moved = t.ctx.sqlite.prepare("select a.id from athletes a join federations f on f.id = a.federation_id where f.slug = 'kestrel-coast' and a.category = 'junior' order by a.id limit 3").all() as { id: number }[];
+    const moved = t.ctx.sqlite
+      .prepare(
+        "select a.id from athletes a join federations f on f.id = a.federation_id where f.slug = 'kestrel-coast' and a.category = 'junior' order by a.id limit 3",
+      )
+      .all() as { id: number }[];
     const ids = moved.map((m) => m.id).join(',');
     t.ctx.sqlite.prepare(`update athletes set category = 'masters' where id in (${ids})`).run();
     const fed = t.ctx.sqlite.prepare("select id from federations where slug = 'kestrel-coast'").get() as { id: number };
     bumpDataVersion(t.ctx, fed.id);
     try {
-      const scope = { seasons: ['2023-24'], eventLevels: ['national', 'championship'], categories: ['men', 'women'], kinds: ['review'] as Kind[] };
-      const body = (categories: string[]): ExportRequest => ({ scope: { ...scope, categories }, fields: ['athlete', 'category'], dateMode: 'month' });
-      const without = (await lead.post(exportsBase).send(body(['men', 'women'])).expect(201)).body as ExportView;
-      const withMasters = (await lead.post(exportsBase).send(body(['masters', 'men', 'women'])).expect(201)).body as ExportView;
+      const scope = {
+        seasons: ['2023-24'],
+        eventLevels: ['national', 'championship'],
+        categories: ['men', 'women'],
+        kinds: ['review'] as Kind[],
+      };
+      const body = (categories: string[]): ExportRequest => ({
+        scope: { ...scope, categories },
+        fields: ['athlete', 'category'],
+        dateMode: 'month',
+      });
+      const without = (
+        await lead
+          .post(exportsBase)
+          .send(body(['men', 'women']))
+          .expect(201)
+      ).body as ExportView;
+      const withMasters = (
+        await lead
+          .post(exportsBase)
+          .send(body(['masters', 'men', 'women']))
+          .expect(201)
+      ).body as ExportView;
       expect(withMasters.counts.athletes).toBe(without.counts.athletes);
       expect(withMasters.counts.rows).toBe(without.counts.rows);
       // And the dashboards: a researcher asking for the category gets nothing.
@@ -213,21 +260,35 @@ describe('privacy that survives differencing', () => {
 
   it('refuses the same export after one assessment was added (the difference would be that one athlete)', async () => {
     const full: ExportRequest = {
-      scope: { seasons: ['2022-23', '2023-24', '2024-25', '2025-26'], eventLevels: ['national', 'championship'], categories: ['men', 'women', 'junior'], kinds: ['first', 'review', 'protest'] },
+      scope: {
+        seasons: ['2022-23', '2023-24', '2024-25', '2025-26'],
+        eventLevels: ['national', 'championship'],
+        categories: ['men', 'women', 'junior'],
+        kinds: ['first', 'review', 'protest'],
+      },
       fields: ['athlete', 'kind', 'season'],
       dateMode: 'month',
     };
     await researcher.post(exportsBase).send(full).expect(201);
     const fed = t.ctx.sqlite.prepare("select id from federations where slug = 'kestrel-coast'").get() as { id: number };
-    const athlete = t.ctx.sqlite.prepare("select id from athletes where federation_id = ? and category = 'men' limit 1").get(fed.id) as { id: number };
-    const event = t.ctx.sqlite.prepare("select id from events where federation_id = ? and level = 'national' limit 1").get(fed.id) as { id: number };
-    const cs = t.ctx.sqlite.prepare("select id from classifiers where federation_id = ? and code in ('C01', 'C02')").all(fed.id) as { id: number }[];
+    const athlete = t.ctx.sqlite.prepare("select id from athletes where federation_id = ? and category = 'men' limit 1").get(fed.id) as {
+      id: number;
+    };
+    const event = t.ctx.sqlite.prepare("select id from events where federation_id = ? and level = 'national' limit 1").get(fed.id) as {
+      id: number;
+    };
+    const cs = t.ctx.sqlite.prepare("select id from classifiers where federation_id = ? and code in ('C01', 'C02')").all(fed.id) as {
+      id: number;
+    }[];
     const id = Number(
       t.ctx.sqlite
-        .prepare("insert into assessments (federation_id, external_id, athlete_id, event_id, assessed_on, kind, panel_class) values (?, 'KE-DIFF1', ?, ?, '2024-11-20', 'review', 5)")
+        .prepare(
+          "insert into assessments (federation_id, external_id, athlete_id, event_id, assessed_on, kind, panel_class) values (?, 'KE-DIFF1', ?, ?, '2024-11-20', 'review', 5)",
+        )
         .run(fed.id, athlete.id, event.id).lastInsertRowid,
     );
-    for (const c of cs) t.ctx.sqlite.prepare('insert into ratings (assessment_id, classifier_id, sport_class) values (?, ?, 5)').run(id, c.id);
+    for (const c of cs)
+      t.ctx.sqlite.prepare('insert into ratings (assessment_id, classifier_id, sport_class) values (?, ?, 5)').run(id, c.id);
     bumpDataVersion(t.ctx, fed.id);
     try {
       const again = await researcher.post(exportsBase).send(full).expect(422);
@@ -253,11 +314,15 @@ describe('privacy that survives differencing', () => {
     expect(forLead.body.firstAssessment).toMatch(/^\d{4}-\d{2}-\d{2}$/);
 
     const dates = new Set<string>();
-    for (const r of t.ctx.sqlite.prepare('select assessed_on as d from assessments union select starts_on from events union select ends_on from events').all() as { d: string | null }[]) {
+    for (const r of t.ctx.sqlite
+      .prepare('select assessed_on as d from assessments union select starts_on from events union select ends_on from events')
+      .all() as { d: string | null }[]) {
       if (r.d) dates.add(r.d);
     }
     expect(dates.size).toBeGreaterThan(20);
-    const routes = [...foundationEntries, ...dashboardEntries, ...exportEntries].filter((e) => e.method === 'get' && e.expect.researcher === 200);
+    const routes = [...foundationEntries, ...dashboardEntries, ...exportEntries].filter(
+      (e) => e.method === 'get' && e.expect.researcher === 200,
+    );
     expect(routes.length).toBeGreaterThanOrEqual(7);
     for (const entry of routes) {
       const path = entry.path.replace(':federation', 'kestrel-coast').replace(/:(\w+)/g, (_, name: string) => entry.params?.[name] ?? '');

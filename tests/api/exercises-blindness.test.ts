@@ -47,10 +47,18 @@ beforeAll(async () => {
   // Another classifier assigned to the open exercise answers every case, with a reason no one else writes.
   const other = await t.ctx.db.selectFrom('classifiers').select('id').where('code', '=', 'C02').executeTakeFirstOrThrow();
   for (const c of cases) {
-    await t.ctx.db.insertInto('exercise_answers').values({ case_id: c.id, classifier_id: other.id, sport_class: 9, skills: '["shooting"]', reason: MARKER }).execute();
+    await t.ctx.db
+      .insertInto('exercise_answers')
+      .values({ case_id: c.id, classifier_id: other.id, sport_class: 9, skills: '["shooting"]', reason: MARKER })
+      .execute();
   }
   const me = await t.ctx.db.selectFrom('classifiers').select('id').where('code', '=', 'C12').executeTakeFirstOrThrow();
-  const mine = await t.ctx.db.selectFrom('exercise_answers').select(['case_id', 'sport_class']).where('classifier_id', '=', me.id).where('case_id', 'in', [...openCaseIds]).execute();
+  const mine = await t.ctx.db
+    .selectFrom('exercise_answers')
+    .select(['case_id', 'sport_class'])
+    .where('classifier_id', '=', me.id)
+    .where('case_id', 'in', [...openCaseIds])
+    .execute();
   ownAnswers = new Map(mine.map((a) => [a.case_id, a.sport_class]));
   expect(ownAnswers.size).toBeGreaterThan(0);
 });
@@ -61,11 +69,13 @@ function assertBlind(where: string, body: unknown): void {
   expect(text, `${where}: another classifier's reason`).not.toContain(MARKER);
   for (const o of objects(body)) {
     // A case of the open exercise with its reference class.
-    if (typeof o.id === 'number' && openCaseIds.has(o.id) && 'description' in o) expect('referenceClass' in o, `${where}: reference class of case ${o.id}`).toBe(false);
+    if (typeof o.id === 'number' && openCaseIds.has(o.id) && 'description' in o)
+      expect('referenceClass' in o, `${where}: reference class of case ${o.id}`).toBe(false);
     if (typeof o.caseId === 'number' && openCaseIds.has(o.caseId)) {
       expect('referenceClass' in o, `${where}: reference class of case ${o.caseId}`).toBe(false);
       // An answer to a case of the open exercise: only the caller's own.
-      if ('sportClass' in o) expect(o.sportClass, `${where}: an answer that is not the caller's`).toBe(ownAnswers.get(o.caseId) ?? o.sportClass);
+      if ('sportClass' in o)
+        expect(o.sportClass, `${where}: an answer that is not the caller's`).toBe(ownAnswers.get(o.caseId) ?? o.sportClass);
       if ('sportClass' in o) expect(ownAnswers.has(o.caseId) || o.sportClass !== 9, `${where}: another's answer`).toBe(true);
       expect('counts' in o, `${where}: the spread of answers of an open case`).toBe(false);
     }
@@ -78,9 +88,13 @@ describe('blindness before the close', () => {
     const gets = (await matrixEntries()).filter((e) => e.method === 'get' && e.expect.classifier === 200);
     expect(gets.length).toBeGreaterThan(5);
     const exercisePaths = gets.filter((e) => e.path.includes('/exercises'));
-    expect(exercisePaths.map((e) => e.path)).toEqual(expect.arrayContaining([`/api/federations/:federation/exercises`, `/api/federations/:federation/exercises/:id`]));
+    expect(exercisePaths.map((e) => e.path)).toEqual(
+      expect.arrayContaining([`/api/federations/:federation/exercises`, `/api/federations/:federation/exercises/:id`]),
+    );
     for (const entry of gets) {
-      const target = entry.path.replace(/:(\w+)/g, (_m, name: string) => encodeURIComponent(entry.params?.[name] ?? (name === 'federation' ? F : '')));
+      const target = entry.path.replace(/:(\w+)/g, (_m, name: string) =>
+        encodeURIComponent(entry.params?.[name] ?? (name === 'federation' ? F : '')),
+      );
       const res = await agent.get(target);
       expect(res.status, target).toBe(200);
       assertBlind(target, res.body);

@@ -25,7 +25,10 @@ let federationId: number;
 
 async function outbox(subject: RegExp): Promise<string[]> {
   const rows = await t.ctx.db.selectFrom('outbox_messages').select(['mail_to', 'subject']).orderBy('id').execute();
-  return rows.filter((r) => subject.test(r.subject)).map((r) => r.mail_to).sort();
+  return rows
+    .filter((r) => subject.test(r.subject))
+    .map((r) => r.mail_to)
+    .sort();
 }
 
 beforeAll(async () => {
@@ -33,12 +36,25 @@ beforeAll(async () => {
   federationId = (await t.ctx.db.selectFrom('federations').select('id').where('slug', '=', F).executeTakeFirstOrThrow()).id;
   const hash = await hashPassword(DEMO_PASSWORD);
   for (const code of ['C01', 'C02'] as const) {
-    const user = await t.ctx.db.insertInto('users').values({ email: EMAIL[code], display_name: `Classifier ${code}`, password_hash: hash }).returning('id').executeTakeFirstOrThrow();
+    const user = await t.ctx.db
+      .insertInto('users')
+      .values({ email: EMAIL[code], display_name: `Classifier ${code}`, password_hash: hash })
+      .returning('id')
+      .executeTakeFirstOrThrow();
     await t.ctx.db.insertInto('memberships').values({ user_id: user.id, federation_id: federationId, role: 'classifier' }).execute();
-    await t.ctx.db.updateTable('classifiers').set({ user_id: user.id }).where('federation_id', '=', federationId).where('code', '=', code).execute();
+    await t.ctx.db
+      .updateTable('classifiers')
+      .set({ user_id: user.id })
+      .where('federation_id', '=', federationId)
+      .where('code', '=', code)
+      .execute();
   }
   lead = await signedInAgent(t.app, 'lead@demo.panelwise.test');
-  agents = { C12: await signedInAgent(t.app, EMAIL.C12), C01: await signedInAgent(t.app, EMAIL.C01), C02: await signedInAgent(t.app, EMAIL.C02) };
+  agents = {
+    C12: await signedInAgent(t.app, EMAIL.C12),
+    C01: await signedInAgent(t.app, EMAIL.C01),
+    C02: await signedInAgent(t.app, EMAIL.C02),
+  };
 });
 afterAll(() => t.close());
 
@@ -62,7 +78,11 @@ describe('calibration exercises', () => {
 
   it('proposes a draft from a flag: the classifier who holds it', async () => {
     await lead.post(`/api/federations/${F}/analytics/flags/evaluate`).expect(200);
-    const flags = (await lead.get(`/api/federations/${F}/analytics/flags`).expect(200)).body.flags as { id: number; classifierCode: string; status: string }[];
+    const flags = (await lead.get(`/api/federations/${F}/analytics/flags`).expect(200)).body.flags as {
+      id: number;
+      classifierCode: string;
+      status: string;
+    }[];
     const flag = flags.find((f) => f.classifierCode === 'C12' && f.status !== 'closed');
     expect(flag, 'the demo’s conservative classifier C12 has an open flag').toBeDefined();
     c12FlagId = flag!.id;
@@ -76,12 +96,38 @@ describe('calibration exercises', () => {
     const before = tableCounts(t.ctx);
     const res = await lead
       .post(base)
-      .send({ title: 'Bad link', opensOn, closesOn, classifierCodes: ['C12'], cases: [{ description: 'A case', videoUrl: 'javascript:alert(1)', skills: ['pushing'], referenceClass: 5 }] })
+      .send({
+        title: 'Bad link',
+        opensOn,
+        closesOn,
+        classifierCodes: ['C12'],
+        cases: [{ description: 'A case', videoUrl: 'javascript:alert(1)', skills: ['pushing'], referenceClass: 5 }],
+      })
       .expect(400);
-    expect(res.body.error.details).toContainEqual(expect.objectContaining({ path: 'cases.0.videoUrl', message: expect.stringMatching(/http\(s\)/) }));
-    const unknown = await lead.post(base).send({ title: 'X', opensOn, closesOn, classifierCodes: ['C99'], cases: [{ description: 'A', skills: ['pushing'], referenceClass: 5 }] }).expect(400);
+    expect(res.body.error.details).toContainEqual(
+      expect.objectContaining({ path: 'cases.0.videoUrl', message: expect.stringMatching(/http\(s\)/) }),
+    );
+    const unknown = await lead
+      .post(base)
+      .send({
+        title: 'X',
+        opensOn,
+        closesOn,
+        classifierCodes: ['C99'],
+        cases: [{ description: 'A', skills: ['pushing'], referenceClass: 5 }],
+      })
+      .expect(400);
     expect(unknown.body.error.message).toMatch(/"C99"/);
-    const skills = await lead.post(base).send({ title: 'X', opensOn, closesOn, classifierCodes: ['C12'], cases: [{ description: 'A', skills: ['juggling'], referenceClass: 5 }] }).expect(400);
+    const skills = await lead
+      .post(base)
+      .send({
+        title: 'X',
+        opensOn,
+        closesOn,
+        classifierCodes: ['C12'],
+        cases: [{ description: 'A', skills: ['juggling'], referenceClass: 5 }],
+      })
+      .expect(400);
     expect(skills.body.error.details[0].path).toBe('cases.0.skills.0');
     expect(tableCounts(t.ctx)).toEqual(before);
   });
@@ -96,7 +142,12 @@ describe('calibration exercises', () => {
         classifierCodes: ['C12', 'C01', 'C02'],
         source: { kind: 'flag', ref: String(c12FlagId) },
         cases: [
-          { description: 'Case one (invented).', videoUrl: 'https://video.example.invalid/one', skills: ['pushing', 'stopping'], referenceClass: 5 },
+          {
+            description: 'Case one (invented).',
+            videoUrl: 'https://video.example.invalid/one',
+            skills: ['pushing', 'stopping'],
+            referenceClass: 5,
+          },
           { description: 'Case two (invented).', skills: ['rebounding'], referenceClass: 6 },
           { description: 'Case three (invented).', videoUrl: '', skills: ['chair-contact'], referenceClass: 8 },
         ],
@@ -114,7 +165,16 @@ describe('calibration exercises', () => {
     expect(await outbox(/^Calibration exercise: Boundary practice$/)).toEqual([EMAIL.C01, EMAIL.C02, EMAIL.C12].sort());
     const detail = (await lead.get(`${base}/${id}`).expect(200)).body as ExerciseDetail;
     expect(detail.assignments!.find((a) => a.classifierCode === 'C12')!.hadOpenFlag).toBe(true);
-    await lead.put(`${base}/${id}`).send({ title: 'Changed', opensOn, closesOn, classifierCodes: ['C12'], cases: [{ description: 'A', skills: ['pushing'], referenceClass: 5 }] }).expect(409);
+    await lead
+      .put(`${base}/${id}`)
+      .send({
+        title: 'Changed',
+        opensOn,
+        closesOn,
+        classifierCodes: ['C12'],
+        cases: [{ description: 'A', skills: ['pushing'], referenceClass: 5 }],
+      })
+      .expect(409);
   });
 
   it('saves answers as they go and lets them change until the close; a classifier sees only their own, and no reference class', async () => {
@@ -148,7 +208,11 @@ describe('calibration exercises', () => {
     expect(await outbox(/^Reminder:/)).toEqual(before);
 
     expect((await sendDueReminders(t.ctx, new Date(closes - 2 * DAY + 3_600_000))).sent).toBe(2);
-    const reminders = (await t.ctx.db.selectFrom('outbox_messages').select(['mail_to', 'subject', 'text_body']).where('subject', 'like', 'Reminder: “Boundary practice”%').execute());
+    const reminders = await t.ctx.db
+      .selectFrom('outbox_messages')
+      .select(['mail_to', 'subject', 'text_body'])
+      .where('subject', 'like', 'Reminder: “Boundary practice”%')
+      .execute();
     // C01 answered one case of three, C02 none; C12 finished and gets no reminder.
     expect(reminders.map((r) => r.mail_to).sort()).toEqual([EMAIL.C01, EMAIL.C02].sort());
     expect(reminders.find((r) => r.mail_to === EMAIL.C01)!.text_body).toMatch(/answered 1 of 3 cases/);
@@ -157,7 +221,10 @@ describe('calibration exercises', () => {
     expect((await sendDueReminders(t.ctx, new Date(closes - DAY))).sent).toBe(0);
     const scheduler = createExerciseScheduler(t.ctx);
     expect(await scheduler.runOnce(new Date(closes - DAY / 2))).toEqual({ closed: 0, reminded: 0 });
-    expect((await t.ctx.db.selectFrom('outbox_messages').select('id').where('subject', 'like', 'Reminder: “Boundary practice”%').execute()).length).toBe(2);
+    expect(
+      (await t.ctx.db.selectFrom('outbox_messages').select('id').where('subject', 'like', 'Reminder: “Boundary practice”%').execute())
+        .length,
+    ).toBe(2);
   });
 
   it('the scheduler closes the exercise after its close date and sends the results notices; answers no longer change', async () => {
@@ -201,7 +268,10 @@ describe('calibration exercises', () => {
 
   it('closes the flag with a link to the exercise that answered it', async () => {
     await lead.post(`${base}/${id}/flags/${c12FlagId}/close`).send({ note: '' }).expect(400);
-    const res = await lead.post(`${base}/${id}/flags/${c12FlagId}/close`).send({ note: 'Practised the boundary; scores in line with the reference.' }).expect(200);
+    const res = await lead
+      .post(`${base}/${id}/flags/${c12FlagId}/close`)
+      .send({ note: 'Practised the boundary; scores in line with the reference.' })
+      .expect(200);
     expect(res.body.status).toBe('closed');
     expect(res.body.note).toMatch(new RegExp(`calibration exercise #${id}`));
     const detail = (await lead.get(`${base}/${id}`).expect(200)).body as ExerciseDetail;

@@ -26,14 +26,22 @@ type Agent = Awaited<ReturnType<typeof signedInAgent>>;
 
 const ALL_SEASONS = ['2022-23', '2023-24', '2024-25', '2025-26'];
 const FULL: ExportRequest = {
-  scope: { seasons: ALL_SEASONS, eventLevels: ['national', 'championship'], categories: ['men', 'women', 'junior'], kinds: ['first', 'review', 'protest'] },
+  scope: {
+    seasons: ALL_SEASONS,
+    eventLevels: ['national', 'championship'],
+    categories: ['men', 'women', 'junior'],
+    kinds: ['first', 'review', 'protest'],
+  },
   fields: ['athlete', 'panel_class', 'kind', 'season', 'event', 'event_level', 'category', 'date'],
   dateMode: 'month',
 };
 
 interface Dictionary {
   columns: { name: string; type: 'string' | 'integer' | 'number' | 'month'; nullable: boolean; values?: string[]; pattern?: string }[];
-  suppression: { k: number; counts: { categoryAthletes: number; categoryRows: number; combinationAssessments: number; combinationRows: number } };
+  suppression: {
+    k: number;
+    counts: { categoryAthletes: number; categoryRows: number; combinationAssessments: number; combinationRows: number };
+  };
   counts: { rows: number };
   cautions: string[];
   howToCite: string;
@@ -107,7 +115,18 @@ function databaseRows(t: TestApp, scope: ExportRequest['scope'], k = 5): RatingR
          join classifiers c on c.id = r.classifier_id join events e on e.id = a.event_id join federations f on f.id = a.federation_id
         where f.slug = 'kestrel-coast' order by a.id, r.id`,
     )
-    .all() as { external_id: string; athlete: string; event: string; assessed_on: string; classifier: string; sport_class: number; panel_class: number | null; kind: 'first' | 'review' | 'protest'; category: string; level: string }[];
+    .all() as {
+    external_id: string;
+    athlete: string;
+    event: string;
+    assessed_on: string;
+    classifier: string;
+    sport_class: number;
+    panel_class: number | null;
+    kind: 'first' | 'review' | 'protest';
+    category: string;
+    level: string;
+  }[];
   const cellOf = (r: (typeof rows)[number]) => `${quarterOf(r.assessed_on)}|${r.kind}|${r.category}`;
   const cells = new Map<string, Set<string>>();
   for (const r of rows) {
@@ -121,7 +140,13 @@ function databaseRows(t: TestApp, scope: ExportRequest['scope'], k = 5): RatingR
   };
   return rows
     .filter((r) => cells.get(cellOf(r))!.size >= k)
-    .filter((r) => scope.seasons.includes(season(r.assessed_on)) && scope.kinds.includes(r.kind) && scope.categories.includes(r.category) && scope.eventLevels.includes(r.level))
+    .filter(
+      (r) =>
+        scope.seasons.includes(season(r.assessed_on)) &&
+        scope.kinds.includes(r.kind) &&
+        scope.categories.includes(r.category) &&
+        scope.eventLevels.includes(r.level),
+    )
     .map((r) => ({
       assessmentId: r.external_id,
       athleteCode: r.athlete,
@@ -157,8 +182,9 @@ function expectClose(actual: unknown, expected: unknown, path = ''): void {
     else expect(actual, path).toBeCloseTo(expected, 10);
   } else if (expected !== null && typeof expected === 'object') {
     expect(typeof actual, path).toBe('object');
-    const keys = new Set([...Object.keys(expected), ...Object.keys((actual ?? {}))]);
-    for (const key of keys) expectClose((actual as Record<string, unknown>)[key], (expected as Record<string, unknown>)[key], `${path}.${key}`);
+    const keys = new Set([...Object.keys(expected), ...Object.keys(actual ?? {})]);
+    for (const key of keys)
+      expectClose((actual as Record<string, unknown>)[key], (expected as Record<string, unknown>)[key], `${path}.${key}`);
   } else expect(actual, path).toEqual(expected);
 }
 
@@ -172,12 +198,15 @@ function filesOf(t: TestApp, exportId: number): string[] {
 }
 
 async function download(agent: Agent, view: ExportView, file: 'csv' | 'json' | 'dictionary'): Promise<string> {
-  const response = await agent.get(`/api${view.files[file]}`).buffer(true).parse((res, cb) => {
-    let text = '';
-    res.setEncoding('utf8');
-    res.on('data', (chunk: string) => (text += chunk));
-    res.on('end', () => cb(null, text));
-  });
+  const response = await agent
+    .get(`/api${view.files[file]}`)
+    .buffer(true)
+    .parse((res, cb) => {
+      let text = '';
+      res.setEncoding('utf8');
+      res.on('data', (chunk: string) => (text += chunk));
+      res.on('end', () => cb(null, text));
+    });
   expect(response.status).toBe(200);
   return response.body as string;
 }
@@ -217,8 +246,10 @@ describe('research exports', () => {
     const all = (q: string) => t.ctx.sqlite.prepare(q).all() as Record<string, string | null>[];
     for (const r of all('select code, display_name from athletes')) [r.code, r.display_name].forEach((v) => v && needles.add(v));
     for (const r of all('select code, display_name from classifiers')) [r.code, r.display_name].forEach((v) => v && needles.add(v));
-    for (const r of all('select code, name, starts_on, ends_on from events')) [r.code, r.name, r.starts_on, r.ends_on].forEach((v) => v && needles.add(v));
-    for (const r of all('select external_id, assessed_on from assessments')) [r.external_id, r.assessed_on].forEach((v) => v && needles.add(v));
+    for (const r of all('select code, name, starts_on, ends_on from events'))
+      [r.code, r.name, r.starts_on, r.ends_on].forEach((v) => v && needles.add(v));
+    for (const r of all('select external_id, assessed_on from assessments'))
+      [r.external_id, r.assessed_on].forEach((v) => v && needles.add(v));
     for (const table of ['athletes', 'classifiers', 'events', 'assessments', 'imports', 'users']) {
       for (const r of all(`select distinct substr(created_at, 1, 10) as d from ${table}`)) if (r.d) needles.add(r.d);
     }
@@ -228,9 +259,16 @@ describe('research exports', () => {
     expect([...needles].filter((needle) => leaky.includes(needle)).length).toBeGreaterThanOrEqual(4);
 
     for (const dateMode of ['month', 'offset'] as const) {
-      const created = await researcher.post(base).send({ ...FULL, dateMode }).expect(201);
+      const created = await researcher
+        .post(base)
+        .send({ ...FULL, dateMode })
+        .expect(201);
       const view = created.body as ExportView;
-      const bytes = [await download(researcher, view, 'csv'), await download(researcher, view, 'json'), await download(researcher, view, 'dictionary')].join('\n');
+      const bytes = [
+        await download(researcher, view, 'csv'),
+        await download(researcher, view, 'json'),
+        await download(researcher, view, 'dictionary'),
+      ].join('\n');
       expect(bytes.length).toBeGreaterThan(100_000);
       const found = [...needles].filter((needle) => bytes.includes(needle));
       expect(found, `identities found in the ${dateMode} export`).toEqual([]);
@@ -269,7 +307,12 @@ describe('research exports', () => {
 
   it('recomputes the same statistics on a narrower scope (one season, reviews, women)', async () => {
     const scope = { seasons: ['2024-25'], eventLevels: ['national'], categories: ['women'], kinds: ['review' as const] };
-    const view = (await researcher.post(base).send({ ...FULL, scope }).expect(201)).body as ExportView;
+    const view = (
+      await researcher
+        .post(base)
+        .send({ ...FULL, scope })
+        .expect(201)
+    ).body as ExportView;
     const dictionary = JSON.parse(await download(researcher, view, 'dictionary')) as Dictionary;
     const rows = readCsv(await download(researcher, view, 'csv'), dictionary);
     const direct = analyzeRatings(buildRatingSet(databaseRows(t, scope), DEFAULT_SCALE));
@@ -279,17 +322,28 @@ describe('research exports', () => {
   });
 
   it('leaves out the data of a cell held by fewer than k athletes before anything else, and blanks small combinations of the rest', async () => {
-    const small = t.ctx.sqlite.prepare("select a.id from athletes a join federations f on f.id = a.federation_id where f.slug = 'kestrel-coast' and a.category = 'junior' order by a.id limit 3").all() as { id: number }[];
+    const small = t.ctx.sqlite
+      .prepare(
+        "select a.id from athletes a join federations f on f.id = a.federation_id where f.slug = 'kestrel-coast' and a.category = 'junior' order by a.id limit 3",
+      )
+      .all() as { id: number }[];
     t.ctx.sqlite.prepare(`update athletes set category = 'masters' where id in (${small.map((s) => s.id).join(',')})`).run();
     try {
       const scope = { ...FULL.scope, categories: ['men', 'women', 'junior', 'masters'] };
       // The lead exports here: the researcher's earlier exports differ from this one by the three athletes (tests/api/differencing.test.ts).
-      const view = (await lead.post(base).send({ ...FULL, scope }).expect(201)).body as ExportView;
+      const view = (
+        await lead
+          .post(base)
+          .send({ ...FULL, scope })
+          .expect(201)
+      ).body as ExportView;
       const dictionary = JSON.parse(await download(lead, view, 'dictionary')) as Dictionary;
       const rows = readCsv(await download(lead, view, 'csv'), dictionary);
       const fromDatabase = databaseRows(t, scope);
       const mastersRows = t.ctx.sqlite
-        .prepare(`select count(*) as n from ratings r join assessments a on a.id = r.assessment_id where a.athlete_id in (${small.map((s) => s.id).join(',')})`)
+        .prepare(
+          `select count(*) as n from ratings r join assessments a on a.id = r.assessment_id where a.athlete_id in (${small.map((s) => s.id).join(',')})`,
+        )
         .get() as { n: number };
       expect(mastersRows.n).toBeGreaterThan(0);
       // Every cell of the three 'masters' athletes holds fewer than k = 5 athletes: their data is left out, not blanked.
@@ -318,7 +372,10 @@ describe('research exports', () => {
       expect(blankedRows).toBeGreaterThan(0);
 
       // Still recomputable: the statistics equal the database's for the same scope.
-      expectClose(statistics(analyzeRatings(buildRatingSet(engineRows(rows), DEFAULT_SCALE))), statistics(analyzeRatings(buildRatingSet(fromDatabase, DEFAULT_SCALE))));
+      expectClose(
+        statistics(analyzeRatings(buildRatingSet(engineRows(rows), DEFAULT_SCALE))),
+        statistics(analyzeRatings(buildRatingSet(fromDatabase, DEFAULT_SCALE))),
+      );
     } finally {
       t.ctx.sqlite.prepare(`update athletes set category = 'junior' where id in (${small.map((s) => s.id).join(',')})`).run();
     }
@@ -328,7 +385,9 @@ describe('research exports', () => {
     const pseudonymsOf = async (agent: Agent, body: ExportRequest) => {
       const view = (await agent.post(base).send(body).expect(201)).body as ExportView;
       const json = JSON.parse(await download(agent, view, 'json')) as { rows: Record<string, Value>[] };
-      return new Set(json.rows.flatMap((r) => [r.assessment, r.athlete, r.classifier, r.event].filter((v): v is string => typeof v === 'string')));
+      return new Set(
+        json.rows.flatMap((r) => [r.assessment, r.athlete, r.classifier, r.event].filter((v): v is string => typeof v === 'string')),
+      );
     };
     const narrow: ExportRequest = { ...FULL, scope: { ...FULL.scope, seasons: ['2023-24'] } };
     const first = await pseudonymsOf(researcher, narrow);
@@ -336,7 +395,10 @@ describe('research exports', () => {
     expect(first.size).toBeGreaterThan(100);
     expect([...first].filter((p) => second.has(p))).toEqual([]);
 
-    const study = await lead.post(`${base}/studies`).send({ name: 'Boundary 2.5/3.0 study', purpose: 'Consistency at the 2.5/3.0 boundary' }).expect(201);
+    const study = await lead
+      .post(`${base}/studies`)
+      .send({ name: 'Boundary 2.5/3.0 study', purpose: 'Consistency at the 2.5/3.0 boundary' })
+      .expect(201);
     const inStudy = { ...narrow, studyId: study.body.id as number };
     const a = await pseudonymsOf(researcher, inStudy);
     const b = await pseudonymsOf(lead, inStudy);
@@ -368,7 +430,9 @@ describe('research exports', () => {
     expect((mine.body as ExportView[]).map((e) => e.id)).toContain(view.id);
     expect(((await lead.get(base).expect(200)).body as ExportView[]).map((e) => e.id)).not.toContain(view.id);
 
-    const audit = t.ctx.sqlite.prepare("select user_id, action, detail from audit_log where entity = 'research_export' and entity_id = ? order by id").all(String(view.id)) as {
+    const audit = t.ctx.sqlite
+      .prepare("select user_id, action, detail from audit_log where entity = 'research_export' and entity_id = ? order by id")
+      .all(String(view.id)) as {
       user_id: number;
       action: string;
       detail: string;
@@ -382,7 +446,9 @@ describe('research exports', () => {
     t.ctx.sqlite.prepare("update research_exports set expires_at = '2000-01-01T00:00:00.000Z' where id = ?").run(view.id);
     const gone = await researcher.get(`/api${view.files.json}`).expect(410);
     expect(gone.body).toEqual({ error: { code: 'gone', message: expect.stringMatching(/7 days/) } });
-    const stored = t.ctx.sqlite.prepare('select storage_key, stored_bytes, removed_at, counts from research_exports where id = ?').get(view.id) as Record<string, string | null>;
+    const stored = t.ctx.sqlite
+      .prepare('select storage_key, stored_bytes, removed_at, counts from research_exports where id = ?')
+      .get(view.id) as Record<string, string | null>;
     expect([stored.storage_key, stored.stored_bytes]).toEqual([null, 0]);
     expect(stored.removed_at).not.toBeNull();
     expect(JSON.parse(stored.counts!).rows).toBe(view.counts.rows);
@@ -396,14 +462,25 @@ describe('research exports', () => {
     await researcher.get(`${base}/settings`).expect(403);
     await researcher.put(`${base}/settings`).send({ minAthletes: 10 }).expect(403);
     const events = (await lead.get(`${base}/options`).expect(200)).body.events as { id: number }[];
-    const refused = await researcher.post(base).send({ ...FULL, scope: { ...FULL.scope, eventIds: [events[0].id] } }).expect(403);
+    const refused = await researcher
+      .post(base)
+      .send({ ...FULL, scope: { ...FULL.scope, eventIds: [events[0].id] } })
+      .expect(403);
     expect(refused.body.error.details[0].path).toBe('scope.eventIds');
-    const leadEvent = (await lead.post(base).send({ ...FULL, scope: { ...FULL.scope, eventIds: [events[0].id] } }).expect(201)).body as ExportView;
+    const leadEvent = (
+      await lead
+        .post(base)
+        .send({ ...FULL, scope: { ...FULL.scope, eventIds: [events[0].id] } })
+        .expect(201)
+    ).body as ExportView;
     expect(leadEvent.counts.rows).toBeGreaterThan(0);
     const dictionary = await download(lead, leadEvent, 'dictionary');
     expect(dictionary).toMatch(/"individualEventsChosen": 1/);
 
-    const bad = await researcher.post(base).send({ ...FULL, scope: { ...FULL.scope, seasons: ['2023'] } }).expect(400);
+    const bad = await researcher
+      .post(base)
+      .send({ ...FULL, scope: { ...FULL.scope, seasons: ['2023'] } })
+      .expect(400);
     expect(bad.body.error.details[0]).toMatchObject({ path: 'scope.seasons.0' });
 
     await lead.put(`${base}/settings`).send({ minAthletes: 500 }).expect(400);
@@ -422,11 +499,18 @@ describe('research exports', () => {
   });
 
   it('keeps each export as three gzip-compressed files beside the database, and streams them back unchanged', async () => {
-    const view = (await researcher.post(base).send({ ...FULL, scope: { ...FULL.scope, seasons: ['2024-25'] } }).expect(201)).body as ExportView;
+    const view = (
+      await researcher
+        .post(base)
+        .send({ ...FULL, scope: { ...FULL.scope, seasons: ['2024-25'] } })
+        .expect(201)
+    ).body as ExportView;
     const files = filesOf(t, view.id);
-    expect(files.map((f) => path.basename(f).replace(/-[0-9a-f]{24}-/, '-KEY-')).sort()).toEqual(
-      [`export-${view.id}-KEY-csv.gz`, `export-${view.id}-KEY-dictionary.gz`, `export-${view.id}-KEY-json.gz`],
-    );
+    expect(files.map((f) => path.basename(f).replace(/-[0-9a-f]{24}-/, '-KEY-')).sort()).toEqual([
+      `export-${view.id}-KEY-csv.gz`,
+      `export-${view.id}-KEY-dictionary.gz`,
+      `export-${view.id}-KEY-json.gz`,
+    ]);
     // Nothing of the files is left in the database.
     const columns = (t.ctx.sqlite.prepare('pragma table_info(research_exports)').all() as { name: string }[]).map((c) => c.name);
     expect(columns).not.toContain('csv');
@@ -452,11 +536,18 @@ describe('research exports', () => {
       })
       .expect(200);
     expect(plain.headers['content-encoding']).toBeUndefined();
-    expect((plain.body as Buffer).toString('utf8')).toBe(zlib.gunzipSync(fs.readFileSync(files.find((f) => f.endsWith('-csv.gz'))!)).toString('utf8'));
+    expect((plain.body as Buffer).toString('utf8')).toBe(
+      zlib.gunzipSync(fs.readFileSync(files.find((f) => f.endsWith('-csv.gz'))!)).toString('utf8'),
+    );
   });
 
   it('removes the files of expired exports in the scheduled job, keeping the rows; and left-over files of an interrupted build', async () => {
-    const view = (await researcher.post(base).send({ ...FULL, scope: { ...FULL.scope, seasons: ['2023-24', '2024-25'] } }).expect(201)).body as ExportView;
+    const view = (
+      await researcher
+        .post(base)
+        .send({ ...FULL, scope: { ...FULL.scope, seasons: ['2023-24', '2024-25'] } })
+        .expect(201)
+    ).body as ExportView;
     const files = filesOf(t, view.id);
     expect(files.length).toBe(3);
     const orphan = path.join(exportsDirectory(t.ctx), `export-999999-${'ab'.repeat(12)}-csv.gz`);
@@ -470,14 +561,18 @@ describe('research exports', () => {
     expect(removed.exports).toBeGreaterThanOrEqual(1);
     expect(removed.orphanFiles).toBe(1);
     for (const f of [...files, orphan]) expect(fs.existsSync(f)).toBe(false);
-    const row = t.ctx.sqlite.prepare('select storage_key, stored_bytes, removed_at, counts from research_exports where id = ?').get(view.id) as Record<string, string | number | null>;
+    const row = t.ctx.sqlite
+      .prepare('select storage_key, stored_bytes, removed_at, counts from research_exports where id = ?')
+      .get(view.id) as Record<string, string | number | null>;
     expect(row.storage_key).toBeNull();
     expect(row.stored_bytes).toBe(0);
     expect(row.removed_at).toBe(view.expiresAt);
     expect(JSON.parse(String(row.counts)).rows).toBe(view.counts.rows);
     await researcher.get(`/api${view.files.csv}`).expect(410);
     // Every export made earlier in this file expired at the same time or before: their files are gone too.
-    const left = t.ctx.sqlite.prepare('select count(*) as n from research_exports where storage_key is not null and expires_at <= ?').get(view.expiresAt) as { n: number };
+    const left = t.ctx.sqlite
+      .prepare('select count(*) as n from research_exports where storage_key is not null and expires_at <= ?')
+      .get(view.expiresAt) as { n: number };
     expect(left.n).toBe(0);
   });
 
@@ -498,22 +593,34 @@ describe('research exports', () => {
       t.ctx.sqlite.prepare('update research_exports set stored_bytes = ? where id = ?').run(1024 * 1024 - 10, one.id);
       const tooLarge = await researcher.post(base).send(narrow).expect(429);
       expect(tooLarge.body.error.code).toBe('rate_limited');
-      expect(tooLarge.body.error.message).toMatch(/^This export takes [\d.]+ MB compressed; with the 1\.0 MB your exports already take, it would pass the 1 MB your federation's lead allows/);
+      expect(tooLarge.body.error.message).toMatch(
+        /^This export takes [\d.]+ MB compressed; with the 1\.0 MB your exports already take, it would pass the 1 MB your federation's lead allows/,
+      );
       expect(fs.readdirSync(exportsDirectory(t.ctx)).sort()).toEqual(dirBefore);
       expect((t.ctx.sqlite.prepare('select count(*) as n from research_exports').get() as { n: number }).n).toBe(rowsBefore);
       // At the limit: refused before anything is built.
       t.ctx.sqlite.prepare('update research_exports set stored_bytes = ? where id = ?').run(2 * 1024 * 1024, one.id);
       const full = await researcher.post(base).send(narrow).expect(429);
-      expect(full.body.error.message).toMatch(/^Your exports take 2\.0 MB of the 1 MB your federation's lead allows a researcher to keep\. Files are removed 7 days after/);
+      expect(full.body.error.message).toMatch(
+        /^Your exports take 2\.0 MB of the 1 MB your federation's lead allows a researcher to keep\. Files are removed 7 days after/,
+      );
       t.ctx.sqlite.prepare('update research_exports set stored_bytes = ? where id = ?').run(one.storedBytes, one.id);
 
       // Exports in 24 hours.
-      const madeToday = (t.ctx.sqlite.prepare('select count(*) as n from research_exports where user_id = ? and created_at > ?').get(userId, new Date(Date.now() - 86_400_000).toISOString()) as { n: number }).n;
+      const madeToday = (
+        t.ctx.sqlite
+          .prepare('select count(*) as n from research_exports where user_id = ? and created_at > ?')
+          .get(userId, new Date(Date.now() - 86_400_000).toISOString()) as { n: number }
+      ).n;
       expect(madeToday).toBeGreaterThan(3);
       await lead.put(`${base}/settings`).send({ minAthletes: 5, maxExportsPerDay: madeToday, maxStoredMegabytes: 1000 }).expect(200);
       const perDay = await researcher.post(base).send(narrow).expect(429);
       expect(perDay.body.error.code).toBe('rate_limited');
-      expect(perDay.body.error.message).toMatch(new RegExp(`^You have made ${madeToday} exports in the last 24 hours, .*\\(${madeToday} a day\\)\\. The next one is possible from \\d{2}:\\d{2} UTC`));
+      expect(perDay.body.error.message).toMatch(
+        new RegExp(
+          `^You have made ${madeToday} exports in the last 24 hours, .*\\(${madeToday} a day\\)\\. The next one is possible from \\d{2}:\\d{2} UTC`,
+        ),
+      );
       // Leads are not held to the researchers' quota.
       await lead.post(base).send(narrow).expect(201);
     } finally {
@@ -531,7 +638,7 @@ describe('research exports', () => {
       .executeTakeFirstOrThrow();
     const second = await t.ctx.db.selectFrom('federations').select('id').where('slug', '=', 'harbour-cities').executeTakeFirstOrThrow();
     await t.ctx.db.insertInto('memberships').values({ user_id: user.id, federation_id: second.id, role: 'lead' }).execute();
-    const agents: Partial<Record<Caller, Agent  >> = {
+    const agents: Partial<Record<Caller, Agent>> = {
       anonymous: request.agent(t.app),
       lead,
       classifier,

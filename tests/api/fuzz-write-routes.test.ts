@@ -31,7 +31,8 @@ function registeredRoutes(router: { stack: Layer[] }, prefix = ''): { method: st
   for (const layer of router.stack) {
     if (layer.route) {
       const paths = Array.isArray(layer.route.path) ? layer.route.path : [layer.route.path];
-      for (const p of paths) for (const [method, on] of Object.entries(layer.route.methods)) if (on) out.push({ method, path: prefix + String(p) });
+      for (const p of paths)
+        for (const [method, on] of Object.entries(layer.route.methods)) if (on) out.push({ method, path: prefix + String(p) });
     } else if (layer.handle?.stack) {
       const mount = layer.slash || layer.rawPath === undefined || layer.rawPath === '/' ? '' : String(layer.rawPath);
       out.push(...registeredRoutes(layer.handle as { stack: Layer[] }, prefix + mount));
@@ -55,7 +56,11 @@ const WRITE = new Set(['post', 'put', 'patch', 'delete']);
 const HEAVY = new Set(['POST /api/federations/:federation/analytics/flags/evaluate']);
 type Caller = 'anonymous' | 'lead' | 'researcher' | 'owner' | 'importToken';
 const CALLERS: Caller[] = ['anonymous', 'lead', 'researcher', 'owner', 'importToken'];
-const EMAILS = { lead: 'lead@demo.panelwise.test', researcher: 'researcher@demo.panelwise.test', owner: 'owner@demo.panelwise.test' } as const;
+const EMAILS = {
+  lead: 'lead@demo.panelwise.test',
+  researcher: 'researcher@demo.panelwise.test',
+  owner: 'owner@demo.panelwise.test',
+} as const;
 
 /** Bodies the JSON parser refuses before any handler runs. */
 const PARSER_REFUSED: { name: string; text: string }[] = [
@@ -67,7 +72,21 @@ const PARSER_REFUSED: { name: string; text: string }[] = [
 ];
 
 /** Well-formed bodies of the wrong shape or type. */
-const WRONG_TYPES: unknown[] = [null, 0, -1, 1e308, 'text', true, [], {}, [null], [{}], { email: 42, password: [] }, { name: { $gt: '' } }, [{ assessment_id: 1, ratings: 'x' }]];
+const WRONG_TYPES: unknown[] = [
+  null,
+  0,
+  -1,
+  1e308,
+  'text',
+  true,
+  [],
+  {},
+  [null],
+  [{}],
+  { email: 42, password: [] },
+  { name: { $gt: '' } },
+  [{ assessment_id: 1, ratings: 'x' }],
+];
 
 const body = fc.oneof(
   { weight: 4, arbitrary: fc.jsonValue({ maxDepth: 5 }).map((v) => JSON.stringify(v) ?? 'null') },
@@ -79,7 +98,16 @@ const body = fc.oneof(
   {
     weight: 1,
     arbitrary: fc
-      .record({ email: fc.oneof(fc.emailAddress(), fc.string()), password: fc.string({ maxLength: 300 }), name: fc.string(), role: fc.string(), scope: fc.string() }, { requiredKeys: [] })
+      .record(
+        {
+          email: fc.oneof(fc.emailAddress(), fc.string()),
+          password: fc.string({ maxLength: 300 }),
+          name: fc.string(),
+          role: fc.string(),
+          scope: fc.string(),
+        },
+        { requiredKeys: [] },
+      )
       .map((v) => JSON.stringify(v)),
   },
 );
@@ -97,7 +125,9 @@ beforeAll(async () => {
 afterAll(() => t.close());
 
 function concretePath(entry: AccessEntry): string {
-  return entry.path.replace(/:(\w+)/g, (_all, name: string) => encodeURIComponent(entry.params?.[name] ?? (name === 'federation' ? 'kestrel-coast' : '1')));
+  return entry.path.replace(/:(\w+)/g, (_all, name: string) =>
+    encodeURIComponent(entry.params?.[name] ?? (name === 'federation' ? 'kestrel-coast' : '1')),
+  );
 }
 
 describe('fuzzed JSON on every write route', () => {

@@ -27,7 +27,10 @@ const csv = (...rows: string[]) => Buffer.from([HEADER, ...rows].join('\n') + '\
 const commit = (id: number, body?: object) => lead.post(`/api/federations/${FEDERATION}/imports/${id}/commit`).send(body ?? {});
 
 describe('a workbook renamed .csv', () => {
-  const zip = Buffer.concat([Buffer.from([0x50, 0x4b, 0x03, 0x04, 0x14, 0x00, 0x06, 0x00]), Buffer.from('[Content_Types].xml assessment_id,athlete_code')]);
+  const zip = Buffer.concat([
+    Buffer.from([0x50, 0x4b, 0x03, 0x04, 0x14, 0x00, 0x06, 0x00]),
+    Buffer.from('[Content_Types].xml assessment_id,athlete_code'),
+  ]);
   const xls = Buffer.concat([Buffer.from([0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1]), Buffer.alloc(504)]);
 
   it.each([
@@ -66,11 +69,16 @@ describe('UTF-16 text', () => {
     expect(utf16.body.errors).toEqual([]);
     expect(utf16.body.outcome).toBe('ready');
     expect(utf16.body.counts).toEqual(utf8.body.counts);
-    for (const id of [utf8.body.importId, utf16.body.importId]) await lead.delete(`/api/federations/${FEDERATION}/imports/${id}`).expect(204);
+    for (const id of [utf8.body.importId, utf16.body.importId])
+      await lead.delete(`/api/federations/${FEDERATION}/imports/${id}`).expect(204);
   });
 
   it('a broken UTF-16 file is named as UTF-16, not as binary data', async () => {
-    const bytes = Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(text.slice(0, 200), 'utf16le'), Buffer.from([0x00, 0xd8, 0x41, 0x00])]);
+    const bytes = Buffer.concat([
+      Buffer.from([0xff, 0xfe]),
+      Buffer.from(text.slice(0, 200), 'utf16le'),
+      Buffer.from([0x00, 0xd8, 0x41, 0x00]),
+    ]);
     const res = await upload(lead, { name: 'broken-utf16.csv', bytes });
     expect(res.body.outcome).toBe('refused');
     expect(res.body.errors[0].message).toMatch(/UTF-16/);
@@ -98,17 +106,30 @@ describe('problems are counted in full, in one round', () => {
 
 describe('a stored assessment re-sent with another athlete', () => {
   it('is a warning the lead must confirm before the commit; revert restores the athlete', async () => {
-    const first = await upload(lead, { name: 'athlete-1.csv', bytes: csv('IMP-7001,A0001,S2425-R1,2024-10-08,C01,3.0', 'IMP-7001,A0001,S2425-R1,2024-10-08,C02,3.0') });
+    const first = await upload(lead, {
+      name: 'athlete-1.csv',
+      bytes: csv('IMP-7001,A0001,S2425-R1,2024-10-08,C01,3.0', 'IMP-7001,A0001,S2425-R1,2024-10-08,C02,3.0'),
+    });
     expect(first.body.athleteChangeCount).toBe(0);
     await commit(first.body.importId).expect(200);
     const athleteOf = () =>
-      t.ctx.sqlite.prepare("select athletes.code from assessments join athletes on athletes.id = assessments.athlete_id where external_id = 'IMP-7001'").pluck().get();
+      t.ctx.sqlite
+        .prepare(
+          "select athletes.code from assessments join athletes on athletes.id = assessments.athlete_id where external_id = 'IMP-7001'",
+        )
+        .pluck()
+        .get();
     expect(athleteOf()).toBe('A0001');
 
-    const again = await upload(lead, { name: 'athlete-2.csv', bytes: csv('IMP-7001,A0002,S2425-R1,2024-10-08,C01,3.0', 'IMP-7001,A0002,S2425-R1,2024-10-08,C02,3.0') });
+    const again = await upload(lead, {
+      name: 'athlete-2.csv',
+      bytes: csv('IMP-7001,A0002,S2425-R1,2024-10-08,C01,3.0', 'IMP-7001,A0002,S2425-R1,2024-10-08,C02,3.0'),
+    });
     expect(again.body.outcome).toBe('ready');
     expect(again.body.athleteChangeCount).toBe(1);
-    expect(again.body.athleteChanges).toEqual([{ assessmentId: 'IMP-7001', row: 1, line: 2, column: 'athlete_code', storedAthlete: 'A0001', fileAthlete: 'A0002' }]);
+    expect(again.body.athleteChanges).toEqual([
+      { assessmentId: 'IMP-7001', row: 1, line: 2, column: 'athlete_code', storedAthlete: 'A0001', fileAthlete: 'A0002' },
+    ]);
 
     const before = dataCounts(t.ctx);
     const refused = await commit(again.body.importId);
@@ -139,18 +160,28 @@ describe('dates', () => {
     expect(res.body.outcome).toBe('ready');
     expect(res.body.counts.assessments.new).toBe(2);
     await commit(res.body.importId).expect(200);
-    const dates = t.ctx.sqlite.prepare("select assessed_on from assessments where external_id in ('IMP-7101', 'IMP-7102') order by external_id").pluck().all();
+    const dates = t.ctx.sqlite
+      .prepare("select assessed_on from assessments where external_id in ('IMP-7101', 'IMP-7102') order by external_id")
+      .pluck()
+      .all();
     expect(dates).toEqual(['2024-10-09', '2024-10-10']);
     await lead.post(`/api/federations/${FEDERATION}/imports/${res.body.importId}/revert`).expect(200);
     // A date in neither form is still refused, naming both.
-    const bad = await upload(lead, { name: 'bad-date.csv', bytes: csv('IMP-7103,A0010,S2425-R1,2024/10/09,C01,3.0') }, { dateFormat: 'DD/MM/YYYY' });
+    const bad = await upload(
+      lead,
+      { name: 'bad-date.csv', bytes: csv('IMP-7103,A0010,S2425-R1,2024/10/09,C01,3.0') },
+      { dateFormat: 'DD/MM/YYYY' },
+    );
     expect(bad.body.errors[0].message).toMatch(/is not a date DD\/MM\/YYYY \(or an ISO date YYYY-MM-DD\)/);
   });
 });
 
 describe('checked files never committed', () => {
   it('expire after 7 days with a note in the history; their staged batch is removed', async () => {
-    const res = await upload(lead, { name: 'waiting.csv', bytes: csv('IMP-7201,A0001,S2425-R1,2024-10-08,C01,3.0', 'IMP-7201,A0001,S2425-R1,2024-10-08,C02,3.0') });
+    const res = await upload(lead, {
+      name: 'waiting.csv',
+      bytes: csv('IMP-7201,A0001,S2425-R1,2024-10-08,C01,3.0', 'IMP-7201,A0001,S2425-R1,2024-10-08,C02,3.0'),
+    });
     const id = res.body.importId as number;
     expect(res.body.expiresAt).toMatch(/^\d{4}-\d{2}-\d{2}T/);
     const staged = `${stagingFolder(t.ctx)}/${id}.json`;
@@ -168,10 +199,12 @@ describe('checked files never committed', () => {
     const late = await commit(id);
     expect(late.status).toBe(409);
     expect(late.body.error.message).toMatch(/expired/);
-    const audit = t.ctx.sqlite.prepare("select count(*) from audit_log where action = 'import.expire' and entity_id = ?").pluck().get(String(id));
+    const audit = t.ctx.sqlite
+      .prepare("select count(*) from audit_log where action = 'import.expire' and entity_id = ?")
+      .pluck()
+      .get(String(id));
     expect(audit).toBe(1);
     // Running it again changes nothing.
     expect(await expireStagedImports(t.ctx, { now: new Date(Date.now() + 8 * 86_400_000) })).toEqual([]);
   });
 });
-

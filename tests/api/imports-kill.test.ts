@@ -73,14 +73,25 @@ describe('a server killed in the middle of an import', () => {
     const port = await freePort();
     child = await start(port);
     const base = `http://localhost:${port}`;
-    const signIn = await fetch(`${base}/api/session`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email: 'lead@demo.panelwise.test', password: 'panelwise-demo' }) });
+    const signIn = await fetch(`${base}/api/session`, {
+      method: 'POST',
+      headers: { 'content-type': 'application/json' },
+      body: JSON.stringify({ email: 'lead@demo.panelwise.test', password: 'panelwise-demo' }),
+    });
     expect(signIn.status).toBe(201);
-    const cookie = signIn.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
+    const cookie = signIn.headers
+      .getSetCookie()
+      .map((c) => c.split(';')[0])
+      .join('; ');
 
     const form = new FormData();
     form.append('file', new Blob([longCsv({ ratings: 300_000, prefix: 'KILL-' })], { type: 'text/csv' }), 'large.csv');
     const dry = await fetch(`${base}/api/federations/kestrel-coast/imports`, { method: 'POST', body: form, headers: { cookie } });
-    const dryBody = (await dry.json()) as { importId: number; outcome: string; counts: { assessments: { new: number }; ratings: { new: number } } };
+    const dryBody = (await dry.json()) as {
+      importId: number;
+      outcome: string;
+      counts: { assessments: { new: number }; ratings: { new: number } };
+    };
     expect(dryBody.outcome).toBe('ready');
     const expected = dryBody.counts.assessments.new;
     expect(expected).toBe(100_000);
@@ -88,7 +99,10 @@ describe('a server killed in the middle of an import', () => {
     // Commit, and kill the process as soon as the write transaction has put pages in the WAL.
     const baseline = walSize();
     let answered = false;
-    const commit = fetch(`${base}/api/federations/kestrel-coast/imports/${dryBody.importId}/commit`, { method: 'POST', headers: { cookie } })
+    const commit = fetch(`${base}/api/federations/kestrel-coast/imports/${dryBody.importId}/commit`, {
+      method: 'POST',
+      headers: { cookie },
+    })
       .then(() => (answered = true))
       .catch(() => undefined);
     const started = Date.now();
@@ -105,7 +119,10 @@ describe('a server killed in the middle of an import', () => {
       expect(db.pragma('integrity_check', { simple: true })).toBe('ok');
       expect(db.pragma('foreign_key_check')).toEqual([]);
       const present = db.prepare("select count(*) from assessments where external_id like 'KILL-%'").pluck().get() as number;
-      const ratings = db.prepare("select count(*) from ratings r join assessments a on a.id = r.assessment_id where a.external_id like 'KILL-%'").pluck().get() as number;
+      const ratings = db
+        .prepare("select count(*) from ratings r join assessments a on a.id = r.assessment_id where a.external_id like 'KILL-%'")
+        .pluck()
+        .get() as number;
       const status = db.prepare('select status from imports where id = ?').pluck().get(dryBody.importId);
       // Wholly present or wholly absent, with the import's status to match.
       if (status === 'committed') expect([present, ratings]).toEqual([expected, 300_000]);
@@ -116,7 +133,10 @@ describe('a server killed in the middle of an import', () => {
 
     // The staged file survived: committing again writes it all.
     // The session key is kept beside the database, so the lead's cookie still works.
-    const again = await fetch(`${base}/api/federations/kestrel-coast/imports/${dryBody.importId}/commit`, { method: 'POST', headers: { cookie } });
+    const again = await fetch(`${base}/api/federations/kestrel-coast/imports/${dryBody.importId}/commit`, {
+      method: 'POST',
+      headers: { cookie },
+    });
     expect(again.status).toBe(200);
     const after = new BetterSqlite3(databasePath, { readonly: true });
     try {

@@ -39,7 +39,9 @@ describe('a valid long CSV', () => {
       rows: 14,
     });
     expect(dry.body.warningCount).toBe(1);
-    expect(dry.body.warnings[0].message).toMatch(/Row 14 \(line 15\), column assessment_id: value "IMP-0006" has ratings from a single classifier/);
+    expect(dry.body.warnings[0].message).toMatch(
+      /Row 14 \(line 15\), column assessment_id: value "IMP-0006" has ratings from a single classifier/,
+    );
     // The dry run staged an import; the federation's data is untouched.
     const afterDry = await settled(t.ctx, tableCounts);
     expect({ ...afterDry, imports: before.imports }).toEqual(before);
@@ -48,18 +50,32 @@ describe('a valid long CSV', () => {
     const version = t.ctx.dataVersions.of(fedId);
     const commit = await lead.post(`/api/federations/${FEDERATION}/imports/${dry.body.importId}/commit`);
     expect(commit.status).toBe(200);
-    expect(commit.body).toMatchObject({ status: 'committed', source: 'csv', fileName: 'long-valid.csv', by: 'Demo Lead', revertable: true });
+    expect(commit.body).toMatchObject({
+      status: 'committed',
+      source: 'csv',
+      fileName: 'long-valid.csv',
+      by: 'Demo Lead',
+      revertable: true,
+    });
     expect(t.ctx.dataVersions.of(fedId)).toBe(version + 1);
     const afterCommit = tableCounts(t.ctx);
     expect(afterCommit.assessments).toBe(before.assessments + 6);
     expect(afterCommit.ratings).toBe(before.ratings + 14);
-    const row = t.ctx.sqlite.prepare("select kind, panel_class, event_id is not null as has_event from assessments where external_id = 'IMP-0003'").get();
+    const row = t.ctx.sqlite
+      .prepare("select kind, panel_class, event_id is not null as has_event from assessments where external_id = 'IMP-0003'")
+      .get();
     expect(row).toEqual({ kind: 'review', panel_class: 9, has_event: 1 });
     // "1,5" is 1.5 (3 half points); "1" is 1.0.
     const classes = t.ctx.sqlite
-      .prepare("select c.code, r.sport_class from ratings r join assessments a on a.id = r.assessment_id join classifiers c on c.id = r.classifier_id where a.external_id = 'IMP-0002' order by c.code")
+      .prepare(
+        "select c.code, r.sport_class from ratings r join assessments a on a.id = r.assessment_id join classifiers c on c.id = r.classifier_id where a.external_id = 'IMP-0002' order by c.code",
+      )
       .all();
-    expect(classes).toEqual([{ code: 'C01', sport_class: 2 }, { code: 'C05', sport_class: 3 }, { code: 'C13', sport_class: 2 }]);
+    expect(classes).toEqual([
+      { code: 'C01', sport_class: 2 },
+      { code: 'C05', sport_class: 3 },
+      { code: 'C13', sport_class: 2 },
+    ]);
 
     // Again: nothing to do, nothing written at all.
     const settledAfterCommit = await settled(t.ctx, tableCounts);
@@ -68,7 +84,10 @@ describe('a valid long CSV', () => {
     expect(again.body.counts.assessments).toEqual({ new: 0, changed: 0, unchanged: 6 });
     expect(tableCounts(t.ctx)).toEqual(settledAfterCommit);
 
-    const audit = t.ctx.sqlite.prepare("select action from audit_log where entity = 'import' and entity_id = ?").pluck().all(String(dry.body.importId));
+    const audit = t.ctx.sqlite
+      .prepare("select action from audit_log where entity = 'import' and entity_id = ?")
+      .pluck()
+      .all(String(dry.body.importId));
     expect(audit).toEqual(['import.commit']);
 
     const revert = await lead.post(`/api/federations/${FEDERATION}/imports/${dry.body.importId}/revert`);
@@ -76,11 +95,14 @@ describe('a valid long CSV', () => {
     expect(revert.body.status).toBe('reverted');
     expect(t.ctx.dataVersions.of(fedId)).toBe(version + 2);
     const afterRevert = tableCounts(t.ctx);
-    for (const table of ['assessments', 'ratings', 'classifiers', 'athletes', 'events', 'import_changes']) expect(afterRevert[table]).toBe(before[table]);
-    expect(t.ctx.sqlite.prepare("select action from audit_log where entity = 'import' and entity_id = ? order by id").pluck().all(String(dry.body.importId))).toEqual([
-      'import.commit',
-      'import.revert',
-    ]);
+    for (const table of ['assessments', 'ratings', 'classifiers', 'athletes', 'events', 'import_changes'])
+      expect(afterRevert[table]).toBe(before[table]);
+    expect(
+      t.ctx.sqlite
+        .prepare("select action from audit_log where entity = 'import' and entity_id = ? order by id")
+        .pluck()
+        .all(String(dry.body.importId)),
+    ).toEqual(['import.commit', 'import.revert']);
     const second = await lead.post(`/api/federations/${FEDERATION}/imports/${dry.body.importId}/revert`);
     expect(second.status).toBe(409);
   });
@@ -92,9 +114,19 @@ describe('a valid long CSV', () => {
            from assessments a join athletes ath on ath.id = a.athlete_id join events e on e.id = a.event_id
           where a.federation_id = ? order by a.id limit 1`,
       )
-      .get(fedId) as { id: number; external_id: string; assessed_on: string; kind: string; panel_class: number; athlete: string; event: string };
+      .get(fedId) as {
+      id: number;
+      external_id: string;
+      assessed_on: string;
+      kind: string;
+      panel_class: number;
+      athlete: string;
+      event: string;
+    };
     const ratings = t.ctx.sqlite
-      .prepare('select r.id, c.code, r.sport_class from ratings r join classifiers c on c.id = r.classifier_id where r.assessment_id = ? order by r.id')
+      .prepare(
+        'select r.id, c.code, r.sport_class from ratings r join classifiers c on c.id = r.classifier_id where r.assessment_id = ? order by r.id',
+      )
       .all(existing.id) as { id: number; code: string; sport_class: number }[];
     const snapshot = () => ({
       assessment: t.ctx.sqlite.prepare('select * from assessments where id = ?').get(existing.id),
@@ -106,7 +138,10 @@ describe('a valid long CSV', () => {
     const unused = ['C01', 'C02', 'C03', 'C04', 'C05'].find((c) => !ratings.some((r) => r.code === c))!;
     const lines = [
       'assessment_id,athlete_code,event_code,assessed_on,classifier_code,sport_class,panel_class,kind',
-      ...ratings.map((r, i) => `${existing.external_id},${existing.athlete},${existing.event},${existing.assessed_on},${r.code},${((i === 0 ? other : r.sport_class) / 2).toFixed(1)},${(existing.panel_class / 2).toFixed(1)},protest`),
+      ...ratings.map(
+        (r, i) =>
+          `${existing.external_id},${existing.athlete},${existing.event},${existing.assessed_on},${r.code},${((i === 0 ? other : r.sport_class) / 2).toFixed(1)},${(existing.panel_class / 2).toFixed(1)},protest`,
+      ),
       `${existing.external_id},${existing.athlete},${existing.event},${existing.assessed_on},${unused},3.0,,protest`,
     ];
     const dry = await upload(lead, { name: 'changes.csv', bytes: Buffer.from(lines.join('\n')) });
@@ -162,7 +197,8 @@ describe('layouts and file forms', () => {
   });
 
   it('reads dates in a declared format', async () => {
-    const text = 'assessment_id,athlete_code,event_code,assessed_on,classifier_code,sport_class\nIMP-0501,A0010,S2425-R1,09/10/2024,C01,3.0\nIMP-0501,A0010,S2425-R1,09/10/2024,C02,3.0\n';
+    const text =
+      'assessment_id,athlete_code,event_code,assessed_on,classifier_code,sport_class\nIMP-0501,A0010,S2425-R1,09/10/2024,C01,3.0\nIMP-0501,A0010,S2425-R1,09/10/2024,C02,3.0\n';
     const iso = await upload(lead, { name: 'dates.csv', bytes: Buffer.from(text) });
     expect(iso.body.errors[0]).toMatchObject({ row: 1, line: 2, column: 'assessed_on', value: '09/10/2024' });
     const declared = await upload(lead, { name: 'dates.csv', bytes: Buffer.from(text) }, { dateFormat: 'DD/MM/YYYY' });
@@ -301,10 +337,14 @@ describe('commit and revert rules', () => {
 
 describe('saved mappings', () => {
   it('saves by name, replaces by name, lists and deletes', async () => {
-    const first = await lead.post(`/api/federations/${FEDERATION}/import-mappings`).send({ name: 'Regional office', mapping: { Remarks: 'note', ID: 'assessment_id' } });
+    const first = await lead
+      .post(`/api/federations/${FEDERATION}/import-mappings`)
+      .send({ name: 'Regional office', mapping: { Remarks: 'note', ID: 'assessment_id' } });
     expect(first.status).toBe(201);
     expect(first.body).toMatchObject({ name: 'Regional office', layout: 'long', dateFormat: 'iso' });
-    const again = await lead.post(`/api/federations/${FEDERATION}/import-mappings`).send({ name: 'Regional office', mapping: { Remarks: 'ignore', C05: 'classifier:C05' }, dateFormat: 'DD.MM.YYYY' });
+    const again = await lead
+      .post(`/api/federations/${FEDERATION}/import-mappings`)
+      .send({ name: 'Regional office', mapping: { Remarks: 'ignore', C05: 'classifier:C05' }, dateFormat: 'DD.MM.YYYY' });
     expect(again.status).toBe(200);
     expect(again.body).toMatchObject({ id: first.body.id, layout: 'wide', dateFormat: 'DD.MM.YYYY' });
     const list = await lead.get(`/api/federations/${FEDERATION}/import-mappings`).expect(200);
@@ -317,8 +357,26 @@ describe('saved mappings', () => {
 });
 
 const ITEMS = [
-  { assessment_id: 'API-0001', athlete_code: 'A0040', event_code: 'S2425-R2', assessed_on: '2024-12-03', kind: 'first', panel_class: '2.5', ratings: [{ classifier_code: 'C01', sport_class: 2.5 }, { classifier_code: 'C02', sport_class: '2,5' }, { classifier_code: 'C03', sport_class: '3' }] },
-  { assessment_id: 'API-0002', athlete_code: 'A0041', event_code: 'S2425-R2', assessed_on: '2024-12-03', ratings: [{ classifier_code: 'C04', sport_class: 4 }] },
+  {
+    assessment_id: 'API-0001',
+    athlete_code: 'A0040',
+    event_code: 'S2425-R2',
+    assessed_on: '2024-12-03',
+    kind: 'first',
+    panel_class: '2.5',
+    ratings: [
+      { classifier_code: 'C01', sport_class: 2.5 },
+      { classifier_code: 'C02', sport_class: '2,5' },
+      { classifier_code: 'C03', sport_class: '3' },
+    ],
+  },
+  {
+    assessment_id: 'API-0002',
+    athlete_code: 'A0041',
+    event_code: 'S2425-R2',
+    assessed_on: '2024-12-03',
+    ratings: [{ classifier_code: 'C04', sport_class: 4 }],
+  },
 ];
 
 describe('batch API', () => {
@@ -328,13 +386,20 @@ describe('batch API', () => {
     const before = await settled(t.ctx, tableCounts);
     const dry = await lead.post(`${path}?dryRun=true`).send(ITEMS);
     expect(dry.status).toBe(200);
-    expect(dry.body).toMatchObject({ outcome: 'dry-run', importId: null, counts: { assessments: { new: 2 }, ratings: { new: 4 }, notAnalysable: 1 } });
+    expect(dry.body).toMatchObject({
+      outcome: 'dry-run',
+      importId: null,
+      counts: { assessments: { new: 2 }, ratings: { new: 4 }, notAnalysable: 1 },
+    });
     expect(tableCounts(t.ctx)).toEqual(before);
     const res = await lead.post(path).send(ITEMS);
     expect(res.status).toBe(201);
     expect(res.body.outcome).toBe('committed');
     expect(res.body.warnings[0]).toMatchObject({ item: 1, field: 'assessment_id', value: 'API-0002' });
-    expect(t.ctx.sqlite.prepare('select status, source from imports where id = ?').get(res.body.importId)).toEqual({ status: 'committed', source: 'api' });
+    expect(t.ctx.sqlite.prepare('select status, source from imports where id = ?').get(res.body.importId)).toEqual({
+      status: 'committed',
+      source: 'api',
+    });
     const after = await settled(t.ctx, tableCounts);
     const again = await lead.post(path).send(ITEMS);
     expect(again.status).toBe(200);
@@ -351,16 +416,31 @@ describe('batch API', () => {
     const res = await lead.post(path).send(bad);
     expect(res.status).toBe(422);
     expect(res.body.error.details.errors).toEqual([
-      expect.objectContaining({ item: 0, field: 'ratings[1].sport_class', value: '3.25', message: expect.stringMatching(/^Item 0, field ratings\[1\]\.sport_class: value "3.25" is not a half-point class/) }),
+      expect.objectContaining({
+        item: 0,
+        field: 'ratings[1].sport_class',
+        value: '3.25',
+        message: expect.stringMatching(/^Item 0, field ratings\[1\]\.sport_class: value "3.25" is not a half-point class/),
+      }),
       expect.objectContaining({ item: 1, field: 'assessed_on', value: '2024-13-01' }),
     ]);
     const shape = await lead.post(path).send([{ assessment_id: 'X', ratings: [] }]);
     expect(shape.status).toBe(422);
-    expect(shape.body.error.details.errors.map((e: { field: string }) => e.field)).toEqual(expect.arrayContaining(['athlete_code', 'ratings']));
+    expect(shape.body.error.details.errors.map((e: { field: string }) => e.field)).toEqual(
+      expect.arrayContaining(['athlete_code', 'ratings']),
+    );
     const notArray = await lead.post(path).send({ assessments: [] });
     expect(notArray.status).toBe(422);
     expect(notArray.body.error.details.errors[0]).toMatchObject({ item: null });
-    const unknown = await lead.post(path).send([{ ...ITEMS[0], ratings: [{ classifier_code: 'C77', sport_class: 3 }, { classifier_code: 'C01', sport_class: 3 }] }]);
+    const unknown = await lead.post(path).send([
+      {
+        ...ITEMS[0],
+        ratings: [
+          { classifier_code: 'C77', sport_class: 3 },
+          { classifier_code: 'C01', sport_class: 3 },
+        ],
+      },
+    ]);
     expect(unknown.status).toBe(422);
     expect(unknown.body.error.details.errors[0]).toMatchObject({ item: 0, field: 'ratings[0].classifier_code', value: 'C77' });
     expect(tableCounts(t.ctx)).toEqual(before);
@@ -376,7 +456,10 @@ describe('batch API', () => {
     expect(res.status).toBe(201);
     const history = await lead.get(`/api/federations/${FEDERATION}/imports`);
     expect(history.body.imports[0]).toMatchObject({ id: res.body.importId, source: 'api', by: 'API token' });
-    const other = await request(t.app).post('/api/v1/federations/harbour-cities/assessments').set('Authorization', `Bearer ${importToken}`).send(items);
+    const other = await request(t.app)
+      .post('/api/v1/federations/harbour-cities/assessments')
+      .set('Authorization', `Bearer ${importToken}`)
+      .send(items);
     expect(other.status).toBe(403);
     await lead.post(`/api/federations/${FEDERATION}/imports/${res.body.importId}/revert`).expect(200);
   });
@@ -387,21 +470,30 @@ describe('progress', () => {
     const server = http.createServer(t.app).listen(0);
     const port = (server.address() as AddressInfo).port;
     try {
-      const cookie = (await request(t.app).post('/api/session').send({ email: LEAD, password: 'panelwise-demo' })).headers['set-cookie'] as unknown as string[];
+      const cookie = (await request(t.app).post('/api/session').send({ email: LEAD, password: 'panelwise-demo' })).headers[
+        'set-cookie'
+      ] as unknown as string[];
       const job = 'job-progress-test-1';
       const events: { phase: string }[] = [];
       const ended = new Promise<void>((resolve, reject) => {
         http
-          .get({ port, path: `/api/federations/${FEDERATION}/import-jobs/${job}/events`, headers: { cookie: cookie.map((c) => c.split(';')[0]).join('; ') } }, (res) => {
-            expect(res.headers['content-type']).toMatch(/text\/event-stream/);
-            let buffer = '';
-            res.on('data', (chunk: Buffer) => {
-              buffer += chunk.toString('utf8');
-              for (const m of buffer.matchAll(/^data: (.*)$/gm)) events.push(JSON.parse(m[1]));
-              buffer = buffer.slice(buffer.lastIndexOf('\n\n') + 2);
-            });
-            res.on('end', () => resolve());
-          })
+          .get(
+            {
+              port,
+              path: `/api/federations/${FEDERATION}/import-jobs/${job}/events`,
+              headers: { cookie: cookie.map((c) => c.split(';')[0]).join('; ') },
+            },
+            (res) => {
+              expect(res.headers['content-type']).toMatch(/text\/event-stream/);
+              let buffer = '';
+              res.on('data', (chunk: Buffer) => {
+                buffer += chunk.toString('utf8');
+                for (const m of buffer.matchAll(/^data: (.*)$/gm)) events.push(JSON.parse(m[1]));
+                buffer = buffer.slice(buffer.lastIndexOf('\n\n') + 2);
+              });
+              res.on('end', () => resolve());
+            },
+          )
           .on('error', reject);
       });
       await new Promise((r) => setTimeout(r, 100));

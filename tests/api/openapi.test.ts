@@ -24,7 +24,8 @@ function routesOf(router: { stack: Layer[] }, prefix = ''): { method: string; pa
   for (const layer of router.stack) {
     if (layer.route) {
       const paths = Array.isArray(layer.route.path) ? layer.route.path : [layer.route.path];
-      for (const p of paths) for (const [method, on] of Object.entries(layer.route.methods)) if (on) out.push({ method, path: prefix + String(p) });
+      for (const p of paths)
+        for (const [method, on] of Object.entries(layer.route.methods)) if (on) out.push({ method, path: prefix + String(p) });
     } else if (layer.handle?.stack) {
       const mount = layer.slash || layer.rawPath === undefined || layer.rawPath === '/' ? '' : String(layer.rawPath);
       out.push(...routesOf(layer.handle as { stack: Layer[] }, prefix + mount));
@@ -63,7 +64,10 @@ describe('OpenAPI document', () => {
   });
 
   it('describes every route of the Express router', () => {
-    const routes = routesOf(apiRouter(t.ctx) as unknown as { stack: Layer[] }).map((r) => ({ method: r.method, path: openApiPath(`/api${r.path}`) }));
+    const routes = routesOf(apiRouter(t.ctx) as unknown as { stack: Layer[] }).map((r) => ({
+      method: r.method,
+      path: openApiPath(`/api${r.path}`),
+    }));
     expect(routes.length).toBeGreaterThan(10);
     const missing = routes.filter((r) => !doc.paths[r.path]?.[r.method]).map((r) => `${r.method.toUpperCase()} ${r.path}`);
     expect(missing, 'describe these routes in their feature’s server/routes/<feature>.openapi.ts').toEqual([]);
@@ -78,7 +82,13 @@ describe('OpenAPI document', () => {
     router.post('/federations/:federation/lint-case', (_req, res) => res.json({}));
     router.get('/federations/:federation/undescribed', (_req, res) => res.json({}));
     const description = new ApiDescription([
-      { method: 'post', path: '/api/federations/:federation/lint-case', summary: 'A write described without schemas', security: { session: true }, responses: { 200: { description: 'Done' } } },
+      {
+        method: 'post',
+        path: '/api/federations/:federation/lint-case',
+        summary: 'A write described without schemas',
+        security: { session: true },
+        responses: { 200: { description: 'Done' } },
+      },
     ]);
     expect(incompleteRoutes(router, description)).toEqual([
       'POST /api/federations/:federation/lint-case lacks a schema for the 200 response, a request body schema (or noBody: true)',
@@ -98,12 +108,21 @@ describe('OpenAPI document', () => {
   it('has the batch API with its request schema from zod, its token scope and its refusal', () => {
     const op = doc.paths['/api/v1/federations/{federation}/assessments'].post;
     expect(op.security).toEqual([{ session: [] }, { bearer: ['import'] }]);
-    const body = (op.requestBody as { content: Record<string, { schema: { type: string; items: { required: string[]; properties: Record<string, unknown> } } }> }).content['application/json'].schema;
+    const body = (
+      op.requestBody as {
+        content: Record<string, { schema: { type: string; items: { required: string[]; properties: Record<string, unknown> } } }>;
+      }
+    ).content['application/json'].schema;
     expect(body.type).toBe('array');
     expect(body.items.required).toEqual(expect.arrayContaining(['assessment_id', 'athlete_code', 'event_code', 'assessed_on', 'ratings']));
     expect(Object.keys(op.responses as object)).toEqual(expect.arrayContaining(['200', '201', '401', '403', '422']));
     const params = op.parameters as { name: string; in: string }[];
-    expect(params).toEqual(expect.arrayContaining([expect.objectContaining({ name: 'federation', in: 'path' }), expect.objectContaining({ name: 'dryRun', in: 'query' })]));
+    expect(params).toEqual(
+      expect.arrayContaining([
+        expect.objectContaining({ name: 'federation', in: 'path' }),
+        expect.objectContaining({ name: 'dryRun', in: 'query' }),
+      ]),
+    );
   });
 
   it('describes the upload as multipart with a binary file', () => {

@@ -34,7 +34,15 @@ async function invitation(email: string): Promise<string> {
   const token = `test-invitation-${email}-${'x'.repeat(20)}`;
   await t.ctx.db
     .insertInto('invitations')
-    .values({ federation_id: federation.id, email, role: 'researcher', classifier_id: null, token_hash: hashSecret(token), invited_by: null, expires_at: inIso(3600_000) })
+    .values({
+      federation_id: federation.id,
+      email,
+      role: 'researcher',
+      classifier_id: null,
+      token_hash: hashSecret(token),
+      invited_by: null,
+      expires_at: inIso(3600_000),
+    })
     .execute();
   return token;
 }
@@ -55,7 +63,8 @@ describe('password strength', () => {
   it('invitation accept refuses a short, a common and a personal password with a clear message, and writes no account', async () => {
     const email = 'juniper.quill@example.test';
     const token = await invitation(email);
-    const accept = (password: string) => request(t.app).post(`/api/invitations/${token}/accept`).send({ displayName: 'Juniper Quill', password, confirmPassword: password });
+    const accept = (password: string) =>
+      request(t.app).post(`/api/invitations/${token}/accept`).send({ displayName: 'Juniper Quill', password, confirmPassword: password });
 
     const short = await accept('short');
     expect(short.status).toBe(400);
@@ -74,14 +83,25 @@ describe('password strength', () => {
   it('a password reset refuses a weak password and keeps the link usable; a strong one then works once', async () => {
     const user = await t.ctx.db.selectFrom('users').select('id').where('email', '=', CLASSIFIER).executeTakeFirstOrThrow();
     const token = `test-reset-${'y'.repeat(30)}`;
-    await t.ctx.db.insertInto('password_resets').values({ user_id: user.id, token_hash: hashSecret(token), expires_at: inIso(3600_000) }).execute();
-    const weak = await request(t.app).post(`/api/password-resets/${token}`).send({ password: 'classifier123', confirmPassword: 'classifier123' });
+    await t.ctx.db
+      .insertInto('password_resets')
+      .values({ user_id: user.id, token_hash: hashSecret(token), expires_at: inIso(3600_000) })
+      .execute();
+    const weak = await request(t.app)
+      .post(`/api/password-resets/${token}`)
+      .send({ password: 'classifier123', confirmPassword: 'classifier123' });
     expect(weak.status).toBe(400);
     expect(weak.body.error.message).toMatch(/too easy to guess/);
     // Nothing changed: the old password still works and the link is still open.
     expect((await request(t.app).post('/api/session').send({ email: CLASSIFIER, password: 'panelwise-demo' })).status).toBe(201);
     expect((await request(t.app).get(`/api/password-resets/${token}`)).status).toBe(200);
-    expect((await request(t.app).post(`/api/password-resets/${token}`).send({ password: 'tundra-violin-parcel-88', confirmPassword: 'tundra-violin-parcel-88' })).status).toBe(204);
+    expect(
+      (
+        await request(t.app)
+          .post(`/api/password-resets/${token}`)
+          .send({ password: 'tundra-violin-parcel-88', confirmPassword: 'tundra-violin-parcel-88' })
+      ).status,
+    ).toBe(204);
   });
 });
 
@@ -96,11 +116,19 @@ describe('absolute session lifetime', () => {
     // Sign-in 30 days minus 10 minutes ago: still valid; a renewal is cut to the 10 minutes left.
     const ago = (ms: number) => new Date(Date.now() - ms).toISOString();
     const day = 24 * 3600 * 1000;
-    await t.ctx.db.updateTable('sessions').set({ created_at: ago(30 * day - 10 * 60_000) }).where('id', '=', sid).execute();
+    await t.ctx.db
+      .updateTable('sessions')
+      .set({ created_at: ago(30 * day - 10 * 60_000) })
+      .where('id', '=', sid)
+      .execute();
     expect((await request(t.app).get('/api/session').set('Cookie', cookie)).status).toBe(200);
 
     // Past the absolute end: refused (401), and the row is revoked.
-    await t.ctx.db.updateTable('sessions').set({ created_at: ago(30 * day + 1000) }).where('id', '=', sid).execute();
+    await t.ctx.db
+      .updateTable('sessions')
+      .set({ created_at: ago(30 * day + 1000) })
+      .where('id', '=', sid)
+      .execute();
     const ended = await request(t.app).get('/api/session').set('Cookie', cookie);
     expect(ended.status).toBe(401);
     const row = await t.ctx.db.selectFrom('sessions').select('revoked_at').where('id', '=', sid).executeTakeFirstOrThrow();
@@ -113,7 +141,11 @@ describe('absolute session lifetime', () => {
     const cookie = sessionCookieOf(signIn);
     const { sid } = decodeJwt(cookie.slice(SESSION_COOKIE.length + 1)) as { sid: string };
     const day = 24 * 3600 * 1000;
-    await t.ctx.db.updateTable('sessions').set({ created_at: new Date(Date.now() - 30 * day + 10 * 60_000).toISOString() }).where('id', '=', sid).execute();
+    await t.ctx.db
+      .updateTable('sessions')
+      .set({ created_at: new Date(Date.now() - 30 * day + 10 * 60_000).toISOString() })
+      .where('id', '=', sid)
+      .execute();
     // A token older than five minutes is renewed: forge the age by signing one issued 6 minutes ago.
     const { SignJWT } = await import('jose');
     const claims = decodeJwt(cookie.slice(SESSION_COOKIE.length + 1)) as { sid: string; uid: number; sv: number };
@@ -138,7 +170,8 @@ describe('lock-out an anonymous caller cannot use against someone else', () => {
   it('failures from one address lock that address out of the account; its owner signs in from theirs', async () => {
     const attacker = '203.0.113.66';
     const owner = '198.51.100.20';
-    const attempt = (ip: string, password: string) => request(t.app).post('/api/session').set('X-Forwarded-For', ip).send({ email: LEAD, password });
+    const attempt = (ip: string, password: string) =>
+      request(t.app).post('/api/session').set('X-Forwarded-For', ip).send({ email: LEAD, password });
     for (let i = 0; i < 10; i++) expect((await attempt(attacker, `not-the-password-${i}`)).status).toBe(401);
     const locked = await attempt(attacker, 'panelwise-demo');
     expect(locked.status).toBe(429);
@@ -148,6 +181,9 @@ describe('lock-out an anonymous caller cannot use against someone else', () => {
     expect((await attempt(owner, 'panelwise-demo')).status).toBe(201);
     // The attacker's address is still locked for that account, though not for another account.
     expect((await attempt(attacker, 'panelwise-demo')).status).toBe(429);
-    expect((await request(t.app).post('/api/session').set('X-Forwarded-For', attacker).send({ email: RESEARCHER, password: 'panelwise-demo' })).status).toBe(201);
+    expect(
+      (await request(t.app).post('/api/session').set('X-Forwarded-For', attacker).send({ email: RESEARCHER, password: 'panelwise-demo' }))
+        .status,
+    ).toBe(201);
   });
 });

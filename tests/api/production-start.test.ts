@@ -34,7 +34,11 @@ const production = (databasePath: string, extra: Record<string, string> = {}) =>
 });
 
 const signIn = (base: string, email: string, password: string) =>
-  fetch(`${base}/api/session`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password }) });
+  fetch(`${base}/api/session`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify({ email, password }),
+  });
 
 describe('starting in production', () => {
   it('refuses a short SESSION_SECRET and a missing SMTP_URL, one clear line each, with a non-zero exit code', async () => {
@@ -76,7 +80,11 @@ describe('starting in production', () => {
     expect(weak.code).toBe(1);
     expect(weak.stderr).toContain('too easy to guess');
     const password = 'quiet-lantern-harbour-gravel';
-    const created = await panelwise(['create-owner', 'head@federation.example.org', '--name', 'Head of Classification'], env, `${password}\n`);
+    const created = await panelwise(
+      ['create-owner', 'head@federation.example.org', '--name', 'Head of Classification'],
+      env,
+      `${password}\n`,
+    );
     expect(created.code, created.stderr).toBe(0);
     expect(created.stdout).toContain('created the site owner head@federation.example.org');
     const owner = await signIn(base, 'head@federation.example.org', password);
@@ -93,7 +101,10 @@ describe('starting in production', () => {
     const databasePath = path.join(dir, 'had-demo.db');
     const { db } = openDatabase(databasePath);
     await migrateToLatest(db);
-    await db.insertInto('users').values({ email: 'lead@demo.panelwise.test', display_name: 'Demo Lead', password_hash: await hashPassword('panelwise-demo') }).execute();
+    await db
+      .insertInto('users')
+      .values({ email: 'lead@demo.panelwise.test', display_name: 'Demo Lead', password_hash: await hashPassword('panelwise-demo') })
+      .execute();
     await db.destroy();
     const env = production(databasePath);
 

@@ -14,8 +14,11 @@ describe('session API', () => {
     const me = await agent.get('/api/session');
     expect(me.status).toBe(200);
     expect(me.body.user.email).toBe('lead@demo.panelwise.test');
-    expect(me.body.memberships).toContainEqual(expect.objectContaining({ role: 'lead', federation: expect.objectContaining({ slug: 'kestrel-coast' }) }));
-    const cookie = (await request(t.app).post('/api/session').send({ email: 'lead@demo.panelwise.test', password: 'panelwise-demo' })).headers['set-cookie'];
+    expect(me.body.memberships).toContainEqual(
+      expect.objectContaining({ role: 'lead', federation: expect.objectContaining({ slug: 'kestrel-coast' }) }),
+    );
+    const cookie = (await request(t.app).post('/api/session').send({ email: 'lead@demo.panelwise.test', password: 'panelwise-demo' }))
+      .headers['set-cookie'];
     expect(String(cookie)).toMatch(/HttpOnly/i);
     expect(String(cookie)).toMatch(/SameSite=Lax/i);
 
@@ -51,7 +54,10 @@ describe('session API', () => {
   });
 
   it('refuses a cross-site state-changing request', async () => {
-    const response = await request(t.app).post('/api/session').set('Origin', 'https://elsewhere.example').send({ email: 'lead@demo.panelwise.test', password: 'panelwise-demo' });
+    const response = await request(t.app)
+      .post('/api/session')
+      .set('Origin', 'https://elsewhere.example')
+      .send({ email: 'lead@demo.panelwise.test', password: 'panelwise-demo' });
     expect(response.status).toBe(403);
   });
 });

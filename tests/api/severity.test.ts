@@ -21,7 +21,16 @@ function readRows(t: TestApp): RatingRow[] {
          join federations f on f.id = a.federation_id
         where f.slug = 'kestrel-coast' order by a.assessed_on, a.id, r.id`,
     )
-    .all() as { external_id: string; athlete: string; event: string; assessed_on: string; classifier: string; sport_class: number; panel_class: number | null; kind: 'first' | 'review' | 'protest' }[];
+    .all() as {
+    external_id: string;
+    athlete: string;
+    event: string;
+    assessed_on: string;
+    classifier: string;
+    sport_class: number;
+    panel_class: number | null;
+    kind: 'first' | 'review' | 'protest';
+  }[];
   return rows.map((r) => ({
     assessmentId: r.external_id,
     athleteCode: r.athlete,
@@ -75,7 +84,9 @@ describe('severity on the dashboards API', () => {
 
   it('filters narrow the ratings the model is fitted on', async () => {
     const res = await lead.get(`${base}/classifiers?season=2024`);
-    const season = classifierSeverity(filterRatingSet(buildRatingSet(readRows(t), DEFAULT_SCALE), { from: '2024-07-01', to: '2025-06-30' }));
+    const season = classifierSeverity(
+      filterRatingSet(buildRatingSet(readRows(t), DEFAULT_SCALE), { from: '2024-07-01', to: '2025-06-30' }),
+    );
     const e = season.classifiers.find((c) => c.code === 'C03')!;
     const row = res.body.classifiers.find((r: { code: string }) => r.code === 'C03');
     expect(row.severity.value).toBeCloseTo(e.value!, 10);

@@ -78,7 +78,9 @@ describe('the worker pool on a database file', () => {
   it('shares one computation between callers of the same cold view', async () => {
     const before = t.ctx.pool.stats();
     const url = `${base}/boundaries?kind=first`;
-    const answers = await Promise.all(Array.from({ length: 6 }, () => get(url).then(async (r) => ({ status: r.status, text: await r.text() }))));
+    const answers = await Promise.all(
+      Array.from({ length: 6 }, () => get(url).then(async (r) => ({ status: r.status, text: await r.text() }))),
+    );
     for (const a of answers) {
       expect(a.status).toBe(200);
       expect(a.text).toBe(answers[0].text);
@@ -108,7 +110,10 @@ describe('the worker pool on a database file', () => {
     const dry = await upload(lead, { name: 'long-valid.csv' });
     expect(dry.status).toBe(200);
     expect(dry.body.outcome).toBe('ready');
-    const evaluatedBefore = t.ctx.sqlite.prepare('select max(evaluated_at) from calibration_flags where federation_id = ?').pluck().get(fedId) as string | null;
+    const evaluatedBefore = t.ctx.sqlite
+      .prepare('select max(evaluated_at) from calibration_flags where federation_id = ?')
+      .pluck()
+      .get(fedId) as string | null;
     const commit = await lead.post(`/api/federations/${FEDERATION}/imports/${dry.body.importId}/commit`);
     expect(commit.status).toBe(200);
     expect(commit.body.status).toBe('committed');
@@ -116,7 +121,10 @@ describe('the worker pool on a database file', () => {
     await t.ctx.jobs.idle();
     expect(t.ctx.jobs.size).toBe(0);
     expect(t.ctx.sqlite.prepare('select count(*) from background_jobs').pluck().get()).toBe(0);
-    const evaluatedAfter = t.ctx.sqlite.prepare('select max(evaluated_at) from calibration_flags where federation_id = ?').pluck().get(fedId) as string | null;
+    const evaluatedAfter = t.ctx.sqlite
+      .prepare('select max(evaluated_at) from calibration_flags where federation_id = ?')
+      .pluck()
+      .get(fedId) as string | null;
     if (evaluatedBefore !== null) expect(evaluatedAfter! > evaluatedBefore).toBe(true);
     else expect(evaluatedAfter).not.toBeNull();
     // The new assessments show at once (the cached overview belonged to the old version).
@@ -138,7 +146,10 @@ describe('the worker pool on a database file', () => {
     try {
       await again.ctx.jobs.idle();
       expect(again.ctx.sqlite.prepare('select count(*) from background_jobs').pluck().get()).toBe(0);
-      const stale = again.ctx.sqlite.prepare("select count(*) from calibration_flags where federation_id = ? and evaluated_at = '2000-01-01T00:00:00.000Z'").pluck().get(fedId);
+      const stale = again.ctx.sqlite
+        .prepare("select count(*) from calibration_flags where federation_id = ? and evaluated_at = '2000-01-01T00:00:00.000Z'")
+        .pluck()
+        .get(fedId);
       expect(stale).toBe(0);
     } finally {
       await again.close();

@@ -7,7 +7,10 @@ import { ResetPasswordPage } from '../../src/features/session/components/reset-p
 import { mockApi, renderRoutes } from './render';
 
 const noSession = () => ({ status: 401, body: { error: { code: 'unauthenticated', message: 'Sign in' } } });
-const gone = () => ({ status: 410, body: { error: { code: 'gone', message: 'This link has expired or was already used. Ask for a new one.' } } });
+const gone = () => ({
+  status: 410,
+  body: { error: { code: 'gone', message: 'This link has expired or was already used. Ask for a new one.' } },
+});
 const TOKEN = 'a'.repeat(43);
 
 describe('accept-invitation page', () => {
@@ -16,7 +19,14 @@ describe('accept-invitation page', () => {
       'GET /api/session': noSession,
       [`GET /api/invitations/${TOKEN}`]: () => ({
         status: 200,
-        body: { email: 'new@example.test', federation: { slug: 'kestrel-coast', name: 'Kestrel Coast' }, role: 'classifier', classifierCode: 'C03', existingUser: false, expiresAt: '2099-01-01T00:00:00Z' },
+        body: {
+          email: 'new@example.test',
+          federation: { slug: 'kestrel-coast', name: 'Kestrel Coast' },
+          role: 'classifier',
+          classifierCode: 'C03',
+          existingUser: false,
+          expiresAt: '2099-01-01T00:00:00Z',
+        },
       }),
     });
     renderRoutes([{ path: '/invitations/:token', element: <AcceptInvitationPage /> }], `/invitations/${TOKEN}`);
@@ -40,7 +50,10 @@ describe('accept-invitation page', () => {
 describe('reset-password page', () => {
   it('shows the expired-link page when the link was used meanwhile', async () => {
     const calls = mockApi({
-      [`GET /api/password-resets/${TOKEN}`]: () => ({ status: 200, body: { email: 'someone@example.test', expiresAt: '2099-01-01T00:00:00Z' } }),
+      [`GET /api/password-resets/${TOKEN}`]: () => ({
+        status: 200,
+        body: { email: 'someone@example.test', expiresAt: '2099-01-01T00:00:00Z' },
+      }),
       [`POST /api/password-resets/${TOKEN}`]: gone,
     });
     renderRoutes([{ path: '/reset-password/:token', element: <ResetPasswordPage /> }], `/reset-password/${TOKEN}`);
@@ -53,7 +66,11 @@ describe('reset-password page', () => {
 });
 
 describe('page access', () => {
-  const as = (role: 'lead' | 'classifier' | 'researcher', classifierCode: string | null = null) => ({ federation: { id: 1, slug: 'k', name: 'K' }, role, classifierCode });
+  const as = (role: 'lead' | 'classifier' | 'researcher', classifierCode: string | null = null) => ({
+    federation: { id: 1, slug: 'k', name: 'K' },
+    role,
+    classifierCode,
+  });
   it('lets a classifier open only their own classifier page, and keeps lead pages to leads', () => {
     expect(pageAllowed(as('classifier', 'C03'), '/classifiers/C03')).toBe(true);
     expect(pageAllowed(as('classifier', 'C03'), '/classifiers/C05')).toBe(false);

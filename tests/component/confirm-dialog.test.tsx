@@ -14,7 +14,11 @@ function Revoker() {
       <button
         type="button"
         onClick={async () => {
-          const ok = await confirm({ title: 'Revoke the token “Registration”?', consequence: <p>Every request with it is refused from now on.</p>, confirmLabel: 'Revoke the token' });
+          const ok = await confirm({
+            title: 'Revoke the token “Registration”?',
+            consequence: <p>Every request with it is refused from now on.</p>,
+            confirmLabel: 'Revoke the token',
+          });
           setState(ok ? 'revoked' : 'kept');
         }}
       >

@@ -12,7 +12,18 @@ const rows: Row[] = Array.from({ length: 30 }, (_, i) => ({ code: `C${String(i +
 
 describe('DataTable', () => {
   it('sorts, filters and pages', async () => {
-    render(<DataTable caption="Classifiers" rows={rows} columns={[{ key: 'code', header: 'Code' }, { key: 'n', header: 'Ratings', align: 'right' }]} filterable pageSize={10} />);
+    render(
+      <DataTable
+        caption="Classifiers"
+        rows={rows}
+        columns={[
+          { key: 'code', header: 'Code' },
+          { key: 'n', header: 'Ratings', align: 'right' },
+        ]}
+        filterable
+        pageSize={10}
+      />,
+    );
     const table = screen.getByRole('table', { name: 'Classifiers' });
     expect(within(table).getAllByRole('row')).toHaveLength(11);
     expect(screen.getByText(/Page 1 of 3/)).toBeInTheDocument();

@@ -8,7 +8,15 @@ import { createQueryClient } from '../../src/lib/query-client';
 export function renderRoutes(routes: RouteObject[], path: string) {
   const queryClient = createQueryClient();
   const router = createMemoryRouter(routes, { initialEntries: [path] });
-  return { queryClient, router, ...render(<QueryClientProvider client={queryClient}><RouterProvider router={router} /></QueryClientProvider>) };
+  return {
+    queryClient,
+    router,
+    ...render(
+      <QueryClientProvider client={queryClient}>
+        <RouterProvider router={router} />
+      </QueryClientProvider>,
+    ),
+  };
 }
 
 export function renderWithProviders(element: ReactElement, path = '/') {
@@ -18,7 +26,7 @@ export function renderWithProviders(element: ReactElement, path = '/') {
 /** Replaces fetch with answers by method and path; unknown requests fail the test loudly. */
 export function mockApi(handlers: Record<string, (body: unknown) => { status: number; body?: unknown }>) {
   const calls: { method: string; path: string; body: unknown }[] = [];
-  globalThis.fetch = (async (input: RequestInfo | URL, init?: RequestInit) => {
+  globalThis.fetch = async (input: RequestInfo | URL, init?: RequestInit) => {
     const url = new URL(String(input), 'http://localhost');
     const method = init?.method ?? 'GET';
     const key = `${method} ${url.pathname}`;
@@ -31,6 +39,6 @@ export function mockApi(handlers: Record<string, (body: unknown) => { status: nu
       status: answer.status,
       headers: { 'content-type': 'application/json' },
     });
-  });
+  };
   return calls;
 }

@@ -6,7 +6,9 @@ import { mockApi, renderRoutes } from './render';
 
 describe('sign-in page', () => {
   it('names each missing field before sending anything', async () => {
-    const calls = mockApi({ 'GET /api/session': () => ({ status: 401, body: { error: { code: 'unauthenticated', message: 'Sign in' } } }) });
+    const calls = mockApi({
+      'GET /api/session': () => ({ status: 401, body: { error: { code: 'unauthenticated', message: 'Sign in' } } }),
+    });
     renderRoutes([{ path: '/sign-in', element: <SignInPage /> }], '/sign-in');
     await userEvent.click(await screen.findByRole('button', { name: 'Sign in' }));
     expect(await screen.findByText('Enter an e-mail address')).toBeInTheDocument();
@@ -17,7 +19,10 @@ describe('sign-in page', () => {
   it('shows the server’s answer for a wrong password', async () => {
     mockApi({
       'GET /api/session': () => ({ status: 401, body: { error: { code: 'unauthenticated', message: 'Sign in' } } }),
-      'POST /api/session': () => ({ status: 401, body: { error: { code: 'unauthenticated', message: 'The e-mail or password is not right' } } }),
+      'POST /api/session': () => ({
+        status: 401,
+        body: { error: { code: 'unauthenticated', message: 'The e-mail or password is not right' } },
+      }),
     });
     renderRoutes([{ path: '/sign-in', element: <SignInPage /> }], '/sign-in');
     await userEvent.type(await screen.findByLabelText('E-mail'), 'lead@demo.panelwise.test');

@@ -27,7 +27,15 @@ async function check(page: Page, name: string) {
   await page.screenshot({ path: `test-results/e2e/screens/${name}.png`, fullPage: true });
   const results = await new AxeBuilder({ page }).analyze();
   const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
-  expect(bad.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).slice(0, 3).join(', ')})`)).toEqual([]);
+  expect(
+    bad.map(
+      (v) =>
+        `${v.id}: ${v.help} (${v.nodes
+          .map((n) => n.target.join(' '))
+          .slice(0, 3)
+          .join(', ')})`,
+    ),
+  ).toEqual([]);
 }
 
 async function pageText(page: Page): Promise<string> {
@@ -106,13 +114,22 @@ test.describe('agreement dashboards', () => {
     await expect(stake).toHaveText(/^\d+$/);
     await expect(page.getByTestId('boundary-splits')).toContainText('2.5/3.0');
     // Document order and position on the page: the trade's figures first, every weighted figure after.
-    const weighted = [page.getByTestId('alpha-value'), page.getByText(/Gwet’s AC2, quadratic/).first(), page.getByText(/Panels within half a class/).first()];
+    const weighted = [
+      page.getByTestId('alpha-value'),
+      page.getByText(/Gwet’s AC2, quadratic/).first(),
+      page.getByText(/Panels within half a class/).first(),
+    ];
     const firstWeighted = Math.min(...(await Promise.all(weighted.map(async (w) => (await w.boundingBox())!.y))));
     expect((await unanimous.boundingBox())!.y).toBeLessThan(firstWeighted);
     expect((await stake.boundingBox())!.y).toBeLessThan(firstWeighted);
     const order = await page.evaluate(() => {
       const text = document.querySelector('main')!.innerText;
-      return { unanimous: text.indexOf('Panels unanimous'), stake: text.indexOf('Points at stake'), alpha: text.indexOf('Krippendorff’s alpha'), quadratic: text.search(/quadratic/i) };
+      return {
+        unanimous: text.indexOf('Panels unanimous'),
+        stake: text.indexOf('Points at stake'),
+        alpha: text.indexOf('Krippendorff’s alpha'),
+        quadratic: text.search(/quadratic/i),
+      };
     });
     expect(order.unanimous).toBeGreaterThanOrEqual(0);
     expect(order.stake).toBeLessThan(order.alpha);

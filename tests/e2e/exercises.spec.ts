@@ -30,7 +30,10 @@ async function settle(page: Page) {
 
 /** Screenshots at both widths, and an accessibility check without serious or critical violations. */
 async function check(page: Page, name: string) {
-  for (const [label, size] of [['1366', WIDE], ['390', NARROW]] as const) {
+  for (const [label, size] of [
+    ['1366', WIDE],
+    ['390', NARROW],
+  ] as const) {
     await page.setViewportSize(size);
     await settle(page);
     await page.screenshot({ path: `test-results/e2e/screens/${name}-${label}.png`, fullPage: true });
@@ -44,10 +47,20 @@ async function check(page: Page, name: string) {
   await page.setViewportSize(WIDE);
   const results = await new AxeBuilder({ page }).analyze();
   const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
-  expect(bad.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).slice(0, 3).join(', ')})`)).toEqual([]);
+  expect(
+    bad.map(
+      (v) =>
+        `${v.id}: ${v.help} (${v.nodes
+          .map((n) => n.target.join(' '))
+          .slice(0, 3)
+          .join(', ')})`,
+    ),
+  ).toEqual([]);
 }
 
-test('a lead creates an exercise from a flag, the classifier completes it blind, the lead closes it and sees scores and the before/after chart', async ({ browser }) => {
+test('a lead creates an exercise from a flag, the classifier completes it blind, the lead closes it and sees scores and the before/after chart', async ({
+  browser,
+}) => {
   test.setTimeout(600_000);
   const lead = await signIn(browser, 'lead');
   await lead.getByRole('link', { name: 'Exercises' }).first().click();
@@ -59,21 +72,33 @@ test('a lead creates an exercise from a flag, the classifier completes it blind,
   const source = lead.getByLabel('A calibration flag or a class boundary (fills in cases and classifiers)');
   const flagOption = source.locator('option', { hasText: /^C12 / }).first();
   await expect(flagOption).toBeAttached({ timeout: 20_000 });
-  await source.selectOption((await flagOption.getAttribute('value')));
+  await source.selectOption(await flagOption.getAttribute('value'));
   await expect(lead.getByLabel('Title')).toHaveValue(/^Calibration for C12/, { timeout: 20_000 });
   await expect(lead.getByRole('checkbox', { name: /^C12 / })).toBeChecked();
   // Keep two of the proposed cases, with invented descriptions.
-  while ((await lead.getByRole('button', { name: /^Remove case \d+$/ }).count()) > 1 && (await lead.getByRole('button', { name: 'Remove case 3' }).count()) > 0) {
+  while (
+    (await lead.getByRole('button', { name: /^Remove case \d+$/ }).count()) > 1 &&
+    (await lead.getByRole('button', { name: 'Remove case 3' }).count()) > 0
+  ) {
     await lead.getByRole('button', { name: 'Remove case 3' }).click();
   }
-  await lead.getByLabel('Description').nth(0).fill('Guard, pushes with short strokes and stops by leaning on the backrest (invented case).');
+  await lead
+    .getByLabel('Description')
+    .nth(0)
+    .fill('Guard, pushes with short strokes and stops by leaning on the backrest (invented case).');
   await lead.getByLabel('Description').nth(1).fill('Forward, rebounds with one arm, the other holding the wheel (invented case).');
-  await lead.getByLabel(/^Video link/).nth(0).fill('ftp://not-a-web-link');
+  await lead
+    .getByLabel(/^Video link/)
+    .nth(0)
+    .fill('ftp://not-a-web-link');
   await lead.getByLabel('Title').fill('Browser practice at the boundary');
   await check(lead, 'exercises-lead-new');
   await lead.getByRole('button', { name: 'Save draft' }).click();
   await expect(lead.getByText('The link is not an http(s) address')).toBeVisible();
-  await lead.getByLabel(/^Video link/).nth(0).fill('https://video.example.invalid/browser-case-1');
+  await lead
+    .getByLabel(/^Video link/)
+    .nth(0)
+    .fill('https://video.example.invalid/browser-case-1');
   await lead.getByLabel('Reference class').nth(0).selectOption('6');
   await lead.getByLabel('Reference class').nth(1).selectOption('5');
   await lead.getByRole('button', { name: 'Save draft' }).click();

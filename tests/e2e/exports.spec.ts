@@ -23,11 +23,16 @@ test('the researcher builds an anonymised export, downloads it, and finds no cla
   await expect(ready).toBeVisible();
 
   const downloadPromise = page.waitForEvent('download');
-  await page.getByRole('status').getByRole('link', { name: /^CSV of export/ }).click();
+  await page
+    .getByRole('status')
+    .getByRole('link', { name: /^CSV of export/ })
+    .click();
   const download = await downloadPromise;
   expect(download.suggestedFilename()).toMatch(/^research-export-\d+\.csv$/);
-  const csv = fs.readFileSync((await download.path()), 'utf8');
-  expect(csv.split('\r\n')[0]).toBe('assessment,athlete,classifier,sport_class,panel_class,kind,season,event,event_level,category,assessed_month');
+  const csv = fs.readFileSync(await download.path(), 'utf8');
+  expect(csv.split('\r\n')[0]).toBe(
+    'assessment,athlete,classifier,sport_class,panel_class,kind,season,event,event_level,category,assessed_month',
+  );
   expect(csv.length).toBeGreaterThan(50_000);
   expect(csv).not.toMatch(/C\d{2}/); // the demo's classifier codes are C01 … C20
   expect(csv).not.toContain('2022-23');

@@ -56,7 +56,9 @@ test('deactivating a member and replacing a pending invitation ask first', async
   const deactivate = page.getByRole('dialog', { name: 'Deactivate Demo Researcher?' });
   await expect(deactivate).toContainText('loses Kestrel Coast Wheelchair Basketball Federation at once');
   await deactivate.getByRole('button', { name: 'Cancel' }).click();
-  await expect(page.getByRole('table', { name: 'Members' }).getByRole('row').filter({ hasText: 'Demo Researcher' })).not.toContainText('Deactivated');
+  await expect(page.getByRole('table', { name: 'Members' }).getByRole('row').filter({ hasText: 'Demo Researcher' })).not.toContainText(
+    'Deactivated',
+  );
 
   const email = `heron.quay.${Date.now()}@example.test`;
   const invite = page.getByRole('form', { name: 'Invite someone' });
@@ -123,7 +125,11 @@ test('accepting an invitation leads to the federation without asking for the spe
   expect(answer.status()).toBe(201);
   const outbox = await (await page.request.get('/api/federations/kestrel-coast/outbox')).json();
   const message = (outbox.messages as { to: string; links: string[] }[]).find((m) => m.to === email)!;
-  await page.getByRole('button', { name: 'Sign out' }).first().click({ force: true }).catch(() => undefined);
+  await page
+    .getByRole('button', { name: 'Sign out' })
+    .first()
+    .click({ force: true })
+    .catch(() => undefined);
   await page.context().clearCookies();
 
   const failed: string[] = [];

@@ -14,7 +14,15 @@ const shot = (page: Page, name: string) => page.screenshot({ path: `test-results
 async function axe(page: Page) {
   const results = await new AxeBuilder({ page }).analyze();
   const bad = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
-  expect(bad.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).slice(0, 3).join(', ')})`)).toEqual([]);
+  expect(
+    bad.map(
+      (v) =>
+        `${v.id}: ${v.help} (${v.nodes
+          .map((n) => n.target.join(' '))
+          .slice(0, 3)
+          .join(', ')})`,
+    ),
+  ).toEqual([]);
 }
 
 async function counts(page: Page) {
@@ -72,7 +80,9 @@ test('the lead uploads, maps, fixes, commits and reverts an import', async ({ pa
   await shot(page, 'imports-committed');
 
   await page.getByRole('link', { name: 'See the overview' }).click();
-  await expect(page.getByTestId('count-assessments')).toHaveText(new Intl.NumberFormat('en').format(before.assessments + 3), { timeout: 20_000 });
+  await expect(page.getByTestId('count-assessments')).toHaveText(new Intl.NumberFormat('en').format(before.assessments + 3), {
+    timeout: 20_000,
+  });
   await expect(page.getByTestId('count-ratings')).toHaveText(new Intl.NumberFormat('en').format(before.ratings + 8));
   await shot(page, 'imports-overview-after-commit');
 

@@ -4,10 +4,20 @@ import { expect, test, type Page } from '@playwright/test';
 async function expectAccessible(page: Page) {
   const results = await new AxeBuilder({ page }).analyze();
   const serious = results.violations.filter((v) => v.impact === 'serious' || v.impact === 'critical');
-  expect(serious.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).slice(0, 3).join(', ')})`)).toEqual([]);
+  expect(
+    serious.map(
+      (v) =>
+        `${v.id}: ${v.help} (${v.nodes
+          .map((n) => n.target.join(' '))
+          .slice(0, 3)
+          .join(', ')})`,
+    ),
+  ).toEqual([]);
 }
 
-test('the lead invites a classifier; the classifier accepts through the e-mailed link, lands on their own page and cannot open another classifier’s', async ({ page }) => {
+test('the lead invites a classifier; the classifier accepts through the e-mailed link, lands on their own page and cannot open another classifier’s', async ({
+  page,
+}) => {
   const email = `wren.alder.${Date.now()}@example.test`;
 
   await page.goto('/sign-in');
@@ -68,11 +78,20 @@ test('the lead invites a classifier; the classifier accepts through the e-mailed
 test('forgot password: the reset link from the Outbox sets a new password', async ({ page, request }) => {
   // A researcher of our own, invited and accepted through the API, so the demo accounts keep their password.
   const email = `reset.${Date.now()}@example.test`;
-  expect((await request.post('/api/session', { data: { email: 'lead@demo.panelwise.test', password: 'panelwise-demo' } })).status()).toBe(201);
+  expect((await request.post('/api/session', { data: { email: 'lead@demo.panelwise.test', password: 'panelwise-demo' } })).status()).toBe(
+    201,
+  );
   expect((await request.post('/api/federations/kestrel-coast/invitations', { data: { email, role: 'researcher' } })).status()).toBe(201);
-  const invitations = (await (await request.get('/api/federations/kestrel-coast/outbox')).json()) as { messages: { to: string; links: string[] }[] };
-  const token = invitations.messages.find((m) => m.to === email)!.links[0].split('/').pop();
-  const accepted = await request.post(`/api/invitations/${token}/accept`, { data: { displayName: 'Ash Reset', password: 'first-password-1', confirmPassword: 'first-password-1' } });
+  const invitations = (await (await request.get('/api/federations/kestrel-coast/outbox')).json()) as {
+    messages: { to: string; links: string[] }[];
+  };
+  const token = invitations.messages
+    .find((m) => m.to === email)!
+    .links[0].split('/')
+    .pop();
+  const accepted = await request.post(`/api/invitations/${token}/accept`, {
+    data: { displayName: 'Ash Reset', password: 'first-password-1', confirmPassword: 'first-password-1' },
+  });
   expect(accepted.status()).toBe(201);
 
   await page.goto('/sign-in');
@@ -87,7 +106,9 @@ test('forgot password: the reset link from the Outbox sets a new password', asyn
   expect(owner.status()).toBe(201);
   let link: string | undefined;
   await expect(async () => {
-    const outbox = (await (await request.get('/api/owner/outbox')).json()) as { messages: { to: string; subject: string; links: string[] }[] };
+    const outbox = (await (await request.get('/api/owner/outbox')).json()) as {
+      messages: { to: string; subject: string; links: string[] }[];
+    };
     link = outbox.messages.find((m) => m.to === email && m.subject.includes('password'))?.links[0];
     expect(link).toBeDefined();
   }).toPass({ timeout: 10_000 });

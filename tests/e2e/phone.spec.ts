@@ -26,8 +26,21 @@ const PAGES: Record<Role, string[]> = {
     '/f/kestrel-coast/imports',
     '/f/kestrel-coast/help',
   ],
-  classifier: ['/f/kestrel-coast/me', '/f/kestrel-coast', '/f/kestrel-coast/classifiers/C12', '/f/kestrel-coast/boundaries', '/f/kestrel-coast/drift', '/f/kestrel-coast/help'],
-  researcher: ['/f/kestrel-coast', '/f/kestrel-coast/boundaries', '/f/kestrel-coast/drift', '/f/kestrel-coast/exports', '/f/kestrel-coast/help'],
+  classifier: [
+    '/f/kestrel-coast/me',
+    '/f/kestrel-coast',
+    '/f/kestrel-coast/classifiers/C12',
+    '/f/kestrel-coast/boundaries',
+    '/f/kestrel-coast/drift',
+    '/f/kestrel-coast/help',
+  ],
+  researcher: [
+    '/f/kestrel-coast',
+    '/f/kestrel-coast/boundaries',
+    '/f/kestrel-coast/drift',
+    '/f/kestrel-coast/exports',
+    '/f/kestrel-coast/help',
+  ],
   owner: ['/owner'],
 };
 const PUBLIC_PAGES = ['/sign-in', '/forgot-password', '/expired', '/no-such-page'];
@@ -41,7 +54,8 @@ function watch(page: Page) {
   });
   page.on('pageerror', (error) => problems.push(`page error: ${error.message}`));
   page.on('response', (response) => {
-    if (response.status() >= 400) problems.push(`${response.status()} from ${response.request().method()} ${new URL(response.url()).pathname}`);
+    if (response.status() >= 400)
+      problems.push(`${response.status()} from ${response.request().method()} ${new URL(response.url()).pathname}`);
   });
   return problems;
 }
@@ -62,7 +76,10 @@ async function sideways(page: Page): Promise<{ scrollWidth: number; clientWidth:
       const box = el.getBoundingClientRect();
       if (box.right > right + 0.5 && !el.closest('.overflow-x-auto, .plot-holder, .data-table-box')) {
         right = box.right;
-        widest = `${el.tagName.toLowerCase()}.${String(el.getAttribute('class') ?? '').split(' ').slice(0, 3).join('.')} (${Math.round(box.right)} px)`;
+        widest = `${el.tagName.toLowerCase()}.${String(el.getAttribute('class') ?? '')
+          .split(' ')
+          .slice(0, 3)
+          .join('.')} (${Math.round(box.right)} px)`;
       }
     }
     return { scrollWidth: root.scrollWidth, clientWidth: root.clientWidth, widest };
@@ -89,7 +106,11 @@ async function signIn(page: Page, role: Role) {
   await settle(page);
 }
 
-const slug = (path: string) => path.replace(/^\/(f\/kestrel-coast)?\/?/, '').replace(/[^a-z0-9]+/gi, '-').replace(/-$/, '') || 'overview';
+const slug = (path: string) =>
+  path
+    .replace(/^\/(f\/kestrel-coast)?\/?/, '')
+    .replace(/[^a-z0-9]+/gi, '-')
+    .replace(/-$/, '') || 'overview';
 
 test('the public pages fit a phone, have their own titles and log no error', async ({ page }) => {
   const problems = watch(page);

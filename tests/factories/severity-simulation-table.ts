@@ -35,11 +35,16 @@ const scenarios: [string, Omit<SimulationOptions, 'seed'>][] = [
   ['E. tight pools: 95 % of panels regional', { classifiers: 20, assessments: 3000, noise: [0.1, 0.2], regionalShare: 0.95 }],
   ['F. no pools: panels drawn from everyone', { classifiers: 20, assessments: 3000, noise: [0.1, 0.2], regionalShare: 0 }],
   ['G. athletes near a class (± 0.12), error SD 0.10–0.20', { classifiers: 20, assessments: 3000, noise: [0.1, 0.2], classJitter: 0.12 }],
-  ['H. as the demo: athletes near a class (± 0.12), error SD 0.07–0.11, 2,000 assessments', { classifiers: 20, assessments: 2000, noise: [0.07, 0.11], classJitter: 0.12 }],
+  [
+    'H. as the demo: athletes near a class (± 0.12), error SD 0.07–0.11, 2,000 assessments',
+    { classifiers: 20, assessments: 2000, noise: [0.07, 0.11], classJitter: 0.12 },
+  ],
 ];
 
 const FEDERATIONS = Number(process.env.FEDERATIONS ?? 20);
-console.log('| scenario | min r | median r | max error (pt) | median per-federation max error | coverage of 95 % CI | mean SE (pt) | panel-median bias: median r | its max error (pt) |');
+console.log(
+  '| scenario | min r | median r | max error (pt) | median per-federation max error | coverage of 95 % CI | mean SE (pt) | panel-median bias: median r | its max error (pt) |',
+);
 console.log('|---|---|---|---|---|---|---|---|---|');
 for (const [name, options] of scenarios) {
   const rs: number[] = [];
@@ -54,7 +59,12 @@ for (const [name, options] of scenarios) {
     const f = simulateFederation({ seed: 5000 + i, ...options });
     const sev = classifierSeverity(f.set);
     const truth = sev.classifiers.map((c) => f.planted.get(c.code)!);
-    rs.push(correlation(sev.classifiers.map((c) => c.value!), truth));
+    rs.push(
+      correlation(
+        sev.classifiers.map((c) => c.value!),
+        truth,
+      ),
+    );
     let m = 0;
     for (const c of sev.classifiers) {
       const p = f.planted.get(c.code)!;
@@ -66,7 +76,12 @@ for (const [name, options] of scenarios) {
     fedMax.push(m);
     maxError = Math.max(maxError, m);
     const panel = classifiersVsPanel(f.set);
-    panelRs.push(correlation(panel.map((c) => c.meanDeviation.value!), panel.map((c) => f.planted.get(c.code)!)));
+    panelRs.push(
+      correlation(
+        panel.map((c) => c.meanDeviation.value!),
+        panel.map((c) => f.planted.get(c.code)!),
+      ),
+    );
     for (const c of panel) panelMax = Math.max(panelMax, Math.abs(c.meanDeviation.value! - f.planted.get(c.code)!));
   }
   console.log(

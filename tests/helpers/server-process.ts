@@ -26,14 +26,30 @@ export interface ServerProcess {
 /** Environment for a child: this process's, without what the test runner set that could leak in. */
 function childEnv(env: Record<string, string | undefined>): NodeJS.ProcessEnv {
   const base: NodeJS.ProcessEnv = { ...process.env };
-  for (const name of ['NODE_ENV', 'SESSION_SECRET', 'SMTP_URL', 'PUBLIC_ORIGIN', 'SEED_DEMO', 'DATABASE_PATH', 'PORT', 'VITEST', 'VITEST_POOL_ID', 'VITEST_WORKER_ID']) delete base[name];
+  for (const name of [
+    'NODE_ENV',
+    'SESSION_SECRET',
+    'SMTP_URL',
+    'PUBLIC_ORIGIN',
+    'SEED_DEMO',
+    'DATABASE_PATH',
+    'PORT',
+    'VITEST',
+    'VITEST_POOL_ID',
+    'VITEST_WORKER_ID',
+  ])
+    delete base[name];
   return { ...base, LOG_LEVEL: 'info', ...env };
 }
 
 /** Starts the server; resolves once /api/health answers, or rejects with its output when it exits. */
 export async function startServer(env: Record<string, string | undefined>, args: string[] = []): Promise<ServerProcess> {
   const port = Number(env.PORT ?? (await freePort()));
-  const proc = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts', ...args], { cwd: root, env: childEnv({ ...env, PORT: String(port) }), stdio: ['ignore', 'pipe', 'pipe'] });
+  const proc = spawn(process.execPath, ['--import', 'tsx', 'server/main.ts', ...args], {
+    cwd: root,
+    env: childEnv({ ...env, PORT: String(port) }),
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
   let output = '';
   proc.stdout.on('data', (d: Buffer) => (output += d.toString()));
   proc.stderr.on('data', (d: Buffer) => (output += d.toString()));
@@ -90,7 +106,10 @@ function runToEnd(args: string[], env: Record<string, string | undefined>, input
 }
 
 /** Runs the server to its exit (for starts that must be refused) and returns the code and output. */
-export async function runServerToExit(env: Record<string, string | undefined>, args: string[] = []): Promise<{ code: number | null; output: string }> {
+export async function runServerToExit(
+  env: Record<string, string | undefined>,
+  args: string[] = [],
+): Promise<{ code: number | null; output: string }> {
   const result = await runToEnd(['--import', 'tsx', 'server/main.ts', ...args], env, '');
   return { code: result.code, output: `${result.stdout}${result.stderr}` };
 }

@@ -22,7 +22,9 @@ export interface TestApp {
  * in worker threads on a file database, in process on `:memory:` (server/workers/pool.ts); await
  * `t.ctx.jobs.idle()` before checking what background work (flag evaluation) writes.
  */
-export async function createTestApp(options: { seed?: 'demo' | 'none'; databasePath?: string; pool?: Partial<PoolOptions> } = {}): Promise<TestApp> {
+export async function createTestApp(
+  options: { seed?: 'demo' | 'none'; databasePath?: string; pool?: Partial<PoolOptions> } = {},
+): Promise<TestApp> {
   const databasePath = options.databasePath ?? ':memory:';
   const { db, sqlite } = openDatabase(databasePath);
   await migrateToLatest(db);
@@ -57,5 +59,7 @@ export function tableCounts(ctx: AppContext): Record<string, number> {
   const tables = ctx.sqlite
     .prepare("select name from sqlite_master where type = 'table' and name not like 'sqlite_%' and name not like 'kysely_%' order by name")
     .all() as { name: string }[];
-  return Object.fromEntries(tables.map(({ name }) => [name, (ctx.sqlite.prepare(`select count(*) as n from "${name}"`).get() as { n: number }).n]));
+  return Object.fromEntries(
+    tables.map(({ name }) => [name, (ctx.sqlite.prepare(`select count(*) as n from "${name}"`).get() as { n: number }).n]),
+  );
 }

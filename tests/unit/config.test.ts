@@ -7,7 +7,12 @@ import { ConfigError, environmentProblems, loadConfig } from '../../server/confi
 import { demoChoice } from '../../server/ops/demo-guard';
 
 const secret = 'f3a9c1d07be24e5d8a6b0c9e1f2d3a4b5c6d7e8f90a1b2c3d4e5f60718293a4b';
-const production = { NODE_ENV: 'production', SESSION_SECRET: secret, SMTP_URL: 'smtps://relay.example.org:465', PUBLIC_ORIGIN: 'https://panelwise.example.org' };
+const production = {
+  NODE_ENV: 'production',
+  SESSION_SECRET: secret,
+  SMTP_URL: 'smtps://relay.example.org:465',
+  PUBLIC_ORIGIN: 'https://panelwise.example.org',
+};
 
 describe('environmentProblems', () => {
   it('accepts an empty environment outside production and a complete one in production', () => {
@@ -28,8 +33,17 @@ describe('environmentProblems', () => {
     expect(environmentProblems({ ...production, SESSION_SECRET: 'x' })).toEqual([
       'SESSION_SECRET is 1 bytes long: use at least 32 random bytes (for example `openssl rand -hex 32`)',
     ]);
-    expect(environmentProblems({ SESSION_SECRET: 'ab'.repeat(20) })).toEqual(['SESSION_SECRET repeats a few characters: use random bytes (for example `openssl rand -hex 32`)']);
-    const problems = environmentProblems({ ...production, PORT: '70000', SMTP_URL: 'relay.example.org', PUBLIC_ORIGIN: 'https://x.example.org/app', LOG_LEVEL: 'loud', SEED_DEMO: 'yes' });
+    expect(environmentProblems({ SESSION_SECRET: 'ab'.repeat(20) })).toEqual([
+      'SESSION_SECRET repeats a few characters: use random bytes (for example `openssl rand -hex 32`)',
+    ]);
+    const problems = environmentProblems({
+      ...production,
+      PORT: '70000',
+      SMTP_URL: 'relay.example.org',
+      PUBLIC_ORIGIN: 'https://x.example.org/app',
+      LOG_LEVEL: 'loud',
+      SEED_DEMO: 'yes',
+    });
     expect(problems).toEqual([
       'PORT must be between 0 and 65535',
       'PUBLIC_ORIGIN must be an origin such as https://panelwise.example.org (scheme and host, no path)',
@@ -46,8 +60,17 @@ describe('environmentProblems', () => {
     } catch (error) {
       expect((error as ConfigError).problems).toHaveLength(3);
     }
-    const config = loadConfig({ databasePath: ':memory:' }, { ...production, PORT: '4206', SESSION_MAX_DAYS: '7', PUBLIC_ORIGIN: 'https://panelwise.example.org/' });
-    expect(config).toMatchObject({ env: 'production', port: 4206, sessionMaxDays: 7, sessionMinutes: 60, publicOrigin: 'https://panelwise.example.org' });
+    const config = loadConfig(
+      { databasePath: ':memory:' },
+      { ...production, PORT: '4206', SESSION_MAX_DAYS: '7', PUBLIC_ORIGIN: 'https://panelwise.example.org/' },
+    );
+    expect(config).toMatchObject({
+      env: 'production',
+      port: 4206,
+      sessionMaxDays: 7,
+      sessionMinutes: 60,
+      publicOrigin: 'https://panelwise.example.org',
+    });
     expect(Buffer.from(config.sessionSecret).toString()).toBe(secret);
   });
 });

@@ -7,9 +7,13 @@ import { openDatabase } from '../../server/db/connection';
 import { migrateDownToNothing, migrateToLatest, migratorFor } from '../../server/db/migrate';
 
 function userTables(sqlite: ReturnType<typeof openDatabase>['sqlite']): string[] {
-  return (sqlite.prepare("select name from sqlite_master where type = 'table' and name not like 'sqlite_%' and name not like 'kysely_%' order by name").all() as { name: string }[]).map(
-    (r) => r.name,
-  );
+  return (
+    sqlite
+      .prepare(
+        "select name from sqlite_master where type = 'table' and name not like 'sqlite_%' and name not like 'kysely_%' order by name",
+      )
+      .all() as { name: string }[]
+  ).map((r) => r.name);
 }
 
 describe('migrations', () => {
@@ -24,7 +28,20 @@ describe('migrations', () => {
       expect(result.error).toBeUndefined();
       seen.push(userTables(sqlite));
     }
-    expect(seen.at(-1)).toEqual(expect.arrayContaining(['federations', 'users', 'memberships', 'classifiers', 'athletes', 'events', 'assessments', 'ratings', 'imports', 'audit_log']));
+    expect(seen.at(-1)).toEqual(
+      expect.arrayContaining([
+        'federations',
+        'users',
+        'memberships',
+        'classifiers',
+        'athletes',
+        'events',
+        'assessments',
+        'ratings',
+        'imports',
+        'audit_log',
+      ]),
+    );
     for (let i = all.length - 1; i >= 0; i--) {
       const result = await migrator.migrateDown();
       expect(result.error).toBeUndefined();
@@ -63,11 +80,18 @@ describe('migrations', () => {
       const migrator = migratorFor(db);
       expect((await migrator.migrateTo('2026_12_02_0040_research_exports')).error).toBeUndefined();
       sqlite.prepare("insert into federations (slug, name) values ('invented', 'Invented Federation')").run();
-      const insert = sqlite.prepare("insert into research_exports (federation_id, request, min_athletes, csv, json, dictionary, expires_at) values (1, '{}', 5, ?, ?, ?, '2099-01-01T00:00:00.000Z')");
+      const insert = sqlite.prepare(
+        "insert into research_exports (federation_id, request, min_athletes, csv, json, dictionary, expires_at) values (1, '{}', 5, ?, ?, ?, '2099-01-01T00:00:00.000Z')",
+      );
       insert.run('assessment,classifier\r\nasm-b,clf-c\r\n', '{"rows":[]}', '{"format":"d"}');
       insert.run(null, null, null);
       expect((await migrator.migrateTo('2026_12_04_0140_research_export_files')).error).toBeUndefined();
-      const rows = sqlite.prepare('select id, storage_key, stored_bytes, removed_at from research_exports order by id').all() as { id: number; storage_key: string | null; stored_bytes: number; removed_at: string | null }[];
+      const rows = sqlite.prepare('select id, storage_key, stored_bytes, removed_at from research_exports order by id').all() as {
+        id: number;
+        storage_key: string | null;
+        stored_bytes: number;
+        removed_at: string | null;
+      }[];
       expect(rows[0].storage_key).toMatch(/^[0-9a-f]{24}$/);
       expect(rows[0].removed_at).toBeNull();
       expect(rows[1].storage_key).toBeNull();
@@ -77,7 +101,9 @@ describe('migrations', () => {
       const onDisk = fs.readdirSync(path.join(dir, 'exports')).reduce((sum, f) => sum + fs.statSync(path.join(dir, 'exports', f)).size, 0);
       expect(rows[0].stored_bytes).toBe(onDisk);
       expect((await migrator.migrateTo('2026_12_02_0040_research_exports')).error).toBeUndefined();
-      expect(sqlite.prepare('select csv from research_exports where id = 1').get()).toEqual({ csv: 'assessment,classifier\r\nasm-b,clf-c\r\n' });
+      expect(sqlite.prepare('select csv from research_exports where id = 1').get()).toEqual({
+        csv: 'assessment,classifier\r\nasm-b,clf-c\r\n',
+      });
       await db.destroy();
     } finally {
       fs.rmSync(dir, { recursive: true, force: true });

@@ -10,7 +10,9 @@ async function seededFingerprint() {
   await migrateToLatest(db);
   await seedDemo(db, sqlite);
   const counts = sqlite
-    .prepare('select (select count(*) from federations) f, (select count(*) from athletes) a, (select count(*) from classifiers) c, (select count(*) from events) e, (select count(*) from assessments) s, (select count(*) from ratings) r')
+    .prepare(
+      'select (select count(*) from federations) f, (select count(*) from athletes) a, (select count(*) from classifiers) c, (select count(*) from events) e, (select count(*) from assessments) s, (select count(*) from ratings) r',
+    )
     .get();
   const rows = sqlite
     .prepare(
@@ -60,7 +62,7 @@ describe('demo seed', () => {
       let sum = 0;
       let n = 0;
       for (const a of s.assessments) {
-        if (a.ratings.length !== 3 || (a.assessedOn >= DEMO_SCENARIO.drift!.from) !== after) continue;
+        if (a.ratings.length !== 3 || a.assessedOn >= DEMO_SCENARIO.drift!.from !== after) continue;
         const mine = a.ratings.find((r) => r.classifierCode === code);
         if (!mine) continue;
         const others = a.ratings.filter((r) => r !== mine).map((r) => r.sportClass);

@@ -7,4 +7,7 @@ export const memberRoutes: RouteObject[] = [
 ];
 
 /** The site owner's page (needs a session, not a federation). */
-export const ownerRoute: RouteObject = { path: '/owner', lazy: () => import('../owner/components/owner-page').then((m) => ({ Component: m.OwnerPage })) };
+export const ownerRoute: RouteObject = {
+  path: '/owner',
+  lazy: () => import('../owner/components/owner-page').then((m) => ({ Component: m.OwnerPage })),
+};

@@ -31,7 +31,10 @@ export function quarterRange(quarters: readonly string[]): string[] {
  * Plot's line and area marks break at a null value, so a quarter without data shows as a gap
  * instead of a line joining its neighbours.
  */
-export function withQuarterGaps<T extends { quarter: string; value: number | null }>(points: readonly T[], range: readonly string[]): (T | { quarter: string; value: null })[] {
+export function withQuarterGaps<T extends { quarter: string; value: number | null }>(
+  points: readonly T[],
+  range: readonly string[],
+): (T | { quarter: string; value: null })[] {
   const byQuarter = new Map(points.map((p) => [p.quarter, p]));
   return range.map((quarter) => byQuarter.get(quarter) ?? { quarter, value: null });
 }

@@ -7,7 +7,12 @@ const base = '/api/federations/:federation/analytics';
 /** The agreement dashboards (server/routes/analytics.ts). */
 export const entries: AccessEntry[] = [
   { method: 'get', path: `${base}/filters`, expect: aggregates, note: 'seasons, events, categories: no identities' },
-  { method: 'get', path: `${base}/overview`, expect: aggregates, note: 'federation-wide figures; the open flags (with codes) only for leads' },
+  {
+    method: 'get',
+    path: `${base}/overview`,
+    expect: aggregates,
+    note: 'federation-wide figures; the open flags (with codes) only for leads',
+  },
   { method: 'get', path: `${base}/classifiers`, expect: leadOnly, note: 'names every classifier' },
   {
     method: 'get',
@@ -16,7 +21,12 @@ export const entries: AccessEntry[] = [
     expect: { ...leadOnly, classifier: 200 },
     note: 'C12 is the demo classifier’s own entry; another code gives a classifier 403 (tests/api/analytics.test.ts)',
   },
-  { method: 'get', path: `${base}/me`, expect: { ...leadOnly, lead: 403, classifier: 200 }, note: 'a classifier’s own figures; needs a linked roster entry' },
+  {
+    method: 'get',
+    path: `${base}/me`,
+    expect: { ...leadOnly, lead: 403, classifier: 200 },
+    note: 'a classifier’s own figures; needs a linked roster entry',
+  },
   { method: 'get', path: `${base}/pairs`, expect: leadOnly },
   { method: 'get', path: `${base}/pairs/:a/:b`, params: { a: 'C01', b: 'C02' }, expect: leadOnly },
   { method: 'get', path: `${base}/boundaries`, expect: aggregates },
@@ -33,5 +43,11 @@ export const entries: AccessEntry[] = [
     note: 'the body is refused by validation',
   },
   { method: 'get', path: `${base}/flag-settings`, expect: leadOnly },
-  { method: 'put', path: `${base}/flag-settings`, body: { biasMin: 'high' }, expect: { ...leadOnly, lead: 400 }, note: 'the body is refused by validation' },
+  {
+    method: 'put',
+    path: `${base}/flag-settings`,
+    body: { biasMin: 'high' },
+    expect: { ...leadOnly, lead: 400 },
+    note: 'the body is refused by validation',
+  },
 ];

@@ -14,7 +14,12 @@ const base = '/api/federations/:federation/exercises';
 export const entries: AccessEntry[] = [
   { method: 'get', path: base, expect: leadOrClassifier, note: 'a lead sees every exercise, a classifier those assigned once open' },
   { method: 'post', path: base, body: { title: '' }, expect: { ...none, lead: 400 }, note: 'the body is refused by validation' },
-  { method: 'get', path: `${base}/proposal`, expect: { ...none, lead: 400 }, note: 'without ?flag= or ?boundary= the query is refused (tests/api/exercises.test.ts asks with one)' },
+  {
+    method: 'get',
+    path: `${base}/proposal`,
+    expect: { ...none, lead: 400 },
+    note: 'without ?flag= or ?boundary= the query is refused (tests/api/exercises.test.ts asks with one)',
+  },
   {
     method: 'get',
     path: `${base}/:id`,
@@ -22,9 +27,22 @@ export const entries: AccessEntry[] = [
     expect: leadOrClassifier,
     note: 'the open demo exercise: the classifier’s view has no reference class and only their own answers',
   },
-  { method: 'put', path: `${base}/:id`, params: { id: '2' }, body: { title: '' }, expect: { ...none, lead: 400 }, note: 'the body is refused by validation' },
+  {
+    method: 'put',
+    path: `${base}/:id`,
+    params: { id: '2' },
+    body: { title: '' },
+    expect: { ...none, lead: 400 },
+    note: 'the body is refused by validation',
+  },
   { method: 'post', path: `${base}/:id/open`, params: { id: '2' }, expect: { ...none, lead: 409 }, note: 'already open: nothing changes' },
-  { method: 'post', path: `${base}/:id/close`, params: { id: '1' }, expect: { ...none, lead: 409 }, note: 'already closed: nothing changes' },
+  {
+    method: 'post',
+    path: `${base}/:id/close`,
+    params: { id: '1' },
+    expect: { ...none, lead: 409 },
+    note: 'already closed: nothing changes',
+  },
   {
     method: 'put',
     path: `${base}/:id/answers/:caseId`,
@@ -33,5 +51,12 @@ export const entries: AccessEntry[] = [
     expect: { ...none, classifier: 400 },
     note: 'classifiers only (a lead does not answer); the body is refused by validation',
   },
-  { method: 'post', path: `${base}/:id/flags/:flagId/close`, params: { id: '1', flagId: '1' }, body: {}, expect: { ...none, lead: 400 }, note: 'the body is refused by validation' },
+  {
+    method: 'post',
+    path: `${base}/:id/flags/:flagId/close`,
+    params: { id: '1', flagId: '1' },
+    body: {},
+    expect: { ...none, lead: 400 },
+    note: 'the body is refused by validation',
+  },
 ];

@@ -17,8 +17,20 @@ export const entries: AccessEntry[] = [
     note: 'the body is refused by validation (no season chosen)',
   },
   { method: 'get', path: `${base}/settings`, expect: leadOnly, note: 'k and every study, closed ones too' },
-  { method: 'put', path: `${base}/settings`, body: { minAthletes: 1 }, expect: { ...leadOnly, lead: 400 }, note: 'the body is refused by validation (k below 2)' },
-  { method: 'post', path: `${base}/studies`, body: { name: '' }, expect: { ...leadOnly, lead: 400 }, note: 'the body is refused by validation' },
+  {
+    method: 'put',
+    path: `${base}/settings`,
+    body: { minAthletes: 1 },
+    expect: { ...leadOnly, lead: 400 },
+    note: 'the body is refused by validation (k below 2)',
+  },
+  {
+    method: 'post',
+    path: `${base}/studies`,
+    body: { name: '' },
+    expect: { ...leadOnly, lead: 400 },
+    note: 'the body is refused by validation',
+  },
   {
     method: 'post',
     path: `${base}/studies/:studyId/close`,

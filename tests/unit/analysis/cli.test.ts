@@ -66,10 +66,26 @@ describe('panelwise analyze', () => {
   it.each([
     ['bad-date.csv', [HEADER, 'AS1,A001,E01,2024-13-01,C01,3.0,,first'], ['row 1 (line 2)', 'column assessed_on', '"2024-13-01"']],
     ['bad-kind.csv', [HEADER, 'AS1,A001,E01,2024-03-01,C01,3.0,,appeal'], ['row 1 (line 2)', 'column kind', '"appeal"']],
-    ['blank-classifier.csv', [HEADER, 'AS1,A001,E01,2024-03-01,C01,3.0,,', 'AS1,A001,E01,2024-03-01,,3.5,,'], ['row 2 (line 3)', 'column classifier_code']],
-    ['twice.csv', [HEADER, 'AS1,A001,E01,2024-03-01,C01,3.0,,', 'AS1,A001,E01,2024-03-01,C02,3.0,,', 'AS1,A001,E01,2024-03-01,C01,3.5,,'], ['row 3 (line 4)', 'column classifier_code', '"C01"', 'twice']],
-    ['athlete.csv', [HEADER, 'AS1,A001,E01,2024-03-01,C01,3.0,,', '', 'AS1,A002,E01,2024-03-01,C02,3.0,,'], ['row 2 (line 4)', 'column athlete_code', '"A002"']],
-    ['no-column.csv', ['assessment_id,athlete_code,event_code,assessed_on,classifier_code', 'AS1,A001,E01,2024-03-01,C01'], ['no column sport_class']],
+    [
+      'blank-classifier.csv',
+      [HEADER, 'AS1,A001,E01,2024-03-01,C01,3.0,,', 'AS1,A001,E01,2024-03-01,,3.5,,'],
+      ['row 2 (line 3)', 'column classifier_code'],
+    ],
+    [
+      'twice.csv',
+      [HEADER, 'AS1,A001,E01,2024-03-01,C01,3.0,,', 'AS1,A001,E01,2024-03-01,C02,3.0,,', 'AS1,A001,E01,2024-03-01,C01,3.5,,'],
+      ['row 3 (line 4)', 'column classifier_code', '"C01"', 'twice'],
+    ],
+    [
+      'athlete.csv',
+      [HEADER, 'AS1,A001,E01,2024-03-01,C01,3.0,,', '', 'AS1,A002,E01,2024-03-01,C02,3.0,,'],
+      ['row 2 (line 4)', 'column athlete_code', '"A002"'],
+    ],
+    [
+      'no-column.csv',
+      ['assessment_id,athlete_code,event_code,assessed_on,classifier_code', 'AS1,A001,E01,2024-03-01,C01'],
+      ['no column sport_class'],
+    ],
   ])('%s is refused with a message naming where', (name, lines, expected) => {
     const path = badFile(name, lines);
     const r = run('analyze', path);

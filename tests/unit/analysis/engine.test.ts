@@ -49,9 +49,40 @@ describe('degenerate data (undefined statistics are null with a reason, never Na
   it('one class used by everyone: kappa, Fleiss and alpha undefined; AC1 = 1 (Gwet 2008, p_e = 0 with q = 8); agreement 1', () => {
     const set = buildRatingSet(
       rows([
-        ['AS1', '2024-01-10', 'A001', 'first', null, [['C01', 2.5], ['C02', 2.5], ['C03', 2.5]]],
-        ['AS2', '2024-01-10', 'A002', 'first', null, [['C01', 2.5], ['C02', 2.5]]],
-        ['AS3', '2024-01-10', 'A003', 'first', null, [['C02', 2.5], ['C03', 2.5]]],
+        [
+          'AS1',
+          '2024-01-10',
+          'A001',
+          'first',
+          null,
+          [
+            ['C01', 2.5],
+            ['C02', 2.5],
+            ['C03', 2.5],
+          ],
+        ],
+        [
+          'AS2',
+          '2024-01-10',
+          'A002',
+          'first',
+          null,
+          [
+            ['C01', 2.5],
+            ['C02', 2.5],
+          ],
+        ],
+        [
+          'AS3',
+          '2024-01-10',
+          'A003',
+          'first',
+          null,
+          [
+            ['C02', 2.5],
+            ['C03', 2.5],
+          ],
+        ],
       ]),
       DEFAULT_SCALE,
     );
@@ -69,7 +100,23 @@ describe('degenerate data (undefined statistics are null with a reason, never Na
   });
 
   it('a single assessment: defined where the formulas allow, never NaN', () => {
-    const set = buildRatingSet(rows([['AS1', '2024-01-10', 'A001', 'first', 3, [['C01', 3], ['C02', 3.5], ['C03', 3]]]]), DEFAULT_SCALE);
+    const set = buildRatingSet(
+      rows([
+        [
+          'AS1',
+          '2024-01-10',
+          'A001',
+          'first',
+          3,
+          [
+            ['C01', 3],
+            ['C02', 3.5],
+            ['C03', 3],
+          ],
+        ],
+      ]),
+      DEFAULT_SCALE,
+    );
     const r = analyzeRatings(set);
     noNaN(r);
     expect(r.counts).toMatchObject({ assessments: 1, ratings: 3, classifiers: 3, analysable: 1, notAnalysable: 0 });
@@ -105,9 +152,40 @@ describe('degenerate data (undefined statistics are null with a reason, never Na
 
   it('a panel of one does not change the panel statistics of the others (Krippendorff 2011: unpairable units)', () => {
     const base: Parameters<typeof rows>[0] = [
-      ['AS1', '2024-01-10', 'A001', 'first', null, [['C01', 3], ['C02', 3.5], ['C03', 3]]],
-      ['AS2', '2024-01-10', 'A002', 'first', null, [['C01', 1.5], ['C02', 1.5]]],
-      ['AS3', '2024-01-10', 'A003', 'first', null, [['C02', 4], ['C03', 4.5]]],
+      [
+        'AS1',
+        '2024-01-10',
+        'A001',
+        'first',
+        null,
+        [
+          ['C01', 3],
+          ['C02', 3.5],
+          ['C03', 3],
+        ],
+      ],
+      [
+        'AS2',
+        '2024-01-10',
+        'A002',
+        'first',
+        null,
+        [
+          ['C01', 1.5],
+          ['C02', 1.5],
+        ],
+      ],
+      [
+        'AS3',
+        '2024-01-10',
+        'A003',
+        'first',
+        null,
+        [
+          ['C02', 4],
+          ['C03', 4.5],
+        ],
+      ],
     ];
     const a = analyzeRatings(buildRatingSet(rows(base), DEFAULT_SCALE));
     const b = analyzeRatings(buildRatingSet(rows([...base, ['AS4', '2024-01-10', 'A004', 'first', null, [['C01', 1]]]]), DEFAULT_SCALE));
@@ -120,9 +198,40 @@ describe('degenerate data (undefined statistics are null with a reason, never Na
   it('a classifier with one rating: listed with n = 1, no SE, no pair (fewer than 2 shared assessments)', () => {
     const set = buildRatingSet(
       rows([
-        ['AS1', '2024-01-10', 'A001', 'first', null, [['C01', 3], ['C02', 3.5], ['C09', 3]]],
-        ['AS2', '2024-01-10', 'A002', 'first', null, [['C01', 1.5], ['C02', 2]]],
-        ['AS3', '2024-01-10', 'A003', 'first', null, [['C01', 4], ['C02', 4.5]]],
+        [
+          'AS1',
+          '2024-01-10',
+          'A001',
+          'first',
+          null,
+          [
+            ['C01', 3],
+            ['C02', 3.5],
+            ['C09', 3],
+          ],
+        ],
+        [
+          'AS2',
+          '2024-01-10',
+          'A002',
+          'first',
+          null,
+          [
+            ['C01', 1.5],
+            ['C02', 2],
+          ],
+        ],
+        [
+          'AS3',
+          '2024-01-10',
+          'A003',
+          'first',
+          null,
+          [
+            ['C01', 4],
+            ['C02', 4.5],
+          ],
+        ],
       ]),
       DEFAULT_SCALE,
     );
@@ -146,9 +255,40 @@ describe('degenerate data (undefined statistics are null with a reason, never Na
 
 describe('building and subsetting a RatingSet', () => {
   const spec: Parameters<typeof rows>[0] = [
-    ['AS1', '2024-01-10', 'A001', 'first', 3, [['C01', 3], ['C02', 3.5], ['C03', 3]]],
-    ['AS2', '2024-04-02', 'A002', 'review', null, [['C01', 1.5], ['C02', 2]]],
-    ['AS3', '2024-07-20', 'A001', 'protest', 3.5, [['C02', 3.5], ['C03', 3.5]]],
+    [
+      'AS1',
+      '2024-01-10',
+      'A001',
+      'first',
+      3,
+      [
+        ['C01', 3],
+        ['C02', 3.5],
+        ['C03', 3],
+      ],
+    ],
+    [
+      'AS2',
+      '2024-04-02',
+      'A002',
+      'review',
+      null,
+      [
+        ['C01', 1.5],
+        ['C02', 2],
+      ],
+    ],
+    [
+      'AS3',
+      '2024-07-20',
+      'A001',
+      'protest',
+      3.5,
+      [
+        ['C02', 3.5],
+        ['C03', 3.5],
+      ],
+    ],
   ];
 
   it('stores classes as indices on the scale and groups ratings by assessment', () => {
@@ -190,11 +330,44 @@ describe('building and subsetting a RatingSet', () => {
 });
 
 describe('classifiers against the panel', () => {
-  it("median of the others: odd → middle value, even → mean of the two middle ones (a quarter point possible)", () => {
-    const set = buildRatingSet(rows([['AS1', '2024-01-10', 'A001', 'first', null, [['C01', 2], ['C02', 2.5], ['C03', 3], ['C04', 3]]]]), DEFAULT_SCALE);
+  it('median of the others: odd → middle value, even → mean of the two middle ones (a quarter point possible)', () => {
+    const set = buildRatingSet(
+      rows([
+        [
+          'AS1',
+          '2024-01-10',
+          'A001',
+          'first',
+          null,
+          [
+            ['C01', 2],
+            ['C02', 2.5],
+            ['C03', 3],
+            ['C04', 3],
+          ],
+        ],
+      ]),
+      DEFAULT_SCALE,
+    );
     // Class indices 2, 3, 4, 4. Others of C01: 3, 4, 4 → 4; of C02: 2, 4, 4 → 4; of C03: 2, 3, 4 → 3.
     expect(Array.from(othersMedian(set))).toEqual([4, 4, 3, 3]);
-    const pair = buildRatingSet(rows([['AS1', '2024-01-10', 'A001', 'first', null, [['C01', 2], ['C02', 2.5], ['C03', 3]]]]), DEFAULT_SCALE);
+    const pair = buildRatingSet(
+      rows([
+        [
+          'AS1',
+          '2024-01-10',
+          'A001',
+          'first',
+          null,
+          [
+            ['C01', 2],
+            ['C02', 2.5],
+            ['C03', 3],
+          ],
+        ],
+      ]),
+      DEFAULT_SCALE,
+    );
     // Others of C02: 2.0 and 3.0 → 2.5 (index 3); of C01: 2.5 and 3.0 → index 3.5 = 2.75 points.
     expect(Array.from(othersMedian(pair))).toEqual([3.5, 3, 2.5]);
   });
@@ -202,9 +375,42 @@ describe('classifiers against the panel', () => {
   it('bias, exact and within-half rates, and comparison with the recorded final class', () => {
     const set = buildRatingSet(
       rows([
-        ['AS1', '2024-01-10', 'A001', 'first', 3, [['C01', 3.5], ['C02', 3], ['C03', 3]]],
-        ['AS2', '2024-01-11', 'A002', 'first', 2, [['C01', 2.5], ['C02', 2], ['C03', 2]]],
-        ['AS3', '2024-01-12', 'A003', 'first', null, [['C01', 4], ['C02', 4], ['C03', 4]]],
+        [
+          'AS1',
+          '2024-01-10',
+          'A001',
+          'first',
+          3,
+          [
+            ['C01', 3.5],
+            ['C02', 3],
+            ['C03', 3],
+          ],
+        ],
+        [
+          'AS2',
+          '2024-01-11',
+          'A002',
+          'first',
+          2,
+          [
+            ['C01', 2.5],
+            ['C02', 2],
+            ['C03', 2],
+          ],
+        ],
+        [
+          'AS3',
+          '2024-01-12',
+          'A003',
+          'first',
+          null,
+          [
+            ['C01', 4],
+            ['C02', 4],
+            ['C03', 4],
+          ],
+        ],
       ]),
       DEFAULT_SCALE,
     );
@@ -227,11 +433,63 @@ describe('classifiers against the panel', () => {
 
 describe('class boundaries, confusion matrices, transitions, quarters and drift', () => {
   const spec: Parameters<typeof rows>[0] = [
-    ['AS1', '2024-01-10', 'A001', 'first', 3, [['C01', 3], ['C02', 3.5], ['C03', 3]]],
-    ['AS2', '2024-02-10', 'A002', 'first', 2, [['C01', 2], ['C02', 2], ['C03', 2]]],
-    ['AS3', '2024-05-10', 'A001', 'review', 3.5, [['C01', 3.5], ['C02', 3.5]]],
-    ['AS4', '2024-08-10', 'A002', 'protest', 2, [['C02', 2], ['C03', 2.5]]],
-    ['AS5', '2024-08-11', 'A003', 'first', null, [['C01', 3], ['C03', 3.5]]],
+    [
+      'AS1',
+      '2024-01-10',
+      'A001',
+      'first',
+      3,
+      [
+        ['C01', 3],
+        ['C02', 3.5],
+        ['C03', 3],
+      ],
+    ],
+    [
+      'AS2',
+      '2024-02-10',
+      'A002',
+      'first',
+      2,
+      [
+        ['C01', 2],
+        ['C02', 2],
+        ['C03', 2],
+      ],
+    ],
+    [
+      'AS3',
+      '2024-05-10',
+      'A001',
+      'review',
+      3.5,
+      [
+        ['C01', 3.5],
+        ['C02', 3.5],
+      ],
+    ],
+    [
+      'AS4',
+      '2024-08-10',
+      'A002',
+      'protest',
+      2,
+      [
+        ['C02', 2],
+        ['C03', 2.5],
+      ],
+    ],
+    [
+      'AS5',
+      '2024-08-11',
+      'A003',
+      'first',
+      null,
+      [
+        ['C01', 3],
+        ['C03', 3.5],
+      ],
+    ],
   ];
   const set = buildRatingSet(rows(spec), DEFAULT_SCALE);
 
@@ -291,7 +549,10 @@ describe('class boundaries, confusion matrices, transitions, quarters and drift'
     expect(r.firstAlarm?.direction).toBe('up');
     expect(r.firstAlarm!.index).toBeGreaterThanOrEqual(200);
     expect(r.firstAlarm!.index).toBeLessThan(206); // each +0.5 adds 2 − 0.5 = 1.5 σ; h = 5
-    const down = cusum(shifted.map((x) => -x), { sigma: 0.25, direction: 'down' });
+    const down = cusum(
+      shifted.map((x) => -x),
+      { sigma: 0.25, direction: 'down' },
+    );
     expect(down.firstAlarm?.direction).toBe('down');
   });
 
@@ -301,7 +562,18 @@ describe('class boundaries, confusion matrices, transitions, quarters and drift'
       const day = String(1 + (i % 28)).padStart(2, '0');
       const month = String(1 + Math.floor(i / 28) * 6).padStart(2, '0');
       const drift = i >= 25 ? 0.5 : 0;
-      spec2.push([`AS${i}`, `2024-${month}-${day}`, `A${i}`, 'first', null, [['C01', 2.5 + drift], ['C02', 2.5], ['C03', i % 4 === 0 ? 3 : 2.5]]]);
+      spec2.push([
+        `AS${i}`,
+        `2024-${month}-${day}`,
+        `A${i}`,
+        'first',
+        null,
+        [
+          ['C01', 2.5 + drift],
+          ['C02', 2.5],
+          ['C03', i % 4 === 0 ? 3 : 2.5],
+        ],
+      ]);
     }
     const s2 = buildRatingSet(rows(spec2), DEFAULT_SCALE);
     const d = classifierDrift(s2, 'C01', { sigma: 0.25 });

@@ -94,7 +94,13 @@ describe('exercise spreads per case (worked by hand)', () => {
     expect(c1.split).toBe(true);
     expect(c1.boundary).toBe(5);
     // Lower side: X (pushing, stopping) and Z (pushing); upper side: Y (shooting).
-    expect(c1.lower).toEqual({ answers: 2, skills: [{ skill: 'pushing', n: 2 }, { skill: 'stopping', n: 1 }] });
+    expect(c1.lower).toEqual({
+      answers: 2,
+      skills: [
+        { skill: 'pushing', n: 2 },
+        { skill: 'stopping', n: 1 },
+      ],
+    });
     expect(c1.upper).toEqual({ answers: 1, skills: [{ skill: 'shooting', n: 1 }] });
   });
 
@@ -102,7 +108,13 @@ describe('exercise spreads per case (worked by hand)', () => {
     const c4 = spreads.get(4)!;
     expect(c4.rangePoints).toBe(1);
     expect(c4.boundary).toBe(7);
-    expect(c4.lower).toEqual({ answers: 1, skills: [{ skill: 'chair-contact', n: 1 }, { skill: 'rebounding', n: 1 }] });
+    expect(c4.lower).toEqual({
+      answers: 1,
+      skills: [
+        { skill: 'chair-contact', n: 1 },
+        { skill: 'rebounding', n: 1 },
+      ],
+    });
     expect(c4.upper).toEqual({ answers: 2, skills: [{ skill: 'rebounding', n: 2 }] });
   });
 
@@ -128,8 +140,20 @@ describe('live-panel figures before and after an exercise (worked by hand)', () 
   // K equals them three times. A rating inside the exercise's dates belongs to neither window.
   const rows: RatingRow[] = [];
   const add = (id: string, date: string, panel: number, k: number) => {
-    for (const [code, cls] of [['K', k], ['P', panel], ['R', panel]] as const) {
-      rows.push({ assessmentId: id, athleteCode: `A${id}`, eventCode: 'E1', assessedOn: date, classifierCode: code, sportClass: cls, panelClass: panel });
+    for (const [code, cls] of [
+      ['K', k],
+      ['P', panel],
+      ['R', panel],
+    ] as const) {
+      rows.push({
+        assessmentId: id,
+        athleteCode: `A${id}`,
+        eventCode: 'E1',
+        assessedOn: date,
+        classifierCode: code,
+        sportClass: cls,
+        panelClass: panel,
+      });
     }
   };
   add('1', '2024-11-02', 6, 6);

@@ -29,13 +29,43 @@ describe('two-rater coefficients of a confusion matrix', () => {
 describe('pointsAtStake', () => {
   const rows = (spec: [string, number | null, [string, number][]][]): RatingRow[] =>
     spec.flatMap(([id, panel, ratings]) =>
-      ratings.map(([c, v]) => ({ assessmentId: id, athleteCode: id, eventCode: 'E1', assessedOn: '2024-10-01', classifierCode: c, sportClass: v * 2, panelClass: panel === null ? null : panel * 2 })),
+      ratings.map(([c, v]) => ({
+        assessmentId: id,
+        athleteCode: id,
+        eventCode: 'E1',
+        assessedOn: '2024-10-01',
+        classifierCode: c,
+        sportClass: v * 2,
+        panelClass: panel === null ? null : panel * 2,
+      })),
     );
   const set = buildRatingSet(
     rows([
-      ['S1', 2.0, [['C01', 2.0], ['C02', 2.5], ['C03', 2.0]]],
-      ['S2', 3.0, [['C01', 4.0], ['C02', 3.0]]],
-      ['S3', null, [['C01', 1.0], ['C02', 1.5]]], // no final class: not counted
+      [
+        'S1',
+        2.0,
+        [
+          ['C01', 2.0],
+          ['C02', 2.5],
+          ['C03', 2.0],
+        ],
+      ],
+      [
+        'S2',
+        3.0,
+        [
+          ['C01', 4.0],
+          ['C02', 3.0],
+        ],
+      ],
+      [
+        'S3',
+        null,
+        [
+          ['C01', 1.0],
+          ['C02', 1.5],
+        ],
+      ], // no final class: not counted
       ['S4', 1.0, [['C01', 1.0]]], // a panel of one: not counted
     ]),
     DEFAULT_SCALE,

@@ -83,27 +83,31 @@ function expectSameNumbers(a: unknown, b: unknown, path = '$'): void {
 describe('identical classifiers agree perfectly (Cohen 1960; Fleiss 1971; Krippendorff 2011; Gwet 2008)', () => {
   it('kappa (all weightings), Fleiss, alpha (all metrics) are 1 when defined; AC1/AC2 are 1', () => {
     fc.assert(
-      fc.property(fc.array(fc.integer({ min: 0, max: Q - 1 }), { minLength: 2, maxLength: 30 }), fc.integer({ min: 2, max: 5 }), (classes, raters) => {
-        const table = classes.map((c) => Array<number>(raters).fill(c));
-        const set = buildRatingSet(toRows(table), DEFAULT_SCALE);
-        const t = countTable(set);
-        const defined = distinctClasses(table) >= 2;
-        const ct = contingencyTable(classes, classes, Q);
-        for (const w of ['unweighted', 'linear', 'quadratic'] as const) {
-          const k = cohenKappa(ct, Q, w).value;
-          if (defined) expect(k).toBeCloseTo(1, 12);
-          else expect(k).toBeNull();
-          expect(gwetAC(t, w).value).toBeCloseTo(1, 12);
-        }
-        const f = fleissKappa(t).value;
-        if (defined) expect(f).toBeCloseTo(1, 12);
-        else expect(f).toBeNull();
-        for (const m of ['nominal', 'ordinal', 'interval', 'ratio'] as const) {
-          const a = krippendorffAlpha(t, m, [1, 1.5, 2, 2.5, 3, 3.5, 4, 4.5]).value;
-          if (defined) expect(a).toBeCloseTo(1, 12);
-          else expect(a).toBeNull();
-        }
-      }),
+      fc.property(
+        fc.array(fc.integer({ min: 0, max: Q - 1 }), { minLength: 2, maxLength: 30 }),
+        fc.integer({ min: 2, max: 5 }),
+        (classes, raters) => {
+          const table = classes.map((c) => Array<number>(raters).fill(c));
+          const set = buildRatingSet(toRows(table), DEFAULT_SCALE);
+          const t = countTable(set);
+          const defined = distinctClasses(table) >= 2;
+          const ct = contingencyTable(classes, classes, Q);
+          for (const w of ['unweighted', 'linear', 'quadratic'] as const) {
+            const k = cohenKappa(ct, Q, w).value;
+            if (defined) expect(k).toBeCloseTo(1, 12);
+            else expect(k).toBeNull();
+            expect(gwetAC(t, w).value).toBeCloseTo(1, 12);
+          }
+          const f = fleissKappa(t).value;
+          if (defined) expect(f).toBeCloseTo(1, 12);
+          else expect(f).toBeNull();
+          for (const m of ['nominal', 'ordinal', 'interval', 'ratio'] as const) {
+            const a = krippendorffAlpha(t, m, [1, 1.5, 2, 2.5, 3, 3.5, 4, 4.5]).value;
+            if (defined) expect(a).toBeCloseTo(1, 12);
+            else expect(a).toBeNull();
+          }
+        },
+      ),
     );
   });
 });
@@ -115,11 +119,17 @@ describe('invariance (the statistics treat classifiers and assessments as unorde
         const raters = table[0].length;
         const codes = Array.from({ length: raters }, (_, k) => `C${String(k + 1).padStart(2, '0')}`);
         // A permutation of the codes and of the assessment order, derived from the salt.
-        const perm = codes.map((c, i) => ({ c, key: Math.sin(salt + i) })).sort((x, y) => x.key - y.key).map((x) => x.c);
+        const perm = codes
+          .map((c, i) => ({ c, key: Math.sin(salt + i) }))
+          .sort((x, y) => x.key - y.key)
+          .map((x) => x.c);
         const rename = new Map(codes.map((c, i) => [c, perm[i]]));
         const rows = toRows(table);
         const shuffled = rows
-          .map((r, i) => ({ r: { ...r, classifierCode: rename.get(r.classifierCode)! }, key: Math.cos(salt * 7 + Number(r.assessmentId.slice(2)) * 13) + i * 1e-9 }))
+          .map((r, i) => ({
+            r: { ...r, classifierCode: rename.get(r.classifierCode)! },
+            key: Math.cos(salt * 7 + Number(r.assessmentId.slice(2)) * 13) + i * 1e-9,
+          }))
           .sort((x, y) => x.key - y.key)
           .map((x) => x.r);
         const a = analyzeRatings(buildRatingSet(rows, DEFAULT_SCALE));
@@ -194,7 +204,11 @@ describe('ranges where defined', () => {
         for (const v of atMostOne) if (v !== null) expect(v).toBeLessThanOrEqual(1 + 1e-12);
         const atLeastMinusOne = [r.fleissKappa.value, r.gwet.ac1.value, ...r.pairs.map((p) => p.kappa.value)];
         for (const v of atLeastMinusOne) if (v !== null) expect(v).toBeGreaterThanOrEqual(-1 - 1e-12);
-        for (const v of [r.exactAgreement.unanimous.value, r.exactAgreement.pairwiseMean.value, r.withinHalfClassAgreement.pooledPairs.value]) {
+        for (const v of [
+          r.exactAgreement.unanimous.value,
+          r.exactAgreement.pairwiseMean.value,
+          r.withinHalfClassAgreement.pooledPairs.value,
+        ]) {
           if (v !== null) {
             expect(v).toBeGreaterThanOrEqual(0);
             expect(v).toBeLessThanOrEqual(1);
@@ -207,20 +221,23 @@ describe('ranges where defined', () => {
 
   it('weighted kappas of two classifiers stay in [−1, 1]', () => {
     fc.assert(
-      fc.property(fc.array(fc.tuple(fc.integer({ min: 0, max: Q - 1 }), fc.integer({ min: 0, max: Q - 1 })), { minLength: 2, maxLength: 30 }), (pairs) => {
-        const t = contingencyTable(
-          pairs.map((p) => p[0]),
-          pairs.map((p) => p[1]),
-          Q,
-        );
-        for (const w of ['unweighted', 'linear', 'quadratic'] as const) {
-          const k = cohenKappa(t, Q, w).value;
-          if (k !== null) {
-            expect(k).toBeLessThanOrEqual(1 + 1e-12);
-            expect(k).toBeGreaterThanOrEqual(-1 - 1e-12);
+      fc.property(
+        fc.array(fc.tuple(fc.integer({ min: 0, max: Q - 1 }), fc.integer({ min: 0, max: Q - 1 })), { minLength: 2, maxLength: 30 }),
+        (pairs) => {
+          const t = contingencyTable(
+            pairs.map((p) => p[0]),
+            pairs.map((p) => p[1]),
+            Q,
+          );
+          for (const w of ['unweighted', 'linear', 'quadratic'] as const) {
+            const k = cohenKappa(t, Q, w).value;
+            if (k !== null) {
+              expect(k).toBeLessThanOrEqual(1 + 1e-12);
+              expect(k).toBeGreaterThanOrEqual(-1 - 1e-12);
+            }
           }
-        }
-      }),
+        },
+      ),
     );
   });
 });
@@ -228,14 +245,18 @@ describe('ranges where defined', () => {
 describe('bootstrap (Efron & Tibshirani 1993, percentile interval) with a seeded generator', () => {
   it('the same seed gives the same interval; the point estimate is usually inside it', () => {
     fc.assert(
-      fc.property(layout({ minUnits: 8, maxUnits: 25, missing: false, minRaters: 3, maxRaters: 4 }), fc.integer({ min: 0, max: 2 ** 31 - 1 }), (table, seed) => {
-        const t = countTable(buildRatingSet(toRows(table), DEFAULT_SCALE));
-        const a = bootstrapCountTable(t, fleissKappaValue, { B: 200, seed });
-        const b = bootstrapCountTable(t, fleissKappaValue, { B: 200, seed });
-        expect(a).toEqual(b);
-        expect(a.B).toBe(200);
-        expect(a.undefinedReplicates + 0).toBeLessThanOrEqual(200);
-      }),
+      fc.property(
+        layout({ minUnits: 8, maxUnits: 25, missing: false, minRaters: 3, maxRaters: 4 }),
+        fc.integer({ min: 0, max: 2 ** 31 - 1 }),
+        (table, seed) => {
+          const t = countTable(buildRatingSet(toRows(table), DEFAULT_SCALE));
+          const a = bootstrapCountTable(t, fleissKappaValue, { B: 200, seed });
+          const b = bootstrapCountTable(t, fleissKappaValue, { B: 200, seed });
+          expect(a).toEqual(b);
+          expect(a.B).toBe(200);
+          expect(a.undefinedReplicates + 0).toBeLessThanOrEqual(200);
+        },
+      ),
       { numRuns: 25 },
     );
   });

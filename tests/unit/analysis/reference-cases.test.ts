@@ -44,7 +44,13 @@ interface Case {
   title: string;
   data: Json & { kind: string };
   checks: Check[];
-  pairwise_cohen?: { pair: [string, string]; n_shared: number; expected: Record<string, number | null>; tolerance: number; origin: string }[];
+  pairwise_cohen?: {
+    pair: [string, string];
+    n_shared: number;
+    expected: Record<string, number | null>;
+    tolerance: number;
+    origin: string;
+  }[];
 }
 
 const file = fileURLToPath(new URL('../../../fixtures/reference/worked-examples.json', import.meta.url));
@@ -92,7 +98,7 @@ function prepare(c: Case): Prepared {
   } else {
     const seen = [...new Set(raw.flat().filter((v): v is number | string => v !== null))];
     categories = seen.sort((x, y) => (x < y ? -1 : x > y ? 1 : 0));
-    values = categories.every((v) => typeof v === 'number') ? (categories) : range(categories.length, 0);
+    values = categories.every((v) => typeof v === 'number') ? categories : range(categories.length, 0);
   }
   const q = categories.length;
   const idx = raw.map((r) => r.map((v) => (v === null ? null : categories.indexOf(v))));
@@ -289,7 +295,12 @@ for (const c of reference.cases) {
             expectClose(k.ci95![1], hi, printedTolerance(hi));
             continue;
           }
-          const tol = what === 'se_advisory' ? 1e-6 : check.tolerance < 1e-4 ? Math.max(check.tolerance, printedTolerance(printed as number)) : printedTolerance(printed as number);
+          const tol =
+            what === 'se_advisory'
+              ? 1e-6
+              : check.tolerance < 1e-4
+                ? Math.max(check.tolerance, printedTolerance(printed as number))
+                : printedTolerance(printed as number);
           expectClose(value, printed as number, tol);
         }
       });

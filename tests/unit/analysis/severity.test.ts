@@ -7,7 +7,15 @@ import { spawnSync } from 'node:child_process';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
-import { analyzeRatings, buildRatingSet, classifierSeverity, classifiersVsPanel, SEVERITY_CI_METHOD, Z95, type RatingRow } from '../../../server/analysis';
+import {
+  analyzeRatings,
+  buildRatingSet,
+  classifierSeverity,
+  classifiersVsPanel,
+  SEVERITY_CI_METHOD,
+  Z95,
+  type RatingRow,
+} from '../../../server/analysis';
 import { readTidyCsv } from '../../../server/cli/read-tidy-csv';
 import { DEFAULT_SCALE } from '../../../shared/scale';
 import { simulateFederation } from '../../factories/severity-simulation';
@@ -62,14 +70,56 @@ describe('classifierSeverity: a case worked by hand', () => {
    */
   const set = buildRatingSet(
     rows([
-      ['AS1', 'A1', [['C01', 3.0], ['C02', 2.5]]],
-      ['AS2', 'A2', [['C02', 3.0], ['C03', 2.0]]],
-      ['AS3', 'A3', [['C01', 2.5], ['C03', 2.5]]],
-      ['AS4', 'A4', [['C01', 4.5], ['C02', 4.5]]],
+      [
+        'AS1',
+        'A1',
+        [
+          ['C01', 3.0],
+          ['C02', 2.5],
+        ],
+      ],
+      [
+        'AS2',
+        'A2',
+        [
+          ['C02', 3.0],
+          ['C03', 2.0],
+        ],
+      ],
+      [
+        'AS3',
+        'A3',
+        [
+          ['C01', 2.5],
+          ['C03', 2.5],
+        ],
+      ],
+      [
+        'AS4',
+        'A4',
+        [
+          ['C01', 4.5],
+          ['C02', 4.5],
+        ],
+      ],
       ['AS5', 'A5', [['C03', 3.5]]],
-      ['AS6', 'A6', [['C04', 2.0], ['C05', 3.0]]],
+      [
+        'AS6',
+        'A6',
+        [
+          ['C04', 2.0],
+          ['C05', 3.0],
+        ],
+      ],
       ['AS7', 'A7', [['C06', 2.0]]],
-      ['AS8', 'A8', [['C07', 1.0], ['C08', 1.0]]],
+      [
+        'AS8',
+        'A8',
+        [
+          ['C07', 1.0],
+          ['C08', 1.0],
+        ],
+      ],
     ]),
     DEFAULT_SCALE,
   );
@@ -123,8 +173,22 @@ describe('classifierSeverity: a case worked by hand', () => {
     const r = classifierSeverity(
       buildRatingSet(
         rows([
-          ['AS1', 'A1', [['C01', 3.0], ['C02', 2.5]]],
-          ['AS2', 'A2', [['C02', 3.0], ['C03', 3.0]]],
+          [
+            'AS1',
+            'A1',
+            [
+              ['C01', 3.0],
+              ['C02', 2.5],
+            ],
+          ],
+          [
+            'AS2',
+            'A2',
+            [
+              ['C02', 3.0],
+              ['C03', 3.0],
+            ],
+          ],
         ]),
         DEFAULT_SCALE,
       ),
@@ -134,7 +198,15 @@ describe('classifierSeverity: a case worked by hand', () => {
   });
 
   it('is null with a reason when no one sat together', () => {
-    const r = classifierSeverity(buildRatingSet(rows([['AS1', 'A1', [['C01', 3.0]]], ['AS2', 'A2', [['C02', 3.0]]]]), DEFAULT_SCALE));
+    const r = classifierSeverity(
+      buildRatingSet(
+        rows([
+          ['AS1', 'A1', [['C01', 3.0]]],
+          ['AS2', 'A2', [['C02', 3.0]]],
+        ]),
+        DEFAULT_SCALE,
+      ),
+    );
     expect(r.reason).toMatch(/two or more ratings/);
     expect(r.classifiers.every((c) => c.value === null && c.reason)).toBe(true);
     expect(r.network.components).toEqual([]);
@@ -143,9 +215,30 @@ describe('classifierSeverity: a case worked by hand', () => {
   it('does not move when every rating of an assessment moves by the same step (the level absorbs it)', () => {
     const shifted = buildRatingSet(
       rows([
-        ['AS1', 'A1', [['C01', 3.5], ['C02', 3.0]]],
-        ['AS2', 'A2', [['C02', 2.5], ['C03', 1.5]]],
-        ['AS3', 'A3', [['C01', 2.5], ['C03', 2.5]]],
+        [
+          'AS1',
+          'A1',
+          [
+            ['C01', 3.5],
+            ['C02', 3.0],
+          ],
+        ],
+        [
+          'AS2',
+          'A2',
+          [
+            ['C02', 2.5],
+            ['C03', 1.5],
+          ],
+        ],
+        [
+          'AS3',
+          'A3',
+          [
+            ['C01', 2.5],
+            ['C03', 2.5],
+          ],
+        ],
       ]),
       DEFAULT_SCALE,
     );
@@ -219,10 +312,18 @@ describe('severity in the agreement report and the command line', () => {
 
   it('panelwise analyze prints the severity in JSON and in the table', () => {
     const root = fileURLToPath(new URL('../../../', import.meta.url));
-    const run = (...args: string[]) => spawnSync(process.execPath, [join(root, 'bin/panelwise.js'), 'analyze', join(root, 'fixtures/analysis/small-long.csv'), ...args], { encoding: 'utf8', cwd: root, timeout: 60_000 });
-    const json = JSON.parse(run().stdout) as { classifiers: { code: string; severity: { value: number | null; ci95: [number, number] | null } }[] };
+    const run = (...args: string[]) =>
+      spawnSync(process.execPath, [join(root, 'bin/panelwise.js'), 'analyze', join(root, 'fixtures/analysis/small-long.csv'), ...args], {
+        encoding: 'utf8',
+        cwd: root,
+        timeout: 60_000,
+      });
+    const json = JSON.parse(run().stdout) as {
+      classifiers: { code: string; severity: { value: number | null; ci95: [number, number] | null } }[];
+    };
     const expected = classifierSeverity(readTidyCsv(join(root, 'fixtures/analysis/small-long.csv')));
-    for (const row of json.classifiers) expect(row.severity.value).toBeCloseTo(expected.classifiers.find((c) => c.code === row.code)!.value!, 12);
+    for (const row of json.classifiers)
+      expect(row.severity.value).toBeCloseTo(expected.classifiers.find((c) => c.code === row.code)!.value!, 12);
     const table = run('--format', 'table').stdout;
     expect(table).toMatch(/Severity: two-way additive/);
     expect(table).toMatch(/Classifier\s+n\s+Severity\s+95% CI\s+Links/);

@@ -39,7 +39,17 @@ function ratingsFor(categories: string[], eventLevel = 'national'): SourceRating
 }
 
 const build = (ratings: SourceRating[], k = 5) =>
-  renderExport({ federation: { name: 'Invented Federation', scale: DEFAULT_SCALE }, exportId: 1, exportedAt: '2026-12-02T10:00:00Z', request, k, key, salt: 's', study: null, ratings });
+  renderExport({
+    federation: { name: 'Invented Federation', scale: DEFAULT_SCALE },
+    exportId: 1,
+    exportedAt: '2026-12-02T10:00:00Z',
+    request,
+    k,
+    key,
+    salt: 's',
+    study: null,
+    ratings,
+  });
 
 describe('research export files', () => {
   it('neutralise CSV cells that begin with =, +, -, @, a tab or a carriage return; the JSON keeps the text', () => {
@@ -59,15 +69,34 @@ describe('research export files', () => {
 
   it('writes UTF-8 CSV with CRLF, a header, classes with one decimal and months', () => {
     const built = build(ratingsFor(['women', 'men', 'junior']));
-    expect(built.csv.startsWith('assessment,athlete,classifier,sport_class,panel_class,kind,season,event,event_level,category,assessed_month\r\n')).toBe(true);
+    expect(
+      built.csv.startsWith(
+        'assessment,athlete,classifier,sport_class,panel_class,kind,season,event,event_level,category,assessed_month\r\n',
+      ),
+    ).toBe(true);
     expect(built.csv).toContain(',2.5,2.5,first,2024-25,evt-');
     expect(built.csv).toContain(',national,women,2024-10\r\n');
     expect(built.counts).toMatchObject({ rows: 30, assessments: 15, athletes: 15, classifiers: 2 });
   });
 
   it('writes day offsets from each athlete’s first assessment in the export', () => {
-    const ratings = ratingsFor(['men']).map((r, i) => ({ ...r, assessmentKey: `KE-x${i}`, athleteKey: 'A1', assessedOn: i < 4 ? '2024-10-08' : '2024-12-03' }));
-    const built = renderExport({ federation: { name: 'F', scale: DEFAULT_SCALE }, exportId: 2, exportedAt: '2026-12-02T00:00:00Z', request: { ...request, fields: ['date'], dateMode: 'offset' }, k: 1 + 1, key, salt: 's', study: null, ratings });
+    const ratings = ratingsFor(['men']).map((r, i) => ({
+      ...r,
+      assessmentKey: `KE-x${i}`,
+      athleteKey: 'A1',
+      assessedOn: i < 4 ? '2024-10-08' : '2024-12-03',
+    }));
+    const built = renderExport({
+      federation: { name: 'F', scale: DEFAULT_SCALE },
+      exportId: 2,
+      exportedAt: '2026-12-02T00:00:00Z',
+      request: { ...request, fields: ['date'], dateMode: 'offset' },
+      k: 1 + 1,
+      key,
+      salt: 's',
+      study: null,
+      ratings,
+    });
     const rows = Papa.parse<Record<string, string>>(built.csv, { header: true, skipEmptyLines: true }).data;
     expect(new Set(rows.map((r) => r.day_offset))).toEqual(new Set(['0', '56']));
   });
@@ -80,17 +109,32 @@ describe('research export files', () => {
 });
 
 describe('small-cell suppression', () => {
-  const item = (athlete: string, category: string, kind: string): SuppressibleAssessment => ({ athlete, rows: 3, category, attributes: { kind, season: '2024-25' }, suppressed: false });
+  const item = (athlete: string, category: string, kind: string): SuppressibleAssessment => ({
+    athlete,
+    rows: 3,
+    category,
+    attributes: { kind, season: '2024-25' },
+    suppressed: false,
+  });
 
   it('blanks a category held by fewer than k athletes on every row of those athletes', () => {
-    const items = [...['a', 'b', 'c', 'd', 'e'].map((a) => item(a, 'men', 'review')), item('f', 'masters', 'review'), item('f', 'masters', 'first'), item('g', 'masters', 'review')];
+    const items = [
+      ...['a', 'b', 'c', 'd', 'e'].map((a) => item(a, 'men', 'review')),
+      item('f', 'masters', 'review'),
+      item('f', 'masters', 'first'),
+      item('g', 'masters', 'review'),
+    ];
     const counts = suppressSmallCells(items, { k: 5, categoryExported: true, combinationAttributes: [] });
     expect(items.filter((i) => i.category === null).map((i) => i.athlete)).toEqual(['f', 'f', 'g']);
     expect(counts).toEqual({ categoryAthletes: 2, categoryRows: 9, combinationAssessments: 0, combinationRows: 0 });
   });
 
   it('blanks every assessment-level attribute of a combination held by fewer than k athletes, and keeps the rows', () => {
-    const items = [...['a', 'b', 'c', 'd', 'e'].map((a) => item(a, 'men', 'review')), item('a', 'men', 'protest'), item('b', 'men', 'protest')];
+    const items = [
+      ...['a', 'b', 'c', 'd', 'e'].map((a) => item(a, 'men', 'review')),
+      item('a', 'men', 'protest'),
+      item('b', 'men', 'protest'),
+    ];
     const counts = suppressSmallCells(items, { k: 5, categoryExported: true, combinationAttributes: ['kind', 'season'] });
     expect(items.length).toBe(7);
     expect(items.filter((i) => i.suppressed).map((i) => i.attributes)).toEqual([

@@ -9,7 +9,14 @@ import { describe, expect, it } from 'vitest';
 import { buildRatingSet } from '../../../server/analysis';
 import { parseTidyCsv, ratingSetOfCore } from '../../../server/cli/read-tidy-csv';
 import { batchOfCore } from '../../../server/imports/batch';
-import { byteReadable, decodeCsvBytes, readCsvBytes, readCsvCore, readCsvText, type CsvReadOptions } from '../../../server/imports/csv-reader';
+import {
+  byteReadable,
+  decodeCsvBytes,
+  readCsvBytes,
+  readCsvCore,
+  readCsvText,
+  type CsvReadOptions,
+} from '../../../server/imports/csv-reader';
 import { anyFileArb } from '../../factories/csv-arbitrary';
 
 function textRead(bytes: Buffer, options: CsvReadOptions = {}) {

@@ -32,12 +32,28 @@ describe('import boundaries', () => {
   });
 
   it('a feature may import neither another feature’s components nor the app shell; shared UI imports no feature', async () => {
-    expect(await boundaryMessages('src/features/exercises/components/lint-case.tsx', "import { x } from '../../dashboards/components/flags-page';\n")).toHaveLength(1);
-    expect(await boundaryMessages('src/features/exercises/components/lint-case.tsx', "import { x } from '../../../app/router';\n")).toHaveLength(1);
-    expect(await boundaryMessages('src/components/lint-case.tsx', "import { x } from '../features/dashboards/components/overview-page';\n")).toHaveLength(1);
-    expect(await boundaryMessages('src/features/exercises/components/lint-case.tsx', "import { x } from '../../../components/status';\n")).toEqual([]);
+    expect(
+      await boundaryMessages(
+        'src/features/exercises/components/lint-case.tsx',
+        "import { x } from '../../dashboards/components/flags-page';\n",
+      ),
+    ).toHaveLength(1);
+    expect(
+      await boundaryMessages('src/features/exercises/components/lint-case.tsx', "import { x } from '../../../app/router';\n"),
+    ).toHaveLength(1);
+    expect(
+      await boundaryMessages('src/components/lint-case.tsx', "import { x } from '../features/dashboards/components/overview-page';\n"),
+    ).toHaveLength(1);
+    expect(
+      await boundaryMessages('src/features/exercises/components/lint-case.tsx', "import { x } from '../../../components/status';\n"),
+    ).toEqual([]);
     // A feature's api/ hooks are its public face: another feature may use them.
-    expect(await boundaryMessages('src/features/exercises/components/lint-case.tsx', "import { useFlags } from '../../dashboards/api/get-flags';\n")).toEqual([]);
+    expect(
+      await boundaryMessages(
+        'src/features/exercises/components/lint-case.tsx',
+        "import { useFlags } from '../../dashboards/api/get-flags';\n",
+      ),
+    ).toEqual([]);
   });
 
   it('shared/ imports nothing from the client or the server', async () => {

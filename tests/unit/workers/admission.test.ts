@@ -44,7 +44,11 @@ describe('Admission', () => {
     const a = new Admission({ ...options, threads: 1, perFederation: 1 });
     const order: string[] = [];
     const first = await a.acquire(1);
-    const waits = [a.acquire(1).then((r) => (order.push('1a'), r)), a.acquire(2).then((r) => (order.push('2a'), r)), a.acquire(1).then((r) => (order.push('1b'), r))];
+    const waits = [
+      a.acquire(1).then((r) => (order.push('1a'), r)),
+      a.acquire(2).then((r) => (order.push('2a'), r)),
+      a.acquire(1).then((r) => (order.push('1b'), r)),
+    ];
     first();
     (await waits[0])();
     (await waits[1])();

@@ -12,7 +12,8 @@ beforeAll(async () => {
 });
 afterAll(() => t.close());
 
-const owed = () => t.ctx.sqlite.prepare("select subject, attempts, last_error from background_jobs where kind like 'test.%' order by subject").all();
+const owed = () =>
+  t.ctx.sqlite.prepare("select subject, attempts, last_error from background_jobs where kind like 'test.%' order by subject").all();
 
 function gate() {
   let open!: () => void;

@@ -5,7 +5,8 @@ import { api } from '../../../lib/api-client';
 export function boundariesQueryOptions(federation: string, filters: AnalyticsFilters) {
   return queryOptions({
     queryKey: ['federations', federation, 'analytics', 'boundaries', filters],
-    queryFn: () => api<BoundariesResponse>(`/federations/${encodeURIComponent(federation)}/analytics/boundaries${filtersToSearch(filters)}`),
+    queryFn: () =>
+      api<BoundariesResponse>(`/federations/${encodeURIComponent(federation)}/analytics/boundaries${filtersToSearch(filters)}`),
   });
 }
 

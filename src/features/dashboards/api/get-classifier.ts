@@ -5,7 +5,10 @@ import { api } from '../../../lib/api-client';
 export function classifierQueryOptions(federation: string, filters: AnalyticsFilters, code: string) {
   return queryOptions({
     queryKey: ['federations', federation, 'analytics', 'classifier', code, filters],
-    queryFn: () => api<ClassifierDetail>(`/federations/${encodeURIComponent(federation)}/analytics/classifiers/${encodeURIComponent(code)}${filtersToSearch(filters)}`),
+    queryFn: () =>
+      api<ClassifierDetail>(
+        `/federations/${encodeURIComponent(federation)}/analytics/classifiers/${encodeURIComponent(code)}${filtersToSearch(filters)}`,
+      ),
   });
 }
 

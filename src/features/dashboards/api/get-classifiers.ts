@@ -5,7 +5,8 @@ import { api } from '../../../lib/api-client';
 export function classifiersQueryOptions(federation: string, filters: AnalyticsFilters) {
   return queryOptions({
     queryKey: ['federations', federation, 'analytics', 'classifiers', filters],
-    queryFn: () => api<ClassifiersResponse>(`/federations/${encodeURIComponent(federation)}/analytics/classifiers${filtersToSearch(filters)}`),
+    queryFn: () =>
+      api<ClassifiersResponse>(`/federations/${encodeURIComponent(federation)}/analytics/classifiers${filtersToSearch(filters)}`),
   });
 }
 

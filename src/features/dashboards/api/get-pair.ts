@@ -5,7 +5,10 @@ import { api } from '../../../lib/api-client';
 export function pairQueryOptions(federation: string, filters: AnalyticsFilters, a: string, b: string) {
   return queryOptions({
     queryKey: ['federations', federation, 'analytics', 'pair', a, b, filters],
-    queryFn: () => api<PairDetail>(`/federations/${encodeURIComponent(federation)}/analytics/pairs/${encodeURIComponent(a)}/${encodeURIComponent(b)}${filtersToSearch(filters)}`),
+    queryFn: () =>
+      api<PairDetail>(
+        `/federations/${encodeURIComponent(federation)}/analytics/pairs/${encodeURIComponent(a)}/${encodeURIComponent(b)}${filtersToSearch(filters)}`,
+      ),
   });
 }
 

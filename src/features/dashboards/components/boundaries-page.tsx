@@ -23,7 +23,13 @@ export function BoundariesPage() {
           return (
             <div className="space-y-6">
               <BoundaryBars
-                bars={data.boundaries.map((b) => ({ boundary: `${b.lower}/${b.upper}`, value: b.splitRate, lo: b.ci95?.[0] ?? null, hi: b.ci95?.[1] ?? null, n: b.n }))}
+                bars={data.boundaries.map((b) => ({
+                  boundary: `${b.lower}/${b.upper}`,
+                  value: b.splitRate,
+                  lo: b.ci95?.[0] ?? null,
+                  hi: b.ci95?.[1] ?? null,
+                  n: b.n,
+                }))}
                 title="Panels split across each class boundary"
                 fileName={`${federation.slug}-boundaries`}
                 summary={
@@ -31,7 +37,9 @@ export function BoundariesPage() {
                     ? `Highest split rates: ${ranked
                         .slice(0, 3)
                         .map((b) => `${b.lower}/${b.upper} ${pct(b.splitRate)} of ${b.n}`)
-                        .join(', ')}; lowest: ${ranked.at(-1)!.lower}/${ranked.at(-1)!.upper} ${pct(ranked.at(-1)!.splitRate)}. Lines are 95 % Wilson intervals.`
+                        .join(
+                          ', ',
+                        )}; lowest: ${ranked.at(-1)!.lower}/${ranked.at(-1)!.upper} ${pct(ranked.at(-1)!.splitRate)}. Lines are 95 % Wilson intervals.`
                     : 'No panel of two or more in these filters.'
                 }
               />

@@ -25,7 +25,9 @@ function StatCard({ label, value, detail, testId }: { label: string; value: stri
  */
 export function ClassifierFigures({ detail, who, fileStem }: { detail: ClassifierDetail | MyAgreement; who: string; fileStem: string }) {
   const { row } = detail;
-  const splits = [...detail.boundaries].filter((b) => b.splitRate !== null && b.touching >= 5).sort((a, b) => (b.splitRate ?? 0) - (a.splitRate ?? 0));
+  const splits = [...detail.boundaries]
+    .filter((b) => b.splitRate !== null && b.touching >= 5)
+    .sort((a, b) => (b.splitRate ?? 0) - (a.splitRate ?? 0));
   const top = splits.slice(0, 3);
   const biasWord = row.bias.value === null ? '' : row.bias.value > 0 ? 'higher than' : row.bias.value < 0 ? 'lower than' : 'level with';
   const lastQuarter = detail.biasByQuarter.at(-1);
@@ -41,9 +43,10 @@ export function ClassifierFigures({ detail, who, fileStem }: { detail: Classifie
         </h2>
         {own ? (
           <p className="mb-3 max-w-3xl" data-testid="plain-words">
-            In plain words: in {integer.format(h.sameAsFinal.n)} of your ratings with a recorded final class, you gave the panel’s final class{' '}
-            {pct(h.sameAsFinal.value)} of the time. On average your class was {num(stake.meanAbs.value)} point from the final class — about{' '}
-            {num(stake.per100, 0)} points per 100 ratings — and {pct(stake.offByHalf.value)} of your ratings were half a class or more away.{' '}
+            In plain words: in {integer.format(h.sameAsFinal.n)} of your ratings with a recorded final class, you gave the panel’s final
+            class {pct(h.sameAsFinal.value)} of the time. On average your class was {num(stake.meanAbs.value)} point from the final class —
+            about {num(stake.per100, 0)} points per 100 ratings — and {pct(stake.offByHalf.value)} of your ratings were half a class or more
+            away.{' '}
             {row.bias.value !== null && Math.abs(row.bias.value) >= 0.05
               ? `You tend to rate ${row.bias.value > 0 ? 'higher' : 'lower'} than the other members of your panels, by ${num(Math.abs(row.bias.value))} point on average.`
               : 'You rate neither higher nor lower than the other members of your panels on average.'}{' '}
@@ -51,44 +54,78 @@ export function ClassifierFigures({ detail, who, fileStem }: { detail: Classifie
           </p>
         ) : null}
         <dl className="grid grid-cols-2 gap-3 lg:grid-cols-5">
-          <StatCard label="Same class as the panel’s final class" value={pct(h.sameAsFinal.value)} detail={`${integer.format(h.sameAsFinal.n)} ratings with a final class`} testId="classifier-same-final" />
-          <StatCard label="Same class as the other members" value={pct(row.exactWithPanel.value)} detail={`${integer.format(row.n)} ratings in panels of two or more`} testId="classifier-n" />
+          <StatCard
+            label="Same class as the panel’s final class"
+            value={pct(h.sameAsFinal.value)}
+            detail={`${integer.format(h.sameAsFinal.n)} ratings with a final class`}
+            testId="classifier-same-final"
+          />
+          <StatCard
+            label="Same class as the other members"
+            value={pct(row.exactWithPanel.value)}
+            detail={`${integer.format(row.n)} ratings in panels of two or more`}
+            testId="classifier-n"
+          />
           <StatCard
             label="Points at stake (per 100 ratings)"
             value={num(stake.per100, 0)}
             detail={`mean ${num(stake.meanAbs.value)} point from the final class; ${pct(stake.offByHalf.value)} off by half a class or more`}
             testId="classifier-points-at-stake"
           />
-          <StatCard label="Lean (points, + = higher)" value={signed(row.bias.value)} detail={row.bias.ci95 ? `95 % CI ${signed(row.bias.ci95[0])} to ${signed(row.bias.ci95[1])}` : undefined} />
+          <StatCard
+            label="Lean (points, + = higher)"
+            value={signed(row.bias.value)}
+            detail={row.bias.ci95 ? `95 % CI ${signed(row.bias.ci95[0])} to ${signed(row.bias.ci95[1])}` : undefined}
+          />
           <StatCard
             label="Severity (points, + = higher)"
             value={signed(row.severity.value)}
-            detail={row.severity.ci95 ? `95 % CI ${signed(row.severity.ci95[0])} to ${signed(row.severity.ci95[1])}; ${row.severity.links} linked classifiers` : row.severity.reason}
+            detail={
+              row.severity.ci95
+                ? `95 % CI ${signed(row.severity.ci95[0])} to ${signed(row.severity.ci95[1])}; ${row.severity.links} linked classifiers`
+                : row.severity.reason
+            }
             testId="classifier-severity"
           />
         </dl>
         <p className="mt-2 text-sm text-muted">
-          Half-point splits from the panel: {top.length ? top.map((b) => `${b.lower}/${b.upper} ${pct(b.splitRate)} of ${b.touching}`).join(' · ') : 'too few ratings near any boundary'}.
-          Points at stake is our own figure: the mean distance from the panel’s final class in sport-class points, ×100. Severity is how much higher or lower{' '}
-          {who === 'you' ? 'you rate' : `${who} rates`} than the federation’s average classifier would for the same athlete, with whom one sat with taken out
-          (decision record 0009).
+          Half-point splits from the panel:{' '}
+          {top.length
+            ? top.map((b) => `${b.lower}/${b.upper} ${pct(b.splitRate)} of ${b.touching}`).join(' · ')
+            : 'too few ratings near any boundary'}
+          . Points at stake is our own figure: the mean distance from the panel’s final class in sport-class points, ×100. Severity is how
+          much higher or lower {who === 'you' ? 'you rate' : `${who} rates`} than the federation’s average classifier would for the same
+          athlete, with whom one sat with taken out (decision record 0009).
         </p>
         <h3 className="mt-4 mb-2 text-base">Beyond chance, then with partial credit</h3>
         <dl className="grid grid-cols-1 gap-3 sm:grid-cols-3">
-          <StatCard label="Cohen’s kappa, unweighted (vs final class)" value={num(h.kappa.value)} detail={`${h.kappa.label ?? ''}${h.kappa.ci95 ? ` · 95 % CI ${num(h.kappa.ci95[0])} to ${num(h.kappa.ci95[1])}` : ''}`} />
-          <StatCard label="Gwet’s AC1 (vs final class)" value={num(h.ac1.value)} detail={`${h.ac1.label ?? ''}${h.ac1.ci95 ? ` · 95 % CI ${num(h.ac1.ci95[0])} to ${num(h.ac1.ci95[1])}` : ''}`} />
+          <StatCard
+            label="Cohen’s kappa, unweighted (vs final class)"
+            value={num(h.kappa.value)}
+            detail={`${h.kappa.label ?? ''}${h.kappa.ci95 ? ` · 95 % CI ${num(h.kappa.ci95[0])} to ${num(h.kappa.ci95[1])}` : ''}`}
+          />
+          <StatCard
+            label="Gwet’s AC1 (vs final class)"
+            value={num(h.ac1.value)}
+            detail={`${h.ac1.label ?? ''}${h.ac1.ci95 ? ` · 95 % CI ${num(h.ac1.ci95[0])} to ${num(h.ac1.ci95[1])}` : ''}`}
+          />
           <StatCard
             label="Quadratically weighted kappa — counts a half-class miss as near agreement"
             value={num(h.quadraticKappa.value)}
-            detail={h.quadraticKappa.ci95 ? `95 % CI ${num(h.quadraticKappa.ci95[0])} to ${num(h.quadraticKappa.ci95[1])}` : h.quadraticKappa.reason}
+            detail={
+              h.quadraticKappa.ci95
+                ? `95 % CI ${num(h.quadraticKappa.ci95[0])} to ${num(h.quadraticKappa.ci95[1])}`
+                : h.quadraticKappa.reason
+            }
           />
         </dl>
         <details className="mt-2 text-sm text-muted">
           <summary className="cursor-pointer font-semibold">How this is computed</summary>
           <p className="mt-1">
-            The lean is the mean of (rating − median of the other panel members) in sport-class points; 0.5 is one class step. Kappa and AC1 compare the classifier’s class
-            with the panel’s final class (Cohen 1960; Gwet 2008), with Landis & Koch’s (1977) words beside them; the weighted kappa is Cohen’s quadratically weighted kappa
-            against the panel’s final class where recorded (decision record 0003). The change of level is tested on the deviations in chronological order: {detail.drift.method}.
+            The lean is the mean of (rating − median of the other panel members) in sport-class points; 0.5 is one class step. Kappa and AC1
+            compare the classifier’s class with the panel’s final class (Cohen 1960; Gwet 2008), with Landis & Koch’s (1977) words beside
+            them; the weighted kappa is Cohen’s quadratically weighted kappa against the panel’s final class where recorded (decision record
+            0003). The change of level is tested on the deviations in chronological order: {detail.drift.method}.
           </p>
         </details>
       </section>
@@ -122,7 +159,13 @@ export function ClassifierFigures({ detail, who, fileStem }: { detail: Classifie
 
       <div className="grid gap-6 xl:grid-cols-2">
         <BoundaryBars
-          bars={detail.boundaries.map((b) => ({ boundary: `${b.lower}/${b.upper}`, value: b.splitRate, lo: b.ci95?.[0] ?? null, hi: b.ci95?.[1] ?? null, n: b.touching }))}
+          bars={detail.boundaries.map((b) => ({
+            boundary: `${b.lower}/${b.upper}`,
+            value: b.splitRate,
+            lo: b.ci95?.[0] ?? null,
+            hi: b.ci95?.[1] ?? null,
+            n: b.touching,
+          }))}
           title={`Where ${who} and the panel fall on different sides of a boundary`}
           yLabel="Ratings split from the panel (%)"
           fileName={`${fileStem}-boundaries`}
@@ -175,8 +218,8 @@ export function ClassifierFigures({ detail, who, fileStem }: { detail: Classifie
         )}
       </section>
       <p className="text-sm text-muted">
-        Quadratic kappa with the panel: {withInterval(row.quadraticKappa)}. A flag is a prompt to look at the ratings, not a finding; decisions belong to the
-        federation’s rules and licensed classifiers.
+        Quadratic kappa with the panel: {withInterval(row.quadraticKappa)}. A flag is a prompt to look at the ratings, not a finding;
+        decisions belong to the federation’s rules and licensed classifiers.
       </p>
     </div>
   );

@@ -16,7 +16,8 @@ export function ClassifierPage() {
       title={`Classifier ${code}${query.data?.name ? ` · ${query.data.name}` : ''}`}
       intro={
         <>
-          Their classes against the panel’s, their bias over time, the class boundaries where they split from the panel most, and the change detector.{' '}
+          Their classes against the panel’s, their bias over time, the class boundaries where they split from the panel most, and the change
+          detector.{' '}
           <Link to={`..${search}`} relative="path" className="text-harbour underline">
             All classifiers
           </Link>
@@ -25,7 +26,9 @@ export function ClassifierPage() {
       federation={federation.slug}
       filters={filters}
     >
-      <QueryState query={query}>{(detail) => <ClassifierFigures detail={detail} who={code} fileStem={`${federation.slug}-${code}`} />}</QueryState>
+      <QueryState query={query}>
+        {(detail) => <ClassifierFigures detail={detail} who={code} fileStem={`${federation.slug}-${code}`} />}
+      </QueryState>
     </PageFrame>
   );
 }

@@ -84,7 +84,13 @@ export function ClassifiersPage() {
         </span>
       ),
     },
-    { key: 'trend', header: 'Bias by quarter', sortable: false, cell: (r) => <Sparkline points={r.source.trend} label={`Bias of ${r.code} by quarter`} />, csv: (r) => r.trend },
+    {
+      key: 'trend',
+      header: 'Bias by quarter',
+      sortable: false,
+      cell: (r) => <Sparkline points={r.source.trend} label={`Bias of ${r.code} by quarter`} />,
+      csv: (r) => r.trend,
+    },
     {
       key: 'flags',
       header: 'Flags',
@@ -113,40 +119,40 @@ export function ClassifiersPage() {
       <QueryState query={query}>
         {(data) => (
           <div className="space-y-6">
-          <DataTable
-            caption="Classifiers against the panel"
-            filterable
-            csvFileName={`${federation.slug}-classifiers.csv`}
-            rowKey={(r) => r.code}
-            initialSort={[{ id: 'kappa', desc: false }]}
-            columns={columns}
-            rows={data.classifiers.map((c) => ({
-              code: c.code,
-              name: c.name ?? '',
-              n: c.n,
-              exact: c.exactWithPanel.value,
-              within: c.withinHalfWithPanel.value,
-              stake: c.pointsAtStake.per100,
-              bias: c.bias.value,
-              biasCi: ci(c.bias.ci95),
-              severity: c.severity.value,
-              severityCi: ci(c.severity.ci95),
-              kappa: c.quadraticKappa.value,
-              kappaCi: ci(c.quadraticKappa.ci95),
-              trend: c.trend.map((p) => `${p.quarter}: ${p.value === null ? '' : formatNumber(p.value, 3)}`).join('; '),
-              flags: c.flags.map((f) => `${FLAG_RULE_LABELS[f.rule]} (${FLAG_STATUS_LABELS[f.status]})`).join('; '),
-              source: c,
-            }))}
-          />
-          <SeverityNote />
-          <section aria-labelledby="network-title" className="space-y-2">
-            <h2 id="network-title">Who can be compared with whom</h2>
-            <p className="text-sm text-muted">
-              Severities rest on classifiers who sat on the same panels. A classifier with few links is compared through few colleagues; one outside the main
-              network cannot be put on the common scale at all.
-            </p>
-            <PanelNetworkChart network={data.network} rows={data.classifiers} fileName={`${federation.slug}-panel-network`} />
-          </section>
+            <DataTable
+              caption="Classifiers against the panel"
+              filterable
+              csvFileName={`${federation.slug}-classifiers.csv`}
+              rowKey={(r) => r.code}
+              initialSort={[{ id: 'kappa', desc: false }]}
+              columns={columns}
+              rows={data.classifiers.map((c) => ({
+                code: c.code,
+                name: c.name ?? '',
+                n: c.n,
+                exact: c.exactWithPanel.value,
+                within: c.withinHalfWithPanel.value,
+                stake: c.pointsAtStake.per100,
+                bias: c.bias.value,
+                biasCi: ci(c.bias.ci95),
+                severity: c.severity.value,
+                severityCi: ci(c.severity.ci95),
+                kappa: c.quadraticKappa.value,
+                kappaCi: ci(c.quadraticKappa.ci95),
+                trend: c.trend.map((p) => `${p.quarter}: ${p.value === null ? '' : formatNumber(p.value, 3)}`).join('; '),
+                flags: c.flags.map((f) => `${FLAG_RULE_LABELS[f.rule]} (${FLAG_STATUS_LABELS[f.status]})`).join('; '),
+                source: c,
+              }))}
+            />
+            <SeverityNote />
+            <section aria-labelledby="network-title" className="space-y-2">
+              <h2 id="network-title">Who can be compared with whom</h2>
+              <p className="text-sm text-muted">
+                Severities rest on classifiers who sat on the same panels. A classifier with few links is compared through few colleagues;
+                one outside the main network cannot be put on the common scale at all.
+              </p>
+              <PanelNetworkChart network={data.network} rows={data.classifiers} fileName={`${federation.slug}-panel-network`} />
+            </section>
           </div>
         )}
       </QueryState>
@@ -158,9 +164,9 @@ export function ClassifiersPage() {
 function SeverityNote() {
   return (
     <p className="text-sm text-muted" data-testid="severity-explanation">
-      Severity is how much higher (+) or lower (−) a classifier rates than the federation’s average classifier would for the same athlete, fitted over all panels at
-      once so that whom they sat with is taken out (bias compares them with their own panels only; decision record 0009); like every figure here it describes
-      consistency between classifiers, not whether any class is correct.
+      Severity is how much higher (+) or lower (−) a classifier rates than the federation’s average classifier would for the same athlete,
+      fitted over all panels at once so that whom they sat with is taken out (bias compares them with their own panels only; decision record
+      0009); like every figure here it describes consistency between classifiers, not whether any class is correct.
     </p>
   );
 }

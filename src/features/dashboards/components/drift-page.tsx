@@ -41,7 +41,9 @@ function RaterDrift({ federation, filters }: { federation: string; filters: Anal
       <h2 id="rater-drift-title">Rater drift</h2>
       <QueryState query={query}>
         {(data) => {
-          const changed = data.classifiers.filter((c) => c.change?.met).sort((a, b) => (b.change!.changeDate < a.change!.changeDate ? -1 : 1));
+          const changed = data.classifiers
+            .filter((c) => c.change?.met)
+            .sort((a, b) => (b.change!.changeDate < a.change!.changeDate ? -1 : 1));
           const highlight = changed.slice(0, 4).map((c) => c.code);
           return (
             <>
@@ -70,7 +72,11 @@ function RaterDrift({ federation, filters }: { federation: string; filters: Anal
                     key: 'code',
                     header: 'Classifier',
                     cell: (r) => (
-                      <Link to={`../classifiers/${encodeURIComponent(r.code)}${filterSearch}`} relative="path" className="font-semibold text-harbour underline">
+                      <Link
+                        to={`../classifiers/${encodeURIComponent(r.code)}${filterSearch}`}
+                        relative="path"
+                        className="font-semibold text-harbour underline"
+                      >
                         {r.code}
                       </Link>
                     ),
@@ -87,7 +93,9 @@ function RaterDrift({ federation, filters }: { federation: string; filters: Anal
                   code: c.code,
                   name: c.name ?? '',
                   n: c.n,
-                  date: c.change ? `${c.change.changeDate}, ${c.change.direction === 'up' ? 'higher' : c.change.direction === 'down' ? 'lower' : 'level'}` : '',
+                  date: c.change
+                    ? `${c.change.changeDate}, ${c.change.direction === 'up' ? 'higher' : c.change.direction === 'down' ? 'lower' : 'level'}`
+                    : '',
                   size: c.change ? Math.abs(c.change.size) : null,
                   p: c.change?.pAdjusted ?? null,
                   met: c.change?.met ? 'met' : '',
@@ -123,12 +131,16 @@ function ClassDriftSection({ federation, filters }: { federation: string; filter
                 <div className="card py-4">
                   <dt className="text-sm text-muted">Reviews that changed the class</dt>
                   <dd className="stat-value">{pct(t.reviewsChanged.value, 1)}</dd>
-                  <dd className="text-sm text-muted">{withInterval(t.reviewsChanged, 3)} · n = {t.reviewsChanged.n}</dd>
+                  <dd className="text-sm text-muted">
+                    {withInterval(t.reviewsChanged, 3)} · n = {t.reviewsChanged.n}
+                  </dd>
                 </div>
                 <div className="card py-4">
                   <dt className="text-sm text-muted">Protests that changed the class</dt>
                   <dd className="stat-value">{pct(t.protestsChanged.value, 1)}</dd>
-                  <dd className="text-sm text-muted">{withInterval(t.protestsChanged, 3)} · n = {t.protestsChanged.n}</dd>
+                  <dd className="text-sm text-muted">
+                    {withInterval(t.protestsChanged, 3)} · n = {t.protestsChanged.n}
+                  </dd>
                 </div>
               </dl>
               <div className="grid gap-6 xl:grid-cols-2">
@@ -167,7 +179,10 @@ function ClassDriftSection({ federation, filters }: { federation: string; filter
                   classes={t.classes}
                   title="Outcome classes by season"
                   fileName={`${federation}-classes-by-season`}
-                  summary={data.distribution.map((d) => `${d.season}: ${integer.format(d.n)} assessments`).join('; ') || 'No season in these filters.'}
+                  summary={
+                    data.distribution.map((d) => `${d.season}: ${integer.format(d.n)} assessments`).join('; ') ||
+                    'No season in these filters.'
+                  }
                 />
               </div>
               {data.changes ? (

@@ -17,12 +17,22 @@ function quartersOfSeason(year: number): string[] {
  * the server refuses dates and events from them (docs/decisions/0007-research-export.md).
  * Changes go to the URL at once.
  */
-export function FilterBar({ federation, state, showMinShared = false }: { federation: string; state: AnalyticsFiltersState; showMinShared?: boolean }) {
+export function FilterBar({
+  federation,
+  state,
+  showMinShared = false,
+}: {
+  federation: string;
+  state: AnalyticsFiltersState;
+  showMinShared?: boolean;
+}) {
   const options = useFilterOptions(federation);
   const research = useFederation()?.role === 'researcher';
   const id = useId();
   const { filters, set, clear, problems } = state;
-  const quarters = (options.data?.seasons ?? []).filter((s) => !filters.season || String(s.year) === filters.season).flatMap((s) => quartersOfSeason(s.year));
+  const quarters = (options.data?.seasons ?? [])
+    .filter((s) => !filters.season || String(s.year) === filters.season)
+    .flatMap((s) => quartersOfSeason(s.year));
   const events = (options.data?.events ?? []).filter((e) => {
     if (!filters.season) return true;
     const season = options.data?.seasons.find((s) => String(s.year) === filters.season);
@@ -35,7 +45,12 @@ export function FilterBar({ federation, state, showMinShared = false }: { federa
       <form className="grid grid-cols-2 gap-3 sm:grid-cols-3 lg:grid-cols-8" onSubmit={(e) => e.preventDefault()}>
         <div className="field">
           <label htmlFor={`${id}-season`}>Season</label>
-          <select id={`${id}-season`} className="input" value={filters.season ?? ''} onChange={(e) => set({ season: e.target.value, event: undefined, quarter: undefined })}>
+          <select
+            id={`${id}-season`}
+            className="input"
+            value={filters.season ?? ''}
+            onChange={(e) => set({ season: e.target.value, event: undefined, quarter: undefined })}
+          >
             <option value="">All seasons</option>
             {options.data?.seasons.map((s) => (
               <option key={s.year} value={String(s.year)}>
@@ -59,7 +74,13 @@ export function FilterBar({ federation, state, showMinShared = false }: { federa
           <>
             <div className="field">
               <label htmlFor={`${id}-from`}>From</label>
-              <input id={`${id}-from`} className="input" type="date" value={filters.from ?? ''} onChange={(e) => set({ from: e.target.value })} />
+              <input
+                id={`${id}-from`}
+                className="input"
+                type="date"
+                value={filters.from ?? ''}
+                onChange={(e) => set({ from: e.target.value })}
+              />
             </div>
             <div className="field">
               <label htmlFor={`${id}-to`}>To</label>
@@ -68,21 +89,26 @@ export function FilterBar({ federation, state, showMinShared = false }: { federa
           </>
         )}
         {options.data && options.data.events.length > 0 ? (
-        <div className="field">
-          <label htmlFor={`${id}-event`}>Event</label>
-          <select id={`${id}-event`} className="input" value={filters.event ?? ''} onChange={(e) => set({ event: e.target.value })}>
-            <option value="">All events</option>
-            {events.map((e) => (
-              <option key={e.code} value={e.code}>
-                {e.name}
-              </option>
-            ))}
-          </select>
-        </div>
+          <div className="field">
+            <label htmlFor={`${id}-event`}>Event</label>
+            <select id={`${id}-event`} className="input" value={filters.event ?? ''} onChange={(e) => set({ event: e.target.value })}>
+              <option value="">All events</option>
+              {events.map((e) => (
+                <option key={e.code} value={e.code}>
+                  {e.name}
+                </option>
+              ))}
+            </select>
+          </div>
         ) : null}
         <div className="field">
           <label htmlFor={`${id}-category`}>Category</label>
-          <select id={`${id}-category`} className="input" value={filters.category ?? ''} onChange={(e) => set({ category: e.target.value })}>
+          <select
+            id={`${id}-category`}
+            className="input"
+            value={filters.category ?? ''}
+            onChange={(e) => set({ category: e.target.value })}
+          >
             <option value="">All categories</option>
             {options.data?.categories.map((c) => (
               <option key={c} value={c}>

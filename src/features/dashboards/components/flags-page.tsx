@@ -54,7 +54,9 @@ export function FlagsPage() {
             const rows = data.flags.filter((f) => show === 'all' || f.status !== 'closed');
             return (
               <>
-                <p className="text-sm text-muted">{data.evaluatedAt ? `Last evaluated ${formatDateTime(data.evaluatedAt)}.` : 'Not evaluated yet.'}</p>
+                <p className="text-sm text-muted">
+                  {data.evaluatedAt ? `Last evaluated ${formatDateTime(data.evaluatedAt)}.` : 'Not evaluated yet.'}
+                </p>
                 <DataTable
                   caption="Calibration flags"
                   filterable
@@ -67,7 +69,11 @@ export function FlagsPage() {
                       key: 'classifier',
                       header: 'Classifier',
                       cell: (r) => (
-                        <Link to={`../classifiers/${encodeURIComponent(r.flag.classifierCode)}`} relative="path" className="font-semibold text-harbour underline">
+                        <Link
+                          to={`../classifiers/${encodeURIComponent(r.flag.classifierCode)}`}
+                          relative="path"
+                          className="font-semibold text-harbour underline"
+                        >
                           {r.classifier}
                         </Link>
                       ),
@@ -76,7 +82,13 @@ export function FlagsPage() {
                     { key: 'evidence', header: 'Evidence', cell: (r) => <EvidenceCell flag={r.flag} /> },
                     { key: 'status', header: 'Status', cell: (r) => <StatusBadge flag={r.flag} /> },
                     { key: 'opened', header: 'Opened' },
-                    { key: 'actions', header: 'Actions', sortable: false, cell: (r) => <FlagActions federation={federation.slug} flag={r.flag} />, csv: (r) => r.flag.note ?? '' },
+                    {
+                      key: 'actions',
+                      header: 'Actions',
+                      sortable: false,
+                      cell: (r) => <FlagActions federation={federation.slug} flag={r.flag} />,
+                      csv: (r) => r.flag.note ?? '',
+                    },
                   ]}
                   rows={rows.map((f) => ({
                     id: f.id,
@@ -113,7 +125,8 @@ function EvidenceCell({ flag }: { flag: CalibrationFlag }) {
       <p>{e.summary}</p>
       <p className="text-xs text-muted">
         {e.ci95 ? `95 % CI ${formatNumber(e.ci95[0])} to ${formatNumber(e.ci95[1])} · ` : ''}
-        {formatCount(e.n, 'rating')}{e.total !== undefined && e.total !== e.n ? ` of ${formatInteger(e.total)}` : ''}
+        {formatCount(e.n, 'rating')}
+        {e.total !== undefined && e.total !== e.n ? ` of ${formatInteger(e.total)}` : ''}
         {e.from ? `, ${formatDate(e.from)} to ${formatDate(e.to)}` : ''}
         {e.changeDate ? ` · change around ${formatDate(e.changeDate)}, ${e.direction === 'up' ? 'up' : 'down'}` : ''}
       </p>
@@ -125,7 +138,9 @@ function StatusBadge({ flag }: { flag: CalibrationFlag }) {
   const tone = flag.status === 'open' ? 'bg-amber-soft' : flag.status === 'acknowledged' ? 'bg-harbour-soft' : 'bg-ok-soft';
   return (
     <div className="space-y-1">
-      <span className={`inline-block rounded-full px-2 py-0.5 text-xs font-semibold text-ink ${tone}`}>{FLAG_STATUS_LABELS[flag.status]}</span>
+      <span className={`inline-block rounded-full px-2 py-0.5 text-xs font-semibold text-ink ${tone}`}>
+        {FLAG_STATUS_LABELS[flag.status]}
+      </span>
       <FlagLapse flag={flag} />
       {flag.note ? <p className="text-xs text-muted">Note: {flag.note}</p> : null}
     </div>
@@ -143,11 +158,21 @@ function FlagActions({ federation, flag }: { federation: string; flag: Calibrati
     <div className="space-y-2">
       <div className="flex flex-wrap gap-2">
         {flag.status === 'open' ? (
-          <button type="button" className="btn btn-quiet min-h-9 px-3 py-1 text-sm" disabled={update.isPending} onClick={() => update.mutate({ id: flag.id, update: { status: 'acknowledged' } })}>
+          <button
+            type="button"
+            className="btn btn-quiet min-h-9 px-3 py-1 text-sm"
+            disabled={update.isPending}
+            onClick={() => update.mutate({ id: flag.id, update: { status: 'acknowledged' } })}
+          >
             Acknowledge
           </button>
         ) : null}
-        <button type="button" className="btn btn-quiet min-h-9 px-3 py-1 text-sm" aria-expanded={closing} onClick={() => setClosing((v) => !v)}>
+        <button
+          type="button"
+          className="btn btn-quiet min-h-9 px-3 py-1 text-sm"
+          aria-expanded={closing}
+          onClick={() => setClosing((v) => !v)}
+        >
           Close…
         </button>
       </div>
@@ -167,7 +192,14 @@ function FlagActions({ federation, flag }: { federation: string; flag: Calibrati
           <label htmlFor={`${id}-note`} className="block text-sm font-semibold">
             Note (what was done)
           </label>
-          <textarea id={`${id}-note`} className="input w-full" rows={2} value={note} onChange={(e) => setNote(e.target.value)} aria-invalid={problem ? 'true' : undefined} />
+          <textarea
+            id={`${id}-note`}
+            className="input w-full"
+            rows={2}
+            value={note}
+            onChange={(e) => setNote(e.target.value)}
+            aria-invalid={problem ? 'true' : undefined}
+          />
           {problem ? (
             <p role="alert" className="field-error">
               {problem}

@@ -11,8 +11,17 @@ import { useAnalyticsFilters } from '../../dashboards/components/use-analytics-f
 import { useOverview } from '../api/get-overview';
 import { SummaryCounts } from './summary-counts';
 
-const NOTE_WORDS = { reliable: 'reliable (α ≥ 0.800)', tentative: 'tentative conclusions only (0.667 ≤ α < 0.800)', unreliable: 'not to be relied on (α < 0.667)' } as const;
-const CI_WORDS: Record<string, string> = { 'bootstrap-percentile': 'bootstrap percentile', 'wald-null-se': 'Wald, null SE', wald: 'Wald', wilson: 'Wilson' };
+const NOTE_WORDS = {
+  reliable: 'reliable (α ≥ 0.800)',
+  tentative: 'tentative conclusions only (0.667 ≤ α < 0.800)',
+  unreliable: 'not to be relied on (α < 0.667)',
+} as const;
+const CI_WORDS: Record<string, string> = {
+  'bootstrap-percentile': 'bootstrap percentile',
+  'wald-null-se': 'Wald, null SE',
+  wald: 'Wald',
+  wilson: 'Wilson',
+};
 
 type Labelled = Overview['fleissKappa'] | Overview['gwet']['ac1'];
 
@@ -80,27 +89,44 @@ function Headline({ o }: { o: Overview }) {
           <dd className="stat-value" data-testid="off-by-half">
             {pct(stake.offByHalf.value, 1)}
           </dd>
-          <dd className="text-sm text-muted">{stake.offByHalf.ci95 ? `95 % CI ${pct(stake.offByHalf.ci95[0], 1)} to ${pct(stake.offByHalf.ci95[1], 1)}` : ''}</dd>
+          <dd className="text-sm text-muted">
+            {stake.offByHalf.ci95 ? `95 % CI ${pct(stake.offByHalf.ci95[0], 1)} to ${pct(stake.offByHalf.ci95[1], 1)}` : ''}
+          </dd>
         </div>
       </dl>
       <div className="card">
         <h3 className="text-base">Half-point splits by class boundary</h3>
-        <p className="text-sm text-muted">Share of assessments touching either class whose panel had ratings on both sides of the boundary.</p>
+        <p className="text-sm text-muted">
+          Share of assessments touching either class whose panel had ratings on both sides of the boundary.
+        </p>
         <ul className="mt-2 grid grid-cols-2 gap-x-6 gap-y-1 text-sm sm:grid-cols-4" data-testid="boundary-splits">
           {h.splits.map((b) => (
             <li key={b.lower}>
               <strong>
                 {b.lower}/{b.upper}
               </strong>{' '}
-              {pct(b.splitRate)} <span className="text-muted">({integer.format(b.splits)} of {integer.format(b.n)})</span>
+              {pct(b.splitRate)}{' '}
+              <span className="text-muted">
+                ({integer.format(b.splits)} of {integer.format(b.n)})
+              </span>
             </li>
           ))}
         </ul>
-        {splits.length ? <p className="mt-2 text-sm">Most often split: {splits.slice(0, 2).map((b) => `${b.lower}/${b.upper}`).join(' and ')}.</p> : null}
+        {splits.length ? (
+          <p className="mt-2 text-sm">
+            Most often split:{' '}
+            {splits
+              .slice(0, 2)
+              .map((b) => `${b.lower}/${b.upper}`)
+              .join(' and ')}
+            .
+          </p>
+        ) : null}
       </div>
       <p className="text-sm text-muted">
-        In this sport half a class changes who may play under a team’s point limit, so these figures come first. Points at stake is our own figure: the mean distance of a
-        rating from the panel’s final class in sport-class points, ×100. They describe consistency between classifiers, not whether any athlete’s class is right.
+        In this sport half a class changes who may play under a team’s point limit, so these figures come first. Points at stake is our own
+        figure: the mean distance of a rating from the panel’s final class in sport-class points, ×100. They describe consistency between
+        classifiers, not whether any athlete’s class is right.
       </p>
     </section>
   );
@@ -159,7 +185,12 @@ export function OverviewPage() {
             <section aria-labelledby="reliability-title" className="space-y-3">
               <h2 id="reliability-title">Beyond chance (unweighted)</h2>
               <div className="grid gap-3 md:grid-cols-2">
-                <ChanceCorrected heading={o.fleissKappa.name} stat={o.fleissKappa} testId="fleiss-value" note="Same-class agreement beyond what the class shares would give by chance." />
+                <ChanceCorrected
+                  heading={o.fleissKappa.name}
+                  stat={o.fleissKappa}
+                  testId="fleiss-value"
+                  note="Same-class agreement beyond what the class shares would give by chance."
+                />
                 <ChanceCorrected
                   heading="Gwet’s AC1"
                   stat={o.gwet.ac1}
@@ -170,12 +201,16 @@ export function OverviewPage() {
               <h2 id="weighted-title">With partial credit for near misses (weighted)</h2>
               <dl className="grid grid-cols-1 gap-3 md:grid-cols-3">
                 <div className="card py-4">
-                  <dt className="text-sm text-muted">Krippendorff’s alpha (ordinal) — counts a miss between neighbouring classes as small</dt>
+                  <dt className="text-sm text-muted">
+                    Krippendorff’s alpha (ordinal) — counts a miss between neighbouring classes as small
+                  </dt>
                   <dd className="stat-value" data-testid="alpha-value">
                     {num(o.alpha.value, 3)}
                   </dd>
                   <dd className="text-sm text-muted">
-                    {o.alpha.ci95 ? `95 % CI ${num(o.alpha.ci95[0], 3)} to ${num(o.alpha.ci95[1], 3)} (${CI_WORDS[o.alpha.ciMethod ?? ''] ?? o.alpha.ciMethod}). ` : ''}
+                    {o.alpha.ci95
+                      ? `95 % CI ${num(o.alpha.ci95[0], 3)} to ${num(o.alpha.ci95[1], 3)} (${CI_WORDS[o.alpha.ciMethod ?? ''] ?? o.alpha.ciMethod}). `
+                      : ''}
                     {o.alpha.note ? `Krippendorff (2004): ${NOTE_WORDS[o.alpha.note]}.` : ''}
                   </dd>
                 </div>
@@ -187,7 +222,9 @@ export function OverviewPage() {
                 <div className="card py-4">
                   <dt className="text-sm text-muted">Panels within half a class — counts a half-class miss as agreement</dt>
                   <dd className="stat-value">{pct(o.withinHalfClass.value)}</dd>
-                  <dd className="text-sm text-muted">{o.withinHalfClass.ci95 ? `95 % CI ${pct(o.withinHalfClass.ci95[0])} to ${pct(o.withinHalfClass.ci95[1])}` : ''}</dd>
+                  <dd className="text-sm text-muted">
+                    {o.withinHalfClass.ci95 ? `95 % CI ${pct(o.withinHalfClass.ci95[0])} to ${pct(o.withinHalfClass.ci95[1])}` : ''}
+                  </dd>
                 </div>
               </dl>
               <dl className="grid grid-cols-2 gap-3">
@@ -213,9 +250,10 @@ export function OverviewPage() {
               <details className="text-sm text-muted">
                 <summary className="cursor-pointer font-semibold">How this is computed</summary>
                 <p className="mt-1">
-                  Intervals: {o.bootstrap.B} bootstrap resamples of assessments (seed {o.bootstrap.seed}) where the method says bootstrap; otherwise the coefficient’s own
-                  large-sample interval. Readings are given only where the coefficient has its own published one: {o.sources.landisKoch} for kappa-type coefficients;{' '}
-                  {o.sources.krippendorff} for alpha. The authors call their bands benchmarks, not tests.
+                  Intervals: {o.bootstrap.B} bootstrap resamples of assessments (seed {o.bootstrap.seed}) where the method says bootstrap;
+                  otherwise the coefficient’s own large-sample interval. Readings are given only where the coefficient has its own published
+                  one: {o.sources.landisKoch} for kappa-type coefficients; {o.sources.krippendorff} for alpha. The authors call their bands
+                  benchmarks, not tests.
                 </p>
               </details>
             </section>
@@ -247,11 +285,16 @@ export function OverviewPage() {
                   <ul className="mt-3 divide-y divide-line">
                     {o.openFlags.map((f) => (
                       <li key={f.id} className="flex flex-wrap gap-x-3 py-2">
-                        <Link to={`classifiers/${encodeURIComponent(f.classifierCode)}${filterSearch}`} className="font-semibold text-harbour underline">
+                        <Link
+                          to={`classifiers/${encodeURIComponent(f.classifierCode)}${filterSearch}`}
+                          className="font-semibold text-harbour underline"
+                        >
                           {f.classifierCode} {f.classifierName}
                         </Link>
                         <span>{FLAG_RULE_LABELS[f.rule]}</span>
-                        <span className="text-muted">{f.stillMet ? FLAG_STATUS_LABELS[f.status] : `${FLAG_STATUS_LABELS[f.status]}, no longer met`}</span>
+                        <span className="text-muted">
+                          {f.stillMet ? FLAG_STATUS_LABELS[f.status] : `${FLAG_STATUS_LABELS[f.status]}, no longer met`}
+                        </span>
                         <span className="w-full">
                           <FlagLapse flag={f} />
                         </span>

@@ -83,7 +83,11 @@ export function PairsPage() {
                     padding: 0.05,
                     x: { label: 'Classifier (code)', domain: codes, tickRotate: -90 },
                     y: { label: 'Classifier (code)', domain: codes },
-                    color: { type: 'linear', domain: [Math.min(0.8, ...valued.map((p) => p.quadraticKappa!.value!)), 1], range: ['#f3d7b0', CHART_COLORS[0]] },
+                    color: {
+                      type: 'linear',
+                      domain: [Math.min(0.8, ...valued.map((p) => p.quadraticKappa!.value!)), 1],
+                      range: ['#f3d7b0', CHART_COLORS[0]],
+                    },
                     marks: [
                       Plot.cell(
                         cells.filter((c) => c.tooFew),
@@ -102,7 +106,10 @@ export function PairsPage() {
                         Plot.pointer({
                           x: 'a',
                           y: 'b',
-                          title: (c: Cell) => (c.tooFew ? `${c.a} and ${c.b}: too few shared assessments (${c.n})` : `${c.a} and ${c.b}: κw = ${num(c.value)} over ${c.n}`),
+                          title: (c: Cell) =>
+                            c.tooFew
+                              ? `${c.a} and ${c.b}: too few shared assessments (${c.n})`
+                              : `${c.a} and ${c.b}: κw = ${num(c.value)} over ${c.n}`,
                         }),
                       ),
                     ],
@@ -112,7 +119,9 @@ export function PairsPage() {
               >
                 <KappaLegend low={Math.min(0.8, ...valued.map((p) => p.quadraticKappa!.value!))} />
               </PlotFigure>
-              {selected && selected.length === 2 ? <PairPanel federation={federation.slug} filters={filters.filters} a={selected[0]} b={selected[1]} /> : null}
+              {selected && selected.length === 2 ? (
+                <PairPanel federation={federation.slug} filters={filters.filters} a={selected[0]} b={selected[1]} />
+              ) : null}
               <DataTable
                 caption="Pairs of classifiers"
                 filterable
@@ -123,8 +132,20 @@ export function PairsPage() {
                   { key: 'a', header: 'Classifier A' },
                   { key: 'b', header: 'Classifier B' },
                   { key: 'n', header: 'Shared assessments', align: 'right' },
-                  { key: 'kappa', header: 'Quadratic kappa', align: 'right', cell: (r) => (r.tooFew ? <span className="text-muted">too few</span> : num(r.kappa)), csv: (r) => (r.tooFew ? 'too few' : r.kappa) },
-                  { key: 'exact', header: 'Same class', align: 'right', cell: (r) => (r.tooFew ? '' : pct(r.exact)), csv: (r) => (r.tooFew ? '' : r.exact) },
+                  {
+                    key: 'kappa',
+                    header: 'Quadratic kappa',
+                    align: 'right',
+                    cell: (r) => (r.tooFew ? <span className="text-muted">too few</span> : num(r.kappa)),
+                    csv: (r) => (r.tooFew ? 'too few' : r.kappa),
+                  },
+                  {
+                    key: 'exact',
+                    header: 'Same class',
+                    align: 'right',
+                    cell: (r) => (r.tooFew ? '' : pct(r.exact)),
+                    csv: (r) => (r.tooFew ? '' : r.exact),
+                  },
                   {
                     key: 'open',
                     header: 'Details',
@@ -137,7 +158,15 @@ export function PairsPage() {
                     csv: () => '',
                   },
                 ]}
-                rows={data.pairs.map((p) => ({ a: p.a, b: p.b, n: p.n, tooFew: p.tooFew, kappa: p.quadraticKappa?.value ?? undefined, exact: p.exact?.value ?? undefined, open: '' }))}
+                rows={data.pairs.map((p) => ({
+                  a: p.a,
+                  b: p.b,
+                  n: p.n,
+                  tooFew: p.tooFew,
+                  kappa: p.quadraticKappa?.value ?? undefined,
+                  exact: p.exact?.value ?? undefined,
+                  open: '',
+                }))}
               />
             </div>
           );
@@ -180,8 +209,8 @@ function PairPanel({ federation, filters, a, b }: { federation: string; filters:
                   <div>
                     <dt className="inline font-semibold">Points apart per 100 shared assessments: </dt>
                     <dd className="inline">
-                      {num(p.stats.pointsApart.per100, 0)} (mean {num(p.stats.pointsApart.meanAbs.value)} point; {pct(p.stats.pointsApart.offByHalf.value)} half a class or more
-                      apart)
+                      {num(p.stats.pointsApart.per100, 0)} (mean {num(p.stats.pointsApart.meanAbs.value)} point;{' '}
+                      {pct(p.stats.pointsApart.offByHalf.value)} half a class or more apart)
                     </dd>
                   </div>
                   <div>
@@ -231,11 +260,16 @@ function KappaLegend({ low }: { low: number }) {
       <span>Quadratic kappa</span>
       <span className="flex items-center gap-1">
         {num(low)}
-        <span aria-hidden="true" className="inline-block h-3 w-28 rounded-sm" style={{ background: `linear-gradient(to right, #f3d7b0, ${CHART_COLORS[0]})` }} />
+        <span
+          aria-hidden="true"
+          className="inline-block h-3 w-28 rounded-sm"
+          style={{ background: `linear-gradient(to right, #f3d7b0, ${CHART_COLORS[0]})` }}
+        />
         1.00
       </span>
       <span className="flex items-center gap-1">
-        <span aria-hidden="true" className="inline-block h-3 w-3 rounded-sm border border-line" style={{ background: '#ebe8e1' }} />– too few shared assessments
+        <span aria-hidden="true" className="inline-block h-3 w-3 rounded-sm border border-line" style={{ background: '#ebe8e1' }} />– too
+        few shared assessments
       </span>
     </div>
   );

@@ -1,10 +1,7 @@
-import * as Plot from "@observablehq/plot";
-import type {
-  ClassifierRow,
-  PanelNetworkData,
-} from "../../../../shared/schemas/analytics";
-import { CHART_COLORS, INK, PlotFigure } from "../../../components/plot-figure";
-import { integer } from "../../../lib/stat-format";
+import * as Plot from '@observablehq/plot';
+import type { ClassifierRow, PanelNetworkData } from '../../../../shared/schemas/analytics';
+import { CHART_COLORS, INK, PlotFigure } from '../../../components/plot-figure';
+import { integer } from '../../../lib/stat-format';
 
 export interface NetworkCell {
   a: string;
@@ -28,15 +25,11 @@ export interface NetworkMatrix {
  * The panel network as an adjacency matrix: one cell per pair of classifiers who shared an
  * assessment (both halves of the symmetric matrix), ordered by component. Pure: data in, data out.
  */
-export function panelNetworkMatrix(
-  network: PanelNetworkData,
-  rows: Pick<ClassifierRow, "code" | "severity">[],
-): NetworkMatrix {
+export function panelNetworkMatrix(network: PanelNetworkData, rows: Pick<ClassifierRow, 'code' | 'severity'>[]): NetworkMatrix {
   const mainSet = new Set(network.components[0]?.classifiers ?? []);
   const seen = new Set(rows.map((r) => r.code));
   const ordered = network.components.flatMap((c) => c.classifiers);
-  for (const code of [...seen].sort())
-    if (!ordered.includes(code)) ordered.push(code);
+  for (const code of [...seen].sort()) if (!ordered.includes(code)) ordered.push(code);
   const cells: NetworkCell[] = network.edges.flatMap((e) => {
     const main = mainSet.has(e.a) && mainSet.has(e.b);
     return [
@@ -64,23 +57,19 @@ export function PanelNetworkChart({
   fileName,
 }: {
   network: PanelNetworkData;
-  rows: Pick<ClassifierRow, "code" | "severity">[];
+  rows: Pick<ClassifierRow, 'code' | 'severity'>[];
   fileName: string;
 }) {
   const m = panelNetworkMatrix(network, rows);
   const max = Math.max(1, ...m.cells.map((c) => c.shared));
   const summary = [
     `${m.codes.length - m.outside.length} classifiers are linked through shared assessments and have a severity on the common scale.`,
-    m.outside.length
-      ? `Not linked to them, so without a severity: ${m.outside.join(", ")}.`
-      : "Every classifier is linked to the others.",
-    m.fewestLinks.length
-      ? `Fewest links (hardest to compare): ${m.fewestLinks.map((f) => `${f.code} with ${f.links}`).join(", ")}.`
-      : "",
-    "Darker cells: more shared assessments; an empty cell: the two never sat together.",
+    m.outside.length ? `Not linked to them, so without a severity: ${m.outside.join(', ')}.` : 'Every classifier is linked to the others.',
+    m.fewestLinks.length ? `Fewest links (hardest to compare): ${m.fewestLinks.map((f) => `${f.code} with ${f.links}`).join(', ')}.` : '',
+    'Darker cells: more shared assessments; an empty cell: the two never sat together.',
   ]
     .filter(Boolean)
-    .join(" ");
+    .join(' ');
   return (
     <PlotFigure
       title="Panel network: assessments shared by each pair of classifiers"
@@ -95,30 +84,30 @@ export function PanelNetworkChart({
           marginLeft: 52,
           marginBottom: 52,
           padding: 0.05,
-          x: { label: "Classifier (code)", domain: m.codes, tickRotate: -90 },
-          y: { label: "Classifier (code)", domain: m.codes },
+          x: { label: 'Classifier (code)', domain: m.codes, tickRotate: -90 },
+          y: { label: 'Classifier (code)', domain: m.codes },
           color: {
-            type: "sqrt",
+            type: 'sqrt',
             domain: [0, max],
-            range: ["#f3d7b0", CHART_COLORS[0]],
+            range: ['#f3d7b0', CHART_COLORS[0]],
           },
           marks: [
-            Plot.frame({ stroke: "#dcd8cf" }),
+            Plot.frame({ stroke: '#dcd8cf' }),
             Plot.cell(
               m.cells.filter((c) => c.main),
-              { x: "a", y: "b", fill: "shared", inset: 0.5 },
+              { x: 'a', y: 'b', fill: 'shared', inset: 0.5 },
             ),
             Plot.cell(
               m.cells.filter((c) => !c.main),
-              { x: "a", y: "b", fill: "#a63d2f", inset: 0.5 },
+              { x: 'a', y: 'b', fill: '#a63d2f', inset: 0.5 },
             ),
             Plot.tip(
               m.cells,
               Plot.pointer({
-                x: "a",
-                y: "b",
+                x: 'a',
+                y: 'b',
                 title: (c: NetworkCell) =>
-                  `${c.a} and ${c.b}: ${integer.format(c.shared)} shared assessment${c.shared === 1 ? "" : "s"}${c.main ? "" : " (outside the main network)"}`,
+                  `${c.a} and ${c.b}: ${integer.format(c.shared)} shared assessment${c.shared === 1 ? '' : 's'}${c.main ? '' : ' (outside the main network)'}`,
               }),
             ),
           ],
@@ -127,8 +116,8 @@ export function PanelNetworkChart({
       }}
     >
       <p className="text-sm text-muted">
-        Colour: shared assessments (0 to {integer.format(max)}, square-root
-        scale){m.outside.length ? "; red: pairs outside the main network" : ""}.
+        Colour: shared assessments (0 to {integer.format(max)}, square-root scale)
+        {m.outside.length ? '; red: pairs outside the main network' : ''}.
       </p>
     </PlotFigure>
   );

@@ -16,7 +16,12 @@ export function Sparkline({ points, label, range = 0.6 }: { points: QuarterStat[
   const first = values[0];
   const last = values[values.length - 1];
   return (
-    <svg width={w} height={h} role="img" aria-label={`${label}: ${num(first.value)} in ${first.quarter}, ${num(last.value)} in ${last.quarter}`}>
+    <svg
+      width={w}
+      height={h}
+      role="img"
+      aria-label={`${label}: ${num(first.value)} in ${first.quarter}, ${num(last.value)} in ${last.quarter}`}
+    >
       <line x1={0} x2={w} y1={h / 2} y2={h / 2} stroke="#dcd8cf" />
       <path d={d} fill="none" stroke="#2f6690" strokeWidth={1.5} />
       <circle cx={x(values.length - 1)} cy={y(last.value)} r={2.5} fill="#d9822b" />

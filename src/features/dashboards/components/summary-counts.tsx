@@ -2,11 +2,15 @@ import { QueryState } from '../../../components/query-state';
 import { formatDate, formatInteger } from '../../../lib/format';
 import { useSummary } from '../api/get-summary';
 
-
 /** The federation's counts: what the figures on the page rest on. */
 export function SummaryCounts({ federation }: { federation: string }) {
   const summary = useSummary(federation);
-  if (summary.isPending || summary.isError) return <QueryState query={summary} what="The federation’s counts">{() => null}</QueryState>;
+  if (summary.isPending || summary.isError)
+    return (
+      <QueryState query={summary} what="The federation’s counts">
+        {() => null}
+      </QueryState>
+    );
   const { counts, firstAssessment, lastAssessment } = summary.data;
   const items: [string, number][] = [
     ['Assessments', counts.assessments],

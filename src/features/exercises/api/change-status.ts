@@ -6,7 +6,8 @@ import { api } from '../../../lib/api-client';
 export function useChangeExerciseStatus(federation: string, id: number) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (action: 'open' | 'close') => api<ExerciseDetail>(`/federations/${encodeURIComponent(federation)}/exercises/${id}/${action}`, { method: 'POST' }),
+    mutationFn: (action: 'open' | 'close') =>
+      api<ExerciseDetail>(`/federations/${encodeURIComponent(federation)}/exercises/${id}/${action}`, { method: 'POST' }),
     onSuccess: (detail) => {
       queryClient.setQueryData(['federations', federation, 'exercises', 'detail', id], detail);
       return queryClient.invalidateQueries({ queryKey: ['federations', federation, 'exercises', 'list'] });

@@ -7,7 +7,10 @@ export function useCloseFlagWithExercise(federation: string, exerciseId: number)
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: ({ flagId, note }: { flagId: number; note: string }) =>
-      api<CalibrationFlag>(`/federations/${encodeURIComponent(federation)}/exercises/${exerciseId}/flags/${flagId}/close`, { method: 'POST', body: { note } }),
+      api<CalibrationFlag>(`/federations/${encodeURIComponent(federation)}/exercises/${exerciseId}/flags/${flagId}/close`, {
+        method: 'POST',
+        body: { note },
+      }),
     onSuccess: async () => {
       await queryClient.invalidateQueries({ queryKey: ['federations', federation, 'exercises'] });
       await queryClient.invalidateQueries({ queryKey: ['federations', federation, 'analytics'] });

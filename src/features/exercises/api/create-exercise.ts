@@ -6,7 +6,8 @@ import { api } from '../../../lib/api-client';
 export function useCreateExercise(federation: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (input: ExerciseInput) => api<ExerciseDetail>(`/federations/${encodeURIComponent(federation)}/exercises`, { method: 'POST', body: input }),
+    mutationFn: (input: ExerciseInput) =>
+      api<ExerciseDetail>(`/federations/${encodeURIComponent(federation)}/exercises`, { method: 'POST', body: input }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: ['federations', federation, 'exercises'] }),
   });
 }

@@ -13,7 +13,10 @@ export function useSaveAnswer(federation: string, exerciseId: number) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: ({ caseId, answer }: { caseId: number; answer: AnswerInput }) =>
-      api<AnswerSaved>(`/federations/${encodeURIComponent(federation)}/exercises/${exerciseId}/answers/${caseId}`, { method: 'PUT', body: answer }),
+      api<AnswerSaved>(`/federations/${encodeURIComponent(federation)}/exercises/${exerciseId}/answers/${caseId}`, {
+        method: 'PUT',
+        body: answer,
+      }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: ['federations', federation, 'exercises'] }),
   });
 }

@@ -26,18 +26,35 @@ export function BeforeAfterChart({ item }: { item: BeforeAfter }) {
       build={(width) => ({
         marginBottom: width < 640 ? 78 : 40,
         marginLeft: 56,
-        x: { label: 'Quarter (calendar)', type: 'point', tickRotate: width < 640 ? -45 : 0, padding: 0.3, domain: data.map((d) => d.quarter) },
+        x: {
+          label: 'Quarter (calendar)',
+          type: 'point',
+          tickRotate: width < 640 ? -45 : 0,
+          padding: 0.3,
+          domain: data.map((d) => d.quarter),
+        },
         y: { label: 'Exact agreement with the panel (%)', domain: [0, 100], grid: true },
         color: { domain: PHASES.map((p) => PHASE_LABELS[p]), range: PHASE_COLORS },
         marks: [
           Plot.ruleY([0], { stroke: MUTED }),
           Plot.lineY(data, { x: 'quarter', y: 'value', stroke: MUTED, strokeOpacity: 0.5 }),
-          Plot.dot(data, { x: 'quarter', y: 'value', fill: 'label', r: 4, tip: true, title: (d: (typeof data)[number]) => `${d.quarter} (${d.label.toLowerCase()}): ${d.value.toFixed(0)} % of ${d.n} ratings` }),
+          Plot.dot(data, {
+            x: 'quarter',
+            y: 'value',
+            fill: 'label',
+            r: 4,
+            tip: true,
+            title: (d: (typeof data)[number]) => `${d.quarter} (${d.label.toLowerCase()}): ${d.value.toFixed(0)} % of ${d.n} ratings`,
+          }),
         ],
       })}
     >
       <Legend items={PHASES.map((p, i) => ({ label: PHASE_LABELS[p], color: PHASE_COLORS[i] }))} />
-      {after === null ? <p className="text-sm text-muted">No live-panel rating since the exercise closed yet: the after window fills as new assessments are imported.</p> : null}
+      {after === null ? (
+        <p className="text-sm text-muted">
+          No live-panel rating since the exercise closed yet: the after window fills as new assessments are imported.
+        </p>
+      ) : null}
     </PlotFigure>
   );
 }

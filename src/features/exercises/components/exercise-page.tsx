@@ -1,6 +1,13 @@
 import { useId, useState } from 'react';
 import { Link, useParams } from 'react-router';
-import { SKILL_LABELS, SKILLS, type AnswerView, type ExerciseCaseView, type ExerciseDetail, type Skill } from '../../../../shared/schemas/exercises';
+import {
+  SKILL_LABELS,
+  SKILLS,
+  type AnswerView,
+  type ExerciseCaseView,
+  type ExerciseDetail,
+  type Skill,
+} from '../../../../shared/schemas/exercises';
 import { formatClass, scaleClasses } from '../../../../shared/scale';
 import { useCurrentFederation } from '../../../lib/use-federation';
 import { Caution } from '../../../components/caution';
@@ -34,10 +41,16 @@ export function ExercisePage() {
         </div>
         <p className="text-muted">
           {e.cases} case{e.cases === 1 ? '' : 's'} · opens {e.opensOn} · closes at the end of {e.closesOn} (UTC)
-          {e.source ? ` · started from ${e.source.kind === 'flag' ? `flag #${e.source.ref}` : `the ${formatClass(Number(e.source.ref))}/${formatClass(Number(e.source.ref) + 1)} boundary`}` : ''}
+          {e.source
+            ? ` · started from ${e.source.kind === 'flag' ? `flag #${e.source.ref}` : `the ${formatClass(Number(e.source.ref))}/${formatClass(Number(e.source.ref) + 1)} boundary`}`
+            : ''}
         </p>
       </div>
-      {role === 'lead' ? <LeadView federation={federation.slug} exercise={e} /> : <ClassifierView federation={federation.slug} exercise={e} />}
+      {role === 'lead' ? (
+        <LeadView federation={federation.slug} exercise={e} />
+      ) : (
+        <ClassifierView federation={federation.slug} exercise={e} />
+      )}
     </div>
   );
 }
@@ -66,8 +79,15 @@ function LeadView({ federation, exercise: e }: { federation: string; exercise: E
         </div>
         {confirming && e.status === 'open' ? (
           <div role="group" aria-label="Confirm closing" className="flex flex-wrap items-center gap-3 rounded-lg bg-amber-soft p-3">
-            <p className="mr-auto text-sm">Closing freezes every answer, shows the reference classes to the classifiers and sends them the results notice.</p>
-            <button type="button" className="btn btn-primary" disabled={change.isPending} onClick={() => change.mutate('close', { onSettled: () => setConfirming(false) })}>
+            <p className="mr-auto text-sm">
+              Closing freezes every answer, shows the reference classes to the classifiers and sends them the results notice.
+            </p>
+            <button
+              type="button"
+              className="btn btn-primary"
+              disabled={change.isPending}
+              onClick={() => change.mutate('close', { onSettled: () => setConfirming(false) })}
+            >
               Close and score
             </button>
             <button type="button" className="btn btn-quiet" onClick={() => setConfirming(false)}>
@@ -91,7 +111,11 @@ function LeadView({ federation, exercise: e }: { federation: string; exercise: E
             answered: `${a.answered} of ${e.cases}`,
             finished: a.finishedAt ? a.finishedAt.slice(0, 10) : 'not yet',
             flag: a.hadOpenFlag ? 'yes' : '—',
-            mail: !a.hasAccount ? 'no account: cannot answer online' : [a.invitedAt ? `invited ${a.invitedAt.slice(0, 10)}` : null, a.remindedAt ? `reminded ${a.remindedAt.slice(0, 10)}` : null].filter(Boolean).join(', ') || '—',
+            mail: !a.hasAccount
+              ? 'no account: cannot answer online'
+              : [a.invitedAt ? `invited ${a.invitedAt.slice(0, 10)}` : null, a.remindedAt ? `reminded ${a.remindedAt.slice(0, 10)}` : null]
+                  .filter(Boolean)
+                  .join(', ') || '—',
           }))}
         />
       </section>
@@ -154,13 +178,23 @@ function ClassifierView({ federation, exercise: e }: { federation: string; exerc
   return (
     <>
       <p role="status" className="card" data-testid="my-progress">
-        {answered === e.cases ? `All ${e.cases} cases answered. You can still change an answer until the close.` : `${answered} of ${e.cases} cases answered. Each answer is saved when you press Save.`}
+        {answered === e.cases
+          ? `All ${e.cases} cases answered. You can still change an answer until the close.`
+          : `${answered} of ${e.cases} cases answered. Each answer is saved when you press Save.`}
       </p>
-      <p className="text-sm text-muted">Blind practice: no one sees the reference classes before the close, and no other classifier sees your answers.</p>
+      <p className="text-sm text-muted">
+        Blind practice: no one sees the reference classes before the close, and no other classifier sees your answers.
+      </p>
       <ol className="space-y-4">
         {e.caseList.map((c) => (
           <li key={c.id}>
-            <AnswerForm federation={federation} exerciseId={e.id} theCase={c} saved={e.myAnswers?.find((a) => a.caseId === c.id) ?? null} scale={e.scale} />
+            <AnswerForm
+              federation={federation}
+              exerciseId={e.id}
+              theCase={c}
+              saved={e.myAnswers?.find((a) => a.caseId === c.id) ?? null}
+              scale={e.scale}
+            />
           </li>
         ))}
       </ol>
@@ -169,7 +203,19 @@ function ClassifierView({ federation, exercise: e }: { federation: string; exerc
   );
 }
 
-function AnswerForm({ federation, exerciseId, theCase: c, saved, scale }: { federation: string; exerciseId: number; theCase: ExerciseCaseView; saved: AnswerView | null; scale: { min: number; max: number } }) {
+function AnswerForm({
+  federation,
+  exerciseId,
+  theCase: c,
+  saved,
+  scale,
+}: {
+  federation: string;
+  exerciseId: number;
+  theCase: ExerciseCaseView;
+  saved: AnswerView | null;
+  scale: { min: number; max: number };
+}) {
   const save = useSaveAnswer(federation, exerciseId);
   const [sportClass, setSportClass] = useState<number | ''>(saved?.sportClass ?? '');
   const [skills, setSkills] = useState<Skill[]>(saved?.skills ?? []);
@@ -194,7 +240,13 @@ function AnswerForm({ federation, exerciseId, theCase: c, saved, scale }: { fede
       <CaseBody c={c} />
       <div className="field max-w-xs">
         <label htmlFor={`${id}-class`}>Your class for case {c.position}</label>
-        <select id={`${id}-class`} className="input" value={sportClass} onChange={(ev) => setSportClass(ev.target.value === '' ? '' : Number(ev.target.value))} aria-invalid={problem ? 'true' : undefined}>
+        <select
+          id={`${id}-class`}
+          className="input"
+          value={sportClass}
+          onChange={(ev) => setSportClass(ev.target.value === '' ? '' : Number(ev.target.value))}
+          aria-invalid={problem ? 'true' : undefined}
+        >
           <option value="">Choose…</option>
           {scaleClasses(scale).map((h) => (
             <option key={h} value={h}>
@@ -213,7 +265,13 @@ function AnswerForm({ federation, exerciseId, theCase: c, saved, scale }: { fede
         <div className="grid grid-cols-2 gap-1 lg:grid-cols-4">
           {SKILLS.map((s) => (
             <label key={s} className="flex min-h-9 items-center gap-2 text-sm">
-              <input type="checkbox" checked={skills.includes(s)} onChange={(ev) => setSkills((all) => (ev.target.checked ? SKILLS.filter((x) => x === s || all.includes(x)) : all.filter((x) => x !== s)))} />
+              <input
+                type="checkbox"
+                checked={skills.includes(s)}
+                onChange={(ev) =>
+                  setSkills((all) => (ev.target.checked ? SKILLS.filter((x) => x === s || all.includes(x)) : all.filter((x) => x !== s)))
+                }
+              />
               {SKILL_LABELS[s]}
             </label>
           ))}

@@ -1,5 +1,11 @@
 import { useId, useState } from 'react';
-import { SKILL_LABELS, type ExerciseDetail, type ExerciseResults, type PanelWindow, type Skill } from '../../../../shared/schemas/exercises';
+import {
+  SKILL_LABELS,
+  type ExerciseDetail,
+  type ExerciseResults,
+  type PanelWindow,
+  type Skill,
+} from '../../../../shared/schemas/exercises';
 import { formatClass } from '../../../../shared/scale';
 import { Caution } from '../../../components/caution';
 import { DataTable } from '../../../components/data-table';
@@ -9,17 +15,29 @@ import { num, pct, signed, withInterval } from '../../../lib/stat-format';
 import { useCloseFlagWithExercise } from '../api/close-flag';
 import { BeforeAfterChart } from './before-after-chart';
 
-const skillList = (side: { skills: { skill: Skill; n: number }[] } | null) => (side && side.skills.length ? side.skills.map((s) => `${SKILL_LABELS[s.skill]} ${s.n}`).join(', ') : '—');
+const skillList = (side: { skills: { skill: Skill; n: number }[] } | null) =>
+  side && side.skills.length ? side.skills.map((s) => `${SKILL_LABELS[s.skill]} ${s.n}`).join(', ') : '—';
 
 /** The scores of a closed exercise: per classifier, per case, and (leads) the live-panel figures before and after. */
-export function ExerciseResultsSection({ federation, exercise, results, lead }: { federation: string; exercise: ExerciseDetail; results: ExerciseResults; lead: boolean }) {
+export function ExerciseResultsSection({
+  federation,
+  exercise,
+  results,
+  lead,
+}: {
+  federation: string;
+  exercise: ExerciseDetail;
+  results: ExerciseResults;
+  lead: boolean;
+}) {
   return (
     <section className="space-y-6" aria-labelledby="results-title">
       <h2 id="results-title">Results</h2>
       <Caution />
       <p className="max-w-3xl text-sm text-muted">
-        Scores compare each answer with the reference class the senior panel agreed for these cases. With few cases the intervals are wide: read them as a
-        prompt for discussion, not a measurement of anyone’s skill. Bias and points are in sport-class points (one class step = 0.5 point).
+        Scores compare each answer with the reference class the senior panel agreed for these cases. With few cases the intervals are wide:
+        read them as a prompt for discussion, not a measurement of anyone’s skill. Bias and points are in sport-class points (one class step
+        = 0.5 point).
       </p>
       <DataTable
         caption={lead ? 'Scores per classifier' : 'Your scores'}
@@ -84,15 +102,19 @@ function windowText(w: PanelWindow): string {
 
 function BeforeAfterSection({ results }: { results: ExerciseResults }) {
   if (results.beforeAfter.length === 0) {
-    return <p className="text-sm text-muted">No classifier assigned had an open calibration flag when the exercise opened, so there is no before/after comparison.</p>;
+    return (
+      <p className="text-sm text-muted">
+        No classifier assigned had an open calibration flag when the exercise opened, so there is no before/after comparison.
+      </p>
+    );
   }
   return (
     <div className="space-y-4">
       <h3>Live panels before and after, for classifiers who had an open flag</h3>
       <p className="max-w-3xl text-sm text-muted">
-        Agreement with the rest of the panel in real assessments: the last {results.window} panel ratings before the exercise opened against the first{' '}
-        {results.window} after it closed. Panels, athletes and events differ between the two windows, so a change describes what happened; it does not show
-        that the practice caused it.
+        Agreement with the rest of the panel in real assessments: the last {results.window} panel ratings before the exercise opened against
+        the first {results.window} after it closed. Panels, athletes and events differ between the two windows, so a change describes what
+        happened; it does not show that the practice caused it.
       </p>
       {results.beforeAfter.map((b) => (
         <div key={b.classifierCode} className="space-y-3">
@@ -106,10 +128,26 @@ function BeforeAfterSection({ results }: { results: ExerciseResults }) {
             ]}
             rows={[
               { figure: 'Ratings', before: windowText(b.before), after: windowText(b.after) },
-              { figure: 'Exact with the panel', before: withInterval(b.before.exactWithPanel), after: withInterval(b.after.exactWithPanel) },
-              { figure: 'Within half a point', before: withInterval(b.before.withinHalfWithPanel), after: withInterval(b.after.withinHalfWithPanel) },
-              { figure: 'Quadratic kappa with the panel', before: withInterval(b.before.quadraticKappaWithPanel), after: withInterval(b.after.quadraticKappaWithPanel) },
-              { figure: 'Mean deviation (points)', before: withInterval(b.before.meanDeviation), after: withInterval(b.after.meanDeviation) },
+              {
+                figure: 'Exact with the panel',
+                before: withInterval(b.before.exactWithPanel),
+                after: withInterval(b.after.exactWithPanel),
+              },
+              {
+                figure: 'Within half a point',
+                before: withInterval(b.before.withinHalfWithPanel),
+                after: withInterval(b.after.withinHalfWithPanel),
+              },
+              {
+                figure: 'Quadratic kappa with the panel',
+                before: withInterval(b.before.quadraticKappaWithPanel),
+                after: withInterval(b.after.quadraticKappaWithPanel),
+              },
+              {
+                figure: 'Mean deviation (points)',
+                before: withInterval(b.before.meanDeviation),
+                after: withInterval(b.after.meanDeviation),
+              },
             ]}
           />
           <BeforeAfterChart item={b} />
@@ -153,7 +191,12 @@ function FlagLinks({ federation, exercise }: { federation: string; exercise: Exe
           <div className="grid gap-3 sm:grid-cols-2">
             <div className="field">
               <label htmlFor={`${id}-flag`}>Flag to close</label>
-              <select id={`${id}-flag`} className="input" value={flagId} onChange={(e) => setFlagId(e.target.value === '' ? '' : Number(e.target.value))}>
+              <select
+                id={`${id}-flag`}
+                className="input"
+                value={flagId}
+                onChange={(e) => setFlagId(e.target.value === '' ? '' : Number(e.target.value))}
+              >
                 <option value="">Choose…</option>
                 {candidates.map((f) => (
                   <option key={f.id} value={f.id}>

@@ -27,7 +27,13 @@ export function ExercisesPage() {
           </Link>
         ) : null}
       </div>
-      {exercises.isPending ? <Loading /> : exercises.isError ? <ErrorNotice error={exercises.error} /> : <ExerciseTable rows={exercises.data.exercises} lead={lead} federation={federation.slug} />}
+      {exercises.isPending ? (
+        <Loading />
+      ) : exercises.isError ? (
+        <ErrorNotice error={exercises.error} />
+      ) : (
+        <ExerciseTable rows={exercises.data.exercises} lead={lead} federation={federation.slug} />
+      )}
     </div>
   );
 }
@@ -69,5 +75,7 @@ function ExerciseTable({ rows, lead, federation }: { rows: ExerciseSummary[]; le
 
 export function StatusBadge({ status }: { status: ExerciseSummary['status'] }) {
   const tone = status === 'open' ? 'bg-amber-soft' : status === 'draft' ? 'bg-harbour-soft' : 'bg-ok-soft';
-  return <span className={`inline-block rounded-full px-2 py-0.5 text-xs font-semibold text-ink ${tone}`}>{EXERCISE_STATUS_LABELS[status]}</span>;
+  return (
+    <span className={`inline-block rounded-full px-2 py-0.5 text-xs font-semibold text-ink ${tone}`}>{EXERCISE_STATUS_LABELS[status]}</span>
+  );
 }

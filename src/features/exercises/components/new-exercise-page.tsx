@@ -35,7 +35,11 @@ export function NewExercisePage() {
   const { federation } = useCurrentFederation();
   const navigate = useNavigate();
   const [params] = useSearchParams();
-  const initialSource: ProposalSource | null = params.get('flag') ? { flag: Number(params.get('flag')) } : params.get('boundary') ? { boundary: Number(params.get('boundary')) } : null;
+  const initialSource: ProposalSource | null = params.get('flag')
+    ? { flag: Number(params.get('flag')) }
+    : params.get('boundary')
+      ? { boundary: Number(params.get('boundary')) }
+      : null;
   const [source, setSource] = useState<ProposalSource | null>(initialSource);
   const proposal = useProposal(federation.slug, source);
   const flags = useFlags(federation.slug);
@@ -56,7 +60,16 @@ export function NewExercisePage() {
     if (!p) return;
     setTitle(p.title);
     setCodes(p.classifierCodes);
-    setCases(p.cases.length ? p.cases.map((c) => ({ description: c.description, videoUrl: c.videoUrl ?? '', skills: c.skills, referenceClass: c.referenceClass })) : [emptyCase()]);
+    setCases(
+      p.cases.length
+        ? p.cases.map((c) => ({
+            description: c.description,
+            videoUrl: c.videoUrl ?? '',
+            skills: c.skills,
+            referenceClass: c.referenceClass,
+          }))
+        : [emptyCase()],
+    );
     setNote(p.note);
   }, [proposal.data]);
 
@@ -71,8 +84,18 @@ export function NewExercisePage() {
       opensOn,
       closesOn,
       classifierCodes: codes,
-      cases: cases.map((c) => ({ description: c.description, videoUrl: c.videoUrl.trim() === '' ? null : c.videoUrl.trim(), skills: c.skills, referenceClass: c.referenceClass })),
-      source: source === null ? null : 'flag' in source ? { kind: 'flag', ref: String(source.flag) } : { kind: 'boundary', ref: String(source.boundary) },
+      cases: cases.map((c) => ({
+        description: c.description,
+        videoUrl: c.videoUrl.trim() === '' ? null : c.videoUrl.trim(),
+        skills: c.skills,
+        referenceClass: c.referenceClass,
+      })),
+      source:
+        source === null
+          ? null
+          : 'flag' in source
+            ? { kind: 'flag', ref: String(source.flag) }
+            : { kind: 'boundary', ref: String(source.boundary) },
     };
     create.mutate(input, { onSuccess: (detail) => void navigate(`../${detail.id}`, { relative: 'path' }) });
   };
@@ -90,7 +113,8 @@ export function NewExercisePage() {
         </p>
         <h1>New exercise</h1>
         <p className="max-w-3xl text-muted">
-          Cases to watch, each with the class a senior panel agreed. Nothing is sent until you open the exercise; classifiers never see the reference classes before the close.
+          Cases to watch, each with the class a senior panel agreed. Nothing is sent until you open the exercise; classifiers never see the
+          reference classes before the close.
         </p>
       </div>
 
@@ -134,7 +158,13 @@ export function NewExercisePage() {
           <h2 id={`${id}-about`}>Exercise</h2>
           <div className="field">
             <label htmlFor={`${id}-title`}>Title</label>
-            <input id={`${id}-title`} className="input" value={title} onChange={(e) => setTitle(e.target.value)} aria-invalid={errors.has('title') ? 'true' : undefined} />
+            <input
+              id={`${id}-title`}
+              className="input"
+              value={title}
+              onChange={(e) => setTitle(e.target.value)}
+              aria-invalid={errors.has('title') ? 'true' : undefined}
+            />
             {errors.has('title') ? <p className="field-error">{errors.get('title')}</p> : null}
           </div>
           <div className="grid gap-4 sm:grid-cols-2">
@@ -144,7 +174,14 @@ export function NewExercisePage() {
             </div>
             <div className="field">
               <label htmlFor={`${id}-closes`}>Closes on (end of day, UTC)</label>
-              <input id={`${id}-closes`} type="date" className="input" value={closesOn} onChange={(e) => setClosesOn(e.target.value)} aria-invalid={errors.has('closesOn') ? 'true' : undefined} />
+              <input
+                id={`${id}-closes`}
+                type="date"
+                className="input"
+                value={closesOn}
+                onChange={(e) => setClosesOn(e.target.value)}
+                aria-invalid={errors.has('closesOn') ? 'true' : undefined}
+              />
               {errors.has('closesOn') ? <p className="field-error">{errors.get('closesOn')}</p> : null}
             </div>
           </div>
@@ -200,7 +237,12 @@ export function NewExercisePage() {
                 </div>
                 <div className="field">
                   <label htmlFor={`${id}-r${i}`}>Reference class</label>
-                  <select id={`${id}-r${i}`} className="input" value={c.referenceClass} onChange={(e) => setCase(i, { referenceClass: Number(e.target.value) })}>
+                  <select
+                    id={`${id}-r${i}`}
+                    className="input"
+                    value={c.referenceClass}
+                    onChange={(e) => setCase(i, { referenceClass: Number(e.target.value) })}
+                  >
                     {scaleClasses(scale).map((h) => (
                       <option key={h} value={h}>
                         {formatClass(h)}
@@ -217,7 +259,13 @@ export function NewExercisePage() {
                       <input
                         type="checkbox"
                         checked={c.skills.includes(s)}
-                        onChange={(e) => setCase(i, { skills: e.target.checked ? SKILLS.filter((x) => x === s || c.skills.includes(x)) : c.skills.filter((x) => x !== s) })}
+                        onChange={(e) =>
+                          setCase(i, {
+                            skills: e.target.checked
+                              ? SKILLS.filter((x) => x === s || c.skills.includes(x))
+                              : c.skills.filter((x) => x !== s),
+                          })
+                        }
                       />
                       {SKILL_LABELS[s]}
                     </label>
@@ -226,7 +274,11 @@ export function NewExercisePage() {
                 {errors.has(`cases.${i}.skills`) ? <p className="field-error">{errors.get(`cases.${i}.skills`)}</p> : null}
               </fieldset>
               {cases.length > 1 ? (
-                <button type="button" className="btn btn-quiet min-h-9 px-3 py-1 text-sm" onClick={() => setCases((all) => all.filter((_, j) => j !== i))}>
+                <button
+                  type="button"
+                  className="btn btn-quiet min-h-9 px-3 py-1 text-sm"
+                  onClick={() => setCases((all) => all.filter((_, j) => j !== i))}
+                >
                   Remove case {i + 1}
                 </button>
               ) : null}

@@ -6,7 +6,8 @@ import { exportsKey } from './get-export-options';
 export function useCloseStudy(federation: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (studyId: number) => api<StudyView>(`/federations/${encodeURIComponent(federation)}/exports/studies/${studyId}/close`, { method: 'POST' }),
+    mutationFn: (studyId: number) =>
+      api<StudyView>(`/federations/${encodeURIComponent(federation)}/exports/studies/${studyId}/close`, { method: 'POST' }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: exportsKey(federation) }),
   });
 }

@@ -6,7 +6,8 @@ import { myExportsQueryOptions } from './list-exports';
 export function useCreateExport(federation: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (body: ExportRequest) => api<ExportView>(`/federations/${encodeURIComponent(federation)}/exports`, { method: 'POST', body }),
+    mutationFn: (body: ExportRequest) =>
+      api<ExportView>(`/federations/${encodeURIComponent(federation)}/exports`, { method: 'POST', body }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: myExportsQueryOptions(federation).queryKey }),
   });
 }

@@ -6,7 +6,8 @@ import { exportsKey } from './get-export-options';
 export function useCreateStudy(federation: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (body: CreateStudy) => api<StudyView>(`/federations/${encodeURIComponent(federation)}/exports/studies`, { method: 'POST', body }),
+    mutationFn: (body: CreateStudy) =>
+      api<StudyView>(`/federations/${encodeURIComponent(federation)}/exports/studies`, { method: 'POST', body }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: exportsKey(federation) }),
   });
 }

@@ -6,7 +6,8 @@ import { exportsKey } from './get-export-options';
 export function useSaveExportSettings(federation: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (body: ExportSettings) => api<ExportSettingsView>(`/federations/${encodeURIComponent(federation)}/exports/settings`, { method: 'PUT', body }),
+    mutationFn: (body: ExportSettings) =>
+      api<ExportSettingsView>(`/federations/${encodeURIComponent(federation)}/exports/settings`, { method: 'PUT', body }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: exportsKey(federation) }),
   });
 }

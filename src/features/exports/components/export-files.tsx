@@ -10,7 +10,12 @@ export function ExportFiles({ view }: { view: ExportView }) {
       {(['csv', 'json', 'dictionary'] as const).map((file) =>
         view.files[file] ? (
           <li key={file}>
-            <a className="btn btn-quiet min-h-10 py-1.5" href={`/api${view.files[file]}`} download aria-label={`${FILE_LABELS[file]} of export ${view.id}`}>
+            <a
+              className="btn btn-quiet min-h-10 py-1.5"
+              href={`/api${view.files[file]}`}
+              download
+              aria-label={`${FILE_LABELS[file]} of export ${view.id}`}
+            >
               {FILE_LABELS[file]}
             </a>
           </li>

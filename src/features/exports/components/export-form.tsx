@@ -60,14 +60,25 @@ export function ExportForm({ federation, options, isLead }: { federation: string
   const form = useForm<ExportFormValues>({
     resolver: zodResolver(exportFormSchema),
     defaultValues: {
-      scope: { seasons: options.seasons, eventLevels: options.eventLevels, categories: options.categories, kinds: options.kinds, eventIds: [] },
+      scope: {
+        seasons: options.seasons,
+        eventLevels: options.eventLevels,
+        categories: options.categories,
+        kinds: options.kinds,
+        eventIds: [],
+      },
       fields: [...EXPORT_FIELDS],
       dateMode: 'month',
       studyId: '',
     },
   });
   const { errors } = form.formState;
-  const serverError = create.error instanceof ApiError ? create.error : create.error ? new ApiError(0, 'unknown', 'The export could not be built. Try again.') : null;
+  const serverError =
+    create.error instanceof ApiError
+      ? create.error
+      : create.error
+        ? new ApiError(0, 'unknown', 'The export could not be built. Try again.')
+        : null;
 
   const onSubmit = form.handleSubmit((values) => {
     const body: ExportRequest = {
@@ -90,13 +101,25 @@ export function ExportForm({ federation, options, isLead }: { federation: string
       <form noValidate onSubmit={onSubmit} className="card space-y-5" aria-labelledby={`${id}-title`}>
         <h2 id={`${id}-title`}>Build an export</h2>
         <p className="text-sm text-muted">
-          One row per rating, in CSV and JSON, with a data dictionary. Athletes, classifiers, events and assessments are replaced by pseudonyms; names,
-          codes, notes and exact dates never leave. Combinations held by fewer than {options.minAthletes} athletes are blanked.
+          One row per rating, in CSV and JSON, with a data dictionary. Athletes, classifiers, events and assessments are replaced by
+          pseudonyms; names, codes, notes and exact dates never leave. Combinations held by fewer than {options.minAthletes} athletes are
+          blanked.
         </p>
-        <CheckGroup legend="Seasons" hint="1 July to 30 June." name="scope.seasons" options={options.seasons.map((s) => ({ value: s, label: formatSeason(s) }))} register={form.register} error={errors.scope?.seasons as FieldError | undefined} />
+        <CheckGroup
+          legend="Seasons"
+          hint="1 July to 30 June."
+          name="scope.seasons"
+          options={options.seasons.map((s) => ({ value: s, label: formatSeason(s) }))}
+          register={form.register}
+          error={errors.scope?.seasons as FieldError | undefined}
+        />
         <CheckGroup
           legend="Event levels"
-          hint={isLead ? 'Events are chosen by level; as a lead you can also narrow to individual events below.' : 'Events are chosen by level: individual events are not listed for researchers.'}
+          hint={
+            isLead
+              ? 'Events are chosen by level; as a lead you can also narrow to individual events below.'
+              : 'Events are chosen by level: individual events are not listed for researchers.'
+          }
           name="scope.eventLevels"
           options={options.eventLevels.map((l) => ({ value: l, label: formatEventLevel(l) }))}
           register={form.register}
@@ -105,7 +128,14 @@ export function ExportForm({ federation, options, isLead }: { federation: string
         {isLead && options.events.length > 0 ? (
           <div className="field">
             <label htmlFor={`${id}-events`}>Individual events (optional, leads only)</label>
-            <select id={`${id}-events`} multiple size={6} className="input" aria-describedby={`${id}-events-hint`} {...form.register('scope.eventIds')}>
+            <select
+              id={`${id}-events`}
+              multiple
+              size={6}
+              className="input"
+              aria-describedby={`${id}-events-hint`}
+              {...form.register('scope.eventIds')}
+            >
               {options.events.map((e) => (
                 <option key={e.id} value={String(e.id)}>
                   {e.code} · {e.name}
@@ -117,7 +147,13 @@ export function ExportForm({ federation, options, isLead }: { federation: string
             </span>
           </div>
         ) : null}
-        <CheckGroup legend="Competition categories" name="scope.categories" options={options.categories.map((c) => ({ value: c, label: c }))} register={form.register} error={errors.scope?.categories as FieldError | undefined} />
+        <CheckGroup
+          legend="Competition categories"
+          name="scope.categories"
+          options={options.categories.map((c) => ({ value: c, label: c }))}
+          register={form.register}
+          error={errors.scope?.categories as FieldError | undefined}
+        />
         <CheckGroup
           legend="Assessment kinds"
           name="scope.kinds"
@@ -159,7 +195,9 @@ export function ExportForm({ federation, options, isLead }: { federation: string
         {serverError ? (
           <p role="alert" className="field-error">
             {serverError.message}
-            {Array.isArray(serverError.details) ? `: ${(serverError.details as { path: string; message: string }[]).map((d) => `${d.path} ${d.message}`).join('; ')}` : ''}
+            {Array.isArray(serverError.details)
+              ? `: ${(serverError.details as { path: string; message: string }[]).map((d) => `${d.path} ${d.message}`).join('; ')}`
+              : ''}
           </p>
         ) : null}
         <button type="submit" className="btn btn-primary" disabled={create.isPending}>
@@ -177,9 +215,10 @@ function ExportReady({ view }: { view: ExportView }) {
     <section className="card space-y-3" aria-labelledby="export-ready-title" role="status">
       <h2 id="export-ready-title">Export {view.id} is ready</h2>
       <p>
-        {formatCount(view.counts.rows, 'row')}: {formatCount(view.counts.assessments, 'assessment')}, {formatCount(view.counts.athletes, 'athlete')},{' '}
-        {formatCount(view.counts.classifiers, 'classifier')}. Blanked for k = {view.minAthletes}: categories of {s.categoryAthletes} athletes ({s.categoryRows} rows), attributes
-        of {s.combinationAssessments} assessments ({s.combinationRows} rows). No row was dropped.
+        {formatCount(view.counts.rows, 'row')}: {formatCount(view.counts.assessments, 'assessment')},{' '}
+        {formatCount(view.counts.athletes, 'athlete')}, {formatCount(view.counts.classifiers, 'classifier')}. Blanked for k ={' '}
+        {view.minAthletes}: categories of {s.categoryAthletes} athletes ({s.categoryRows} rows), attributes of {s.combinationAssessments}{' '}
+        assessments ({s.combinationRows} rows). No row was dropped.
       </p>
       <ExportFiles view={view} />
     </section>

@@ -1,7 +1,13 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useId } from 'react';
 import { useForm } from 'react-hook-form';
-import { createStudySchema, exportSettingsSchema, type CreateStudy, type ExportSettings, type ExportSettingsView } from '../../../../shared/schemas/exports';
+import {
+  createStudySchema,
+  exportSettingsSchema,
+  type CreateStudy,
+  type ExportSettings,
+  type ExportSettingsView,
+} from '../../../../shared/schemas/exports';
 import { useConfirm } from '../../../components/confirm-dialog';
 import { QueryState } from '../../../components/query-state';
 import { ApiError } from '../../../lib/api-client';
@@ -23,22 +29,43 @@ function ServerError({ error }: { error: unknown }) {
 type SettingsField = 'minAthletes' | 'maxExportsPerDay' | 'maxStoredMegabytes';
 
 const SETTINGS_FIELDS: { name: SettingsField; label: string; short: string; min: number; max: number }[] = [
-  { name: 'minAthletes', label: 'Fewest athletes a cell (quarter × kind × category), an exported category or a combination may describe', short: 'k', min: 2, max: 100 },
+  {
+    name: 'minAthletes',
+    label: 'Fewest athletes a cell (quarter × kind × category), an exported category or a combination may describe',
+    short: 'k',
+    min: 2,
+    max: 100,
+  },
   { name: 'maxExportsPerDay', label: 'Exports each researcher may make in any 24 hours', short: 'Exports a day', min: 1, max: 1000 },
-  { name: 'maxStoredMegabytes', label: 'Megabytes of compressed files each researcher may keep at once', short: 'Megabytes kept', min: 1, max: 100000 },
+  {
+    name: 'maxStoredMegabytes',
+    label: 'Megabytes of compressed files each researcher may keep at once',
+    short: 'Megabytes kept',
+    min: 1,
+    max: 100000,
+  },
 ];
 
 function KForm({ federation, initial }: { federation: string; initial: ExportSettingsView }) {
   const id = useId();
   const save = useSaveExportSettings(federation);
-  const valuesOf = (v: ExportSettingsView): ExportSettings => ({ minAthletes: v.minAthletes, maxExportsPerDay: v.maxExportsPerDay, maxStoredMegabytes: v.maxStoredMegabytes });
+  const valuesOf = (v: ExportSettingsView): ExportSettings => ({
+    minAthletes: v.minAthletes,
+    maxExportsPerDay: v.maxExportsPerDay,
+    maxStoredMegabytes: v.maxStoredMegabytes,
+  });
   const form = useForm<ExportSettings>({ resolver: zodResolver(exportSettingsSchema), defaultValues: valuesOf(initial) });
   return (
-    <form noValidate className="space-y-3" aria-labelledby={`${id}-title`} onSubmit={form.handleSubmit((values) => save.mutate(values, { onSuccess: (saved) => form.reset(valuesOf(saved)) }))}>
+    <form
+      noValidate
+      className="space-y-3"
+      aria-labelledby={`${id}-title`}
+      onSubmit={form.handleSubmit((values) => save.mutate(values, { onSuccess: (saved) => form.reset(valuesOf(saved)) }))}
+    >
       <h3 id={`${id}-title`}>Smallest cell (k) and each researcher’s quota</h3>
       <p className="text-sm text-muted">
-        Researchers’ dashboards and every export leave out the cells held by fewer than k athletes, and an export that differs from an earlier one by fewer
-        than k athletes is refused.
+        Researchers’ dashboards and every export leave out the cells held by fewer than k athletes, and an export that differs from an
+        earlier one by fewer than k athletes is refused.
       </p>
       {SETTINGS_FIELDS.map((f) => {
         const error = form.formState.errors[f.name];
@@ -67,7 +94,11 @@ function KForm({ federation, initial }: { federation: string; initial: ExportSet
       <button type="submit" className="btn btn-primary" disabled={save.isPending}>
         {save.isPending ? 'Saving…' : 'Save settings'}
       </button>
-      {save.isSuccess && !form.formState.isDirty ? <span className="ml-3 text-sm text-ok" role="status">Saved.</span> : null}
+      {save.isSuccess && !form.formState.isDirty ? (
+        <span className="ml-3 text-sm text-ok" role="status">
+          Saved.
+        </span>
+      ) : null}
     </form>
   );
 }
@@ -78,12 +109,25 @@ function StudyForm({ federation }: { federation: string }) {
   const form = useForm<CreateStudy>({ resolver: zodResolver(createStudySchema), defaultValues: { name: '', purpose: '' } });
   const { errors } = form.formState;
   return (
-    <form noValidate className="space-y-3" aria-labelledby={`${id}-title`} onSubmit={form.handleSubmit((values) => create.mutate(values, { onSuccess: () => form.reset() }))}>
+    <form
+      noValidate
+      className="space-y-3"
+      aria-labelledby={`${id}-title`}
+      onSubmit={form.handleSubmit((values) => create.mutate(values, { onSuccess: () => form.reset() }))}
+    >
       <h3 id={`${id}-title`}>New study</h3>
-      <p className="text-sm text-muted">A study has one stable key: every export made under it uses the same pseudonyms, so its exports can be joined.</p>
+      <p className="text-sm text-muted">
+        A study has one stable key: every export made under it uses the same pseudonyms, so its exports can be joined.
+      </p>
       <div className="field">
         <label htmlFor={`${id}-name`}>Study name</label>
-        <input id={`${id}-name`} className="input" aria-invalid={errors.name ? 'true' : undefined} aria-describedby={errors.name ? `${id}-name-error` : undefined} {...form.register('name')} />
+        <input
+          id={`${id}-name`}
+          className="input"
+          aria-invalid={errors.name ? 'true' : undefined}
+          aria-describedby={errors.name ? `${id}-name-error` : undefined}
+          {...form.register('name')}
+        />
         {errors.name ? (
           <span id={`${id}-name-error`} className="field-error" role="alert">
             Study name: {errors.name.message}
@@ -112,7 +156,9 @@ export function ExportSettingsPanel({ federation }: { federation: string }) {
       {dialog}
       <h2 id="export-settings-title">Export settings (leads only)</h2>
       <QueryState query={settings} what="The export settings">
-        {(data) => <KForm key={`${data.minAthletes}-${data.maxExportsPerDay}-${data.maxStoredMegabytes}`} federation={federation} initial={data} />}
+        {(data) => (
+          <KForm key={`${data.minAthletes}-${data.maxExportsPerDay}-${data.maxStoredMegabytes}`} federation={federation} initial={data} />
+        )}
       </QueryState>
       <StudyForm federation={federation} />
       {settings.data && settings.data.studies.length > 0 ? (
@@ -128,13 +174,17 @@ export function ExportSettingsPanel({ federation }: { federation: string }) {
                 {s.closedAt ? (
                   <span className="text-sm text-muted">Closed</span>
                 ) : (
-                  <button type="button" className="btn btn-quiet min-h-10 py-1.5" disabled={close.isPending} onClick={async () => {
+                  <button
+                    type="button"
+                    className="btn btn-quiet min-h-10 py-1.5"
+                    disabled={close.isPending}
+                    onClick={async () => {
                       const ok = await confirm({
                         title: `Close the study “${s.name}”?`,
                         consequence: (
                           <p>
-                            Its stable key can no longer be used: no new export can be made under it, so later exports cannot be joined with its earlier ones. Exports
-                            already built stay downloadable until they expire. A closed study cannot be reopened.
+                            Its stable key can no longer be used: no new export can be made under it, so later exports cannot be joined with
+                            its earlier ones. Exports already built stay downloadable until they expire. A closed study cannot be reopened.
                           </p>
                         ),
                         confirmLabel: 'Close the study',

@@ -8,14 +8,18 @@ import { formatDateTime, formatEventLevel, formatInteger, formatNumber, formatSe
 
 type Row = ExportView & { scopeText: string; rows: number; studyName: string };
 
-
 const COLUMNS: DataTableColumn<Row>[] = [
   { key: 'id', header: 'Export', align: 'right' },
   { key: 'createdAt', header: 'Built', cell: (r) => formatDateTime(r.createdAt) },
   { key: 'scopeText', header: 'Scope' },
   { key: 'studyName', header: 'Study' },
   { key: 'rows', header: 'Rows', align: 'right', cell: (r) => formatInteger(r.rows) },
-  { key: 'storedBytes', header: 'Kept (compressed)', align: 'right', cell: (r) => (r.expired ? '—' : `${formatNumber(r.storedBytes / 1024 / 1024, 1)} MB`) },
+  {
+    key: 'storedBytes',
+    header: 'Kept (compressed)',
+    align: 'right',
+    cell: (r) => (r.expired ? '—' : `${formatNumber(r.storedBytes / 1024 / 1024, 1)} MB`),
+  },
   { key: 'expiresAt', header: 'Available until', cell: (r) => (r.expired ? 'Expired' : formatDateTime(r.expiresAt)) },
   { key: 'files', header: 'Download', sortable: false, cell: (r) => <ExportFiles view={r} /> },
 ];
@@ -23,7 +27,12 @@ const COLUMNS: DataTableColumn<Row>[] = [
 /** The caller's own exports, with re-download links for seven days. */
 export function MyExports({ federation }: { federation: string }) {
   const exports = useMyExports(federation);
-  if (exports.isPending || exports.isError) return <QueryState query={exports} loadingLabel="Loading your exports…" what="Your exports">{() => null}</QueryState>;
+  if (exports.isPending || exports.isError)
+    return (
+      <QueryState query={exports} loadingLabel="Loading your exports…" what="Your exports">
+        {() => null}
+      </QueryState>
+    );
   const rows: Row[] = exports.data.map((e) => ({
     ...e,
     rows: e.counts.rows,
@@ -34,10 +43,18 @@ export function MyExports({ federation }: { federation: string }) {
     <section className="space-y-3" aria-labelledby="my-exports-title">
       <h2 id="my-exports-title">My exports</h2>
       <p className="text-sm text-muted">
-        Each export can be downloaded again, by you only, for seven days after it was built; its files then leave the server. The lead sets how many exports a
-        researcher may make a day and how many megabytes of files they may keep.
+        Each export can be downloaded again, by you only, for seven days after it was built; its files then leave the server. The lead sets
+        how many exports a researcher may make a day and how many megabytes of files they may keep.
       </p>
-      <DataTable caption="My exports" rows={rows} columns={COLUMNS} rowKey={(r) => String(r.id)} emptyText="You have not built an export yet." initialSort={[{ id: 'id', desc: true }]} pageSize={10} />
+      <DataTable
+        caption="My exports"
+        rows={rows}
+        columns={COLUMNS}
+        rowKey={(r) => String(r.id)}
+        emptyText="You have not built an export yet."
+        initialSort={[{ id: 'id', desc: true }]}
+        pageSize={10}
+      />
     </section>
   );
 }

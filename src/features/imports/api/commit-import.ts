@@ -8,7 +8,10 @@ export function useCommitImport(federation: string) {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: ({ importId, job, confirmAthleteChanges = false }: { importId: number; job: string; confirmAthleteChanges?: boolean }) =>
-      api<ImportView>(`${federationPath(federation)}/imports/${importId}/commit?job=${encodeURIComponent(job)}`, { method: 'POST', body: { confirmAthleteChanges } }),
+      api<ImportView>(`${federationPath(federation)}/imports/${importId}/commit?job=${encodeURIComponent(job)}`, {
+        method: 'POST',
+        body: { confirmAthleteChanges },
+      }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: ['federations', federation] }),
   });
 }

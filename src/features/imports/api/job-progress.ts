@@ -18,7 +18,9 @@ export interface ProgressStream {
 export function followProgress(federation: string, job: string, onProgress: (p: ImportProgress) => void): Promise<ProgressStream> {
   return new Promise((resolve) => {
     if (typeof EventSource === 'undefined') return resolve({ close: () => {} });
-    const source = new EventSource(`/api${federationPath(federation)}/import-jobs/${encodeURIComponent(job)}/events`, { withCredentials: true });
+    const source = new EventSource(`/api${federationPath(federation)}/import-jobs/${encodeURIComponent(job)}/events`, {
+      withCredentials: true,
+    });
     const stream = { close: () => source.close() };
     let opened = false;
     const ready = () => {

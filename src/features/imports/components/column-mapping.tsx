@@ -58,7 +58,13 @@ export function ColumnMapping({ federation, headers, state, onChange, saved, unm
         <div className="flex flex-wrap gap-4">
           {(['long', 'wide'] as const).map((layout) => (
             <label key={layout} className="flex items-center gap-2">
-              <input type="radio" name={`${ids}-layout`} value={layout} checked={state.layout === layout} onChange={() => set({ layout })} />
+              <input
+                type="radio"
+                name={`${ids}-layout`}
+                value={layout}
+                checked={state.layout === layout}
+                onChange={() => set({ layout })}
+              />
               {layout === 'long' ? 'Long: one row per rating' : 'Wide: one row per assessment'}
             </label>
           ))}
@@ -118,7 +124,12 @@ export function ColumnMapping({ federation, headers, state, onChange, saved, unm
       <div className="flex flex-wrap items-end gap-4">
         <div className="field">
           <label htmlFor={`${ids}-date`}>Dates are written as</label>
-          <select id={`${ids}-date`} className="input" value={state.dateFormat} onChange={(e) => set({ dateFormat: e.target.value as DateFormat })}>
+          <select
+            id={`${ids}-date`}
+            className="input"
+            value={state.dateFormat}
+            onChange={(e) => set({ dateFormat: e.target.value as DateFormat })}
+          >
             {DATE_FORMATS.map((f) => (
               <option key={f} value={f}>
                 {DATE_FORMAT_LABELS[f]}
@@ -148,7 +159,9 @@ export function ColumnMapping({ federation, headers, state, onChange, saved, unm
         </button>
         <p role="status" className="text-sm text-muted">
           {save.isSuccess ? `Saved as “${save.data.name}” for the next upload.` : ''}
-          {save.error ? <span className="field-error">{save.error instanceof ApiError ? save.error.message : 'The mapping was not saved.'}</span> : null}
+          {save.error ? (
+            <span className="field-error">{save.error instanceof ApiError ? save.error.message : 'The mapping was not saved.'}</span>
+          ) : null}
         </p>
       </form>
     </div>

@@ -7,7 +7,11 @@ const ISSUE_COLUMNS: DataTableColumn<ImportIssue & { key: string }>[] = [
   { key: 'row', header: 'Row', align: 'right', cell: (i) => (i.row === null ? 'file' : number.format(i.row)) },
   { key: 'line', header: 'Line', align: 'right', cell: (i) => (i.line === null ? '—' : number.format(i.line)) },
   { key: 'column', header: 'Column', cell: (i) => i.column ?? '—' },
-  { key: 'value', header: 'Value', cell: (i) => (i.value === null ? '—' : <code className="break-all">{i.value === '' ? '(blank)' : i.value}</code>) },
+  {
+    key: 'value',
+    header: 'Value',
+    cell: (i) => (i.value === null ? '—' : <code className="break-all">{i.value === '' ? '(blank)' : i.value}</code>),
+  },
   { key: 'message', header: 'Problem', sortable: false },
 ];
 
@@ -32,9 +36,12 @@ export function DryRunResult({ result }: { result: DryRun }) {
       {result.outcome === 'refused' ? (
         <div role="alert" className="space-y-2 rounded-lg bg-alert-soft px-4 py-3 text-alert">
           <p>
-            The file was refused and nothing was imported: {number.format(result.errorCount)} {result.errorCount === 1 ? 'problem' : 'problems'}
-            {result.errorCount > result.errors.length ? ` (the first ${number.format(result.errors.length)} of ${number.format(result.errorCount)} are listed)` : ''}. Correct the
-            file or the mapping and check it again.
+            The file was refused and nothing was imported: {number.format(result.errorCount)}{' '}
+            {result.errorCount === 1 ? 'problem' : 'problems'}
+            {result.errorCount > result.errors.length
+              ? ` (the first ${number.format(result.errors.length)} of ${number.format(result.errorCount)} are listed)`
+              : ''}
+            . Correct the file or the mapping and check it again.
           </p>
           {(result.errorKinds?.length ?? 0) > 1 || (result.errorKinds ?? []).some((k) => k.shown < k.count) ? (
             <ul className="list-disc pl-5 text-sm" aria-label="Problems by kind">
@@ -62,7 +69,9 @@ export function DryRunResult({ result }: { result: DryRun }) {
       {counts ? (
         <div className="overflow-x-auto rounded-lg border border-line bg-card">
           <table className="w-full border-collapse text-sm">
-            <caption className="px-3 py-2 text-left font-semibold">What the import would do ({number.format(counts.rows)} rows read)</caption>
+            <caption className="px-3 py-2 text-left font-semibold">
+              What the import would do ({number.format(counts.rows)} rows read)
+            </caption>
             <thead className="bg-paper">
               <tr>
                 <th scope="col" className="px-3 py-2 text-left">
@@ -96,8 +105,8 @@ export function DryRunResult({ result }: { result: DryRun }) {
           </table>
           {counts.notAnalysable > 0 ? (
             <p className="border-t border-line px-3 py-2 text-sm text-muted">
-              {number.format(counts.notAnalysable)} {counts.notAnalysable === 1 ? 'assessment has' : 'assessments have'} ratings from a single classifier: kept, but not
-              analysable for agreement.
+              {number.format(counts.notAnalysable)} {counts.notAnalysable === 1 ? 'assessment has' : 'assessments have'} ratings from a
+              single classifier: kept, but not analysable for agreement.
             </p>
           ) : null}
         </div>
@@ -106,7 +115,15 @@ export function DryRunResult({ result }: { result: DryRun }) {
       {result.errors.length > 0 ? (
         <section aria-labelledby="dry-run-errors" className="space-y-2">
           <h3 id="dry-run-errors">Problems</h3>
-          <DataTable caption="Problems found in the file" rows={keyed(result.errors)} columns={ISSUE_COLUMNS} rowKey={(r) => r.key} pageSize={25} filterable csvFileName="import-problems.csv" />
+          <DataTable
+            caption="Problems found in the file"
+            rows={keyed(result.errors)}
+            columns={ISSUE_COLUMNS}
+            rowKey={(r) => r.key}
+            pageSize={25}
+            filterable
+            csvFileName="import-problems.csv"
+          />
         </section>
       ) : null}
       {result.warnings.length > 0 && result.outcome !== 'refused' ? (
@@ -115,7 +132,13 @@ export function DryRunResult({ result }: { result: DryRun }) {
             {number.format(result.warningCount)} {result.warningCount === 1 ? 'note' : 'notes'} (kept, no action needed)
           </summary>
           <div className="mt-3">
-            <DataTable caption="Notes on the file" rows={keyed(result.warnings)} columns={ISSUE_COLUMNS} rowKey={(r) => r.key} pageSize={10} />
+            <DataTable
+              caption="Notes on the file"
+              rows={keyed(result.warnings)}
+              columns={ISSUE_COLUMNS}
+              rowKey={(r) => r.key}
+              pageSize={10}
+            />
           </div>
         </details>
       ) : null}
@@ -146,8 +169,8 @@ export function AthleteChangesConfirmation({
         {number.format(n)} {n === 1 ? 'assessment already stored is' : 'assessments already stored are'} given to another athlete
       </h3>
       <p className="text-sm">
-        Committing moves {n === 1 ? 'this assessment and its ratings' : 'these assessments and their ratings'} from the stored athlete to the one in the file. Check that the
-        file is right; a revert of the import moves them back.
+        Committing moves {n === 1 ? 'this assessment and its ratings' : 'these assessments and their ratings'} from the stored athlete to
+        the one in the file. Check that the file is right; a revert of the import moves them back.
       </p>
       <ul className="list-disc pl-5 text-sm">
         {changes.map((c) => (

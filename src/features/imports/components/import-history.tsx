@@ -22,7 +22,8 @@ const SOURCE_WORDS: Record<ImportView['source'], string> = { csv: 'CSV upload', 
 function summary(view: ImportView): string {
   const c = view.counts;
   if (!c?.assessments || !c.ratings) return '—';
-  const part = (label: string, x: { new: number; changed: number }) => `${number.format(x.new)} new${x.changed ? `, ${number.format(x.changed)} changed` : ''} ${label}`;
+  const part = (label: string, x: { new: number; changed: number }) =>
+    `${number.format(x.new)} new${x.changed ? `, ${number.format(x.changed)} changed` : ''} ${label}`;
   return `${part('assessments', c.assessments)}; ${part('ratings', c.ratings)}`;
 }
 
@@ -81,11 +82,16 @@ export function ImportHistory({ federation }: { federation: string }) {
     <section aria-labelledby="import-history" className="space-y-3">
       <h2 id="import-history">Import history</h2>
       {confirming ? (
-        <div role="alertdialog" aria-labelledby="revert-title" aria-describedby="revert-text" className="card space-y-3 border-amber bg-amber-soft">
+        <div
+          role="alertdialog"
+          aria-labelledby="revert-title"
+          aria-describedby="revert-text"
+          className="card space-y-3 border-amber bg-amber-soft"
+        >
           <h3 id="revert-title">Revert import #{confirming.id}?</h3>
           <p id="revert-text">
-            This removes exactly what the import added ({summary(confirming)}) and restores the records it changed to what they were before. The figures of the
-            federation change with it.
+            This removes exactly what the import added ({summary(confirming)}) and restores the records it changed to what they were before.
+            The figures of the federation change with it.
           </p>
           <div className="flex gap-3">
             <button
@@ -118,7 +124,15 @@ export function ImportHistory({ federation }: { federation: string }) {
       ) : imports.error ? (
         <ErrorNotice error={imports.error} />
       ) : (
-        <DataTable caption="Import history" rows={imports.data.imports} columns={columns} rowKey={(v) => String(v.id)} pageSize={10} csvFileName="import-history.csv" emptyText="No imports yet." />
+        <DataTable
+          caption="Import history"
+          rows={imports.data.imports}
+          columns={columns}
+          rowKey={(v) => String(v.id)}
+          pageSize={10}
+          csvFileName="import-history.csv"
+          emptyText="No imports yet."
+        />
       )}
     </section>
   );

@@ -113,7 +113,9 @@ export function ImportsPage() {
         setPreviewError(`${chosen.name}: ${error.message}`);
         return;
       }
-      setPreviewError(`The browser could not read the file for a preview (${(error as Error).message}). You can still check it: the server reads it again.`);
+      setPreviewError(
+        `The browser could not read the file for a preview (${(error as Error).message}). You can still check it: the server reads it again.`,
+      );
     }
   };
 
@@ -137,7 +139,8 @@ export function ImportsPage() {
         dateFormat: state.dateFormat,
         addClassifiers: state.addClassifiers,
         job,
-        onUploadProgress: (share) => setProgress((p) => (p && p.label.startsWith('Uploading') ? { label: `Uploading ${file.name}`, value: share } : p)),
+        onUploadProgress: (share) =>
+          setProgress((p) => (p && p.label.startsWith('Uploading') ? { label: `Uploading ${file.name}`, value: share } : p)),
       });
       setResult(answer);
     } catch {
@@ -185,7 +188,10 @@ export function ImportsPage() {
     <div className="space-y-8">
       <div>
         <h1>Imports</h1>
-        <p className="text-muted">Import panel decisions from a CSV file: check it first (a dry run writes nothing), then commit it. A committed import can be reverted.</p>
+        <p className="text-muted">
+          Import panel decisions from a CSV file: check it first (a dry run writes nothing), then commit it. A committed import can be
+          reverted.
+        </p>
       </div>
 
       <section aria-labelledby="step-file" className="card space-y-4">
@@ -212,7 +218,14 @@ export function ImportsPage() {
               {note}
             </p>
           ) : null}
-          <ColumnMappingStep federation={slug} headers={preview.headers} state={state} onChange={setState} saved={saved.data?.mappings ?? []} unmapped={unmapped} />
+          <ColumnMappingStep
+            federation={slug}
+            headers={preview.headers}
+            state={state}
+            onChange={setState}
+            saved={saved.data?.mappings ?? []}
+            unmapped={unmapped}
+          />
         </section>
       ) : null}
 
@@ -221,8 +234,8 @@ export function ImportsPage() {
           <h2 id="step-check">3. Check and commit</h2>
           {unmapped.length > 0 ? (
             <p role="alert" className="field-error">
-              Choose what {unmapped.length === 1 ? 'the column' : 'the columns'} {unmapped.map((h) => `“${h}”`).join(', ')} {unmapped.length === 1 ? 'holds' : 'hold'}, or ignore{' '}
-              {unmapped.length === 1 ? 'it' : 'them'}.
+              Choose what {unmapped.length === 1 ? 'the column' : 'the columns'} {unmapped.map((h) => `“${h}”`).join(', ')}{' '}
+              {unmapped.length === 1 ? 'holds' : 'hold'}, or ignore {unmapped.length === 1 ? 'it' : 'them'}.
             </p>
           ) : null}
           <div className="flex flex-wrap gap-3">
@@ -231,7 +244,12 @@ export function ImportsPage() {
             </button>
             {result?.outcome === 'ready' ? (
               <>
-                <button type="button" className="btn btn-primary" onClick={() => void commitImport()} disabled={busy || (athleteChanges > 0 && !confirmAthletes)}>
+                <button
+                  type="button"
+                  className="btn btn-primary"
+                  onClick={() => void commitImport()}
+                  disabled={busy || (athleteChanges > 0 && !confirmAthletes)}
+                >
                   Commit the import
                 </button>
                 <button
@@ -255,8 +273,9 @@ export function ImportsPage() {
           {committed ? (
             <div role="status" className="space-y-2 rounded-lg bg-ok-soft px-4 py-3 text-ok">
               <p>
-                Import #{committed.id} is committed: {number.format(committed.counts?.assessments?.new ?? 0)} new and {number.format(committed.counts?.assessments?.changed ?? 0)}{' '}
-                changed assessments, {number.format(committed.counts?.ratings?.new ?? 0)} new ratings.
+                Import #{committed.id} is committed: {number.format(committed.counts?.assessments?.new ?? 0)} new and{' '}
+                {number.format(committed.counts?.assessments?.changed ?? 0)} changed assessments,{' '}
+                {number.format(committed.counts?.ratings?.new ?? 0)} new ratings.
               </p>
               <p className="flex flex-wrap gap-4">
                 <Link to={`/f/${slug}`} className="underline">

@@ -19,7 +19,10 @@ export function ProgressBar({ label, value }: { label: string; value: number | n
         aria-valuetext={percent === null ? 'in progress' : `${percent}%`}
         className="h-3 overflow-hidden rounded-full bg-harbour-soft"
       >
-        <div className={`h-full rounded-full bg-harbour transition-[width] duration-200 ${percent === null ? 'w-2/5 animate-pulse' : ''}`} style={percent === null ? undefined : { width: `${percent}%` }} />
+        <div
+          className={`h-full rounded-full bg-harbour transition-[width] duration-200 ${percent === null ? 'w-2/5 animate-pulse' : ''}`}
+          style={percent === null ? undefined : { width: `${percent}%` }}
+        />
       </div>
     </div>
   );

@@ -6,7 +6,8 @@ import { membersKey } from './get-members';
 export function useCreateApiToken(federation: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (body: TokenCreate) => api<CreatedToken>(`/federations/${encodeURIComponent(federation)}/api-tokens`, { method: 'POST', body }),
+    mutationFn: (body: TokenCreate) =>
+      api<CreatedToken>(`/federations/${encodeURIComponent(federation)}/api-tokens`, { method: 'POST', body }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: membersKey(federation) }),
   });
 }

@@ -6,7 +6,11 @@ import { membersKey } from './get-members';
 export function useInviteMember(federation: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (body: Invite) => api<{ invitation: InvitationView; mailSent: boolean }>(`/federations/${encodeURIComponent(federation)}/invitations`, { method: 'POST', body }),
+    mutationFn: (body: Invite) =>
+      api<{ invitation: InvitationView; mailSent: boolean }>(`/federations/${encodeURIComponent(federation)}/invitations`, {
+        method: 'POST',
+        body,
+      }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: membersKey(federation) }),
   });
 }

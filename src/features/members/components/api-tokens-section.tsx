@@ -22,7 +22,14 @@ function ShownOnce({ created, onDone }: { created: CreatedToken; onDone: () => v
       <label htmlFor="new-token" className="sr-only">
         New API token
       </label>
-      <input id="new-token" className="input w-full font-mono text-sm" readOnly value={created.token} onFocus={(e) => e.currentTarget.select()} data-testid="new-api-token" />
+      <input
+        id="new-token"
+        className="input w-full font-mono text-sm"
+        readOnly
+        value={created.token}
+        onFocus={(e) => e.currentTarget.select()}
+        data-testid="new-api-token"
+      />
       <div className="flex gap-2">
         <button
           type="button"
@@ -48,7 +55,10 @@ export function ApiTokensSection({ federation }: { federation: string }) {
   const revoke = useRevokeApiToken(federation);
   const [shown, setShown] = useState<CreatedToken | null>(null);
   const { confirm, dialog } = useConfirm();
-  const form = useForm<z.input<typeof tokenCreateSchema>, unknown, TokenCreate>({ resolver: zodResolver(tokenCreateSchema), defaultValues: { name: '', scope: 'import' } });
+  const form = useForm<z.input<typeof tokenCreateSchema>, unknown, TokenCreate>({
+    resolver: zodResolver(tokenCreateSchema),
+    defaultValues: { name: '', scope: 'import' },
+  });
   const { errors } = form.formState;
   const onSubmit = form.handleSubmit((values) =>
     create.mutateAsync(values).then(
@@ -105,7 +115,10 @@ export function ApiTokensSection({ federation }: { federation: string }) {
     <section className="space-y-4" aria-labelledby="tokens-title">
       {dialog}
       <h2 id="tokens-title">API tokens</h2>
-      <p className="text-sm text-muted">For the federation's own systems (for example its registration system): a token reads figures or imports decisions for this federation only, and never signs anyone in.</p>
+      <p className="text-sm text-muted">
+        For the federation's own systems (for example its registration system): a token reads figures or imports decisions for this
+        federation only, and never signs anyone in.
+      </p>
       <form onSubmit={onSubmit} className="card flex flex-wrap items-end gap-4" noValidate aria-label="Create an API token">
         <div className="field">
           <label htmlFor="token-name">System</label>
@@ -127,7 +140,16 @@ export function ApiTokensSection({ federation }: { federation: string }) {
       {shown ? <ShownOnce created={shown} onDone={() => setShown(null)} /> : null}
       {revoke.error ? <ErrorNotice error={revoke.error} /> : null}
       <QueryState query={tokens} what="The API tokens">
-        {(rows) => <DataTable caption="API tokens" layout="stack" rows={rows} columns={columns} emptyText="No API tokens yet." rowKey={(t) => String(t.id)} />}
+        {(rows) => (
+          <DataTable
+            caption="API tokens"
+            layout="stack"
+            rows={rows}
+            columns={columns}
+            emptyText="No API tokens yet."
+            rowKey={(t) => String(t.id)}
+          />
+        )}
       </QueryState>
     </section>
   );

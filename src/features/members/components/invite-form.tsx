@@ -17,8 +17,8 @@ export function replaceInvitationQuestion(earlier: InvitationView): ConfirmOptio
       <>
         <p>
           {earlier.email} already has an invitation as {ROLE_NAMES[earlier.role].toLowerCase()}
-          {earlier.classifierCode ? ` (${earlier.classifierCode})` : ''}, sent {formatDateTime(earlier.createdAt)}. A new invitation replaces it: the link in the
-          earlier e-mail will stop working, and only the new e-mail’s link will open.
+          {earlier.classifierCode ? ` (${earlier.classifierCode})` : ''}, sent {formatDateTime(earlier.createdAt)}. A new invitation
+          replaces it: the link in the earlier e-mail will stop working, and only the new e-mail’s link will open.
         </p>
       </>
     ),
@@ -27,10 +27,21 @@ export function replaceInvitationQuestion(earlier: InvitationView): ConfirmOptio
   };
 }
 
-export function InviteForm({ federation, unlinked, pending = [] }: { federation: string; unlinked: { code: string; displayName: string }[]; pending?: InvitationView[] }) {
+export function InviteForm({
+  federation,
+  unlinked,
+  pending = [],
+}: {
+  federation: string;
+  unlinked: { code: string; displayName: string }[];
+  pending?: InvitationView[];
+}) {
   const invite = useInviteMember(federation);
   const { confirm, dialog } = useConfirm();
-  const form = useForm<InviteInput, unknown, Invite>({ resolver: zodResolver(inviteSchema), defaultValues: { email: '', role: 'classifier', classifierCode: undefined } });
+  const form = useForm<InviteInput, unknown, Invite>({
+    resolver: zodResolver(inviteSchema),
+    defaultValues: { email: '', role: 'classifier', classifierCode: undefined },
+  });
   const role = useWatch({ control: form.control, name: 'role' });
   const { errors } = form.formState;
   const onSubmit = form.handleSubmit(async (values) => {
@@ -46,7 +57,10 @@ export function InviteForm({ federation, unlinked, pending = [] }: { federation:
     <form onSubmit={onSubmit} className="card space-y-4" noValidate aria-labelledby="invite-title">
       {dialog}
       <h2 id="invite-title">Invite someone</h2>
-      <p className="text-sm text-muted">They get an e-mail with a link that works once, for seven days. A classifier is linked to their roster entry and sees only their own figures.</p>
+      <p className="text-sm text-muted">
+        They get an e-mail with a link that works once, for seven days. A classifier is linked to their roster entry and sees only their own
+        figures.
+      </p>
       {invite.error ? (
         <p role="alert" className="rounded-lg bg-alert-soft px-3 py-2 text-sm text-alert">
           {invite.error.message}
@@ -54,13 +68,22 @@ export function InviteForm({ federation, unlinked, pending = [] }: { federation:
       ) : null}
       {invite.isSuccess ? (
         <p role="status" className="rounded-lg bg-ok-soft px-3 py-2 text-sm text-ok">
-          {invite.data.mailSent ? `Invitation sent to ${invite.data.invitation.email}.` : `Invitation stored for ${invite.data.invitation.email}, but the e-mail could not be sent: revoke it and try again later.`}
+          {invite.data.mailSent
+            ? `Invitation sent to ${invite.data.invitation.email}.`
+            : `Invitation stored for ${invite.data.invitation.email}, but the e-mail could not be sent: revoke it and try again later.`}
         </p>
       ) : null}
       <div className="grid gap-4 sm:grid-cols-3">
         <div className="field">
           <label htmlFor="invite-email">E-mail</label>
-          <input id="invite-email" type="email" className="input" autoComplete="off" aria-invalid={errors.email ? true : undefined} {...form.register('email')} />
+          <input
+            id="invite-email"
+            type="email"
+            className="input"
+            autoComplete="off"
+            aria-invalid={errors.email ? true : undefined}
+            {...form.register('email')}
+          />
           {errors.email ? <p className="field-error">{errors.email.message}</p> : null}
         </div>
         <div className="field">

@@ -32,7 +32,13 @@ export function MemberRowEditor({
       <label className="sr-only" htmlFor={`role-${member.userId}`}>
         Role of {who}
       </label>
-      <select id={`role-${member.userId}`} className="input min-h-9 py-1 text-sm" value={role} onChange={(e) => setRole(e.target.value as Role)} disabled={!member.active}>
+      <select
+        id={`role-${member.userId}`}
+        className="input min-h-9 py-1 text-sm"
+        value={role}
+        onChange={(e) => setRole(e.target.value as Role)}
+        disabled={!member.active}
+      >
         {(['lead', 'classifier', 'researcher'] as const).map((r) => (
           <option key={r} value={r}>
             {ROLE_NAMES[r]}
@@ -44,7 +50,13 @@ export function MemberRowEditor({
           <label className="sr-only" htmlFor={`code-${member.userId}`}>
             Roster entry of {who}
           </label>
-          <select id={`code-${member.userId}`} className="input min-h-9 py-1 text-sm" value={code} onChange={(e) => setCode(e.target.value)} disabled={!member.active}>
+          <select
+            id={`code-${member.userId}`}
+            className="input min-h-9 py-1 text-sm"
+            value={code}
+            onChange={(e) => setCode(e.target.value)}
+            disabled={!member.active}
+          >
             <option value="">Roster entry…</option>
             {codes.map((c) => (
               <option key={c.code} value={c.code}>
@@ -59,7 +71,9 @@ export function MemberRowEditor({
           type="button"
           className="btn btn-primary min-h-9 py-1 text-sm"
           disabled={update.isPending}
-          onClick={() => update.mutate({ userId: member.userId, update: { role, ...(role === 'classifier' && code ? { classifierCode: code } : {}) } })}
+          onClick={() =>
+            update.mutate({ userId: member.userId, update: { role, ...(role === 'classifier' && code ? { classifierCode: code } : {}) } })
+          }
         >
           Save role
         </button>
@@ -77,7 +91,8 @@ export function MemberRowEditor({
               consequence: (
                 <>
                   <p>
-                    {who} ({member.email}) loses {federationName} at once: their next page or request is refused, and any e-mailed link they hold stops working here.
+                    {who} ({member.email}) loses {federationName} at once: their next page or request is refused, and any e-mailed link they
+                    hold stops working here.
                   </p>
                   <p>Their account, ratings and roster entry stay. You can reactivate them later from this table.</p>
                 </>

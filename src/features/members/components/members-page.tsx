@@ -25,7 +25,12 @@ export function MembersPage() {
   const { confirm, dialog } = useConfirm();
   usePageTitle('Members');
 
-  if (members.isPending || members.isError) return <QueryState query={members} what="The members">{() => null}</QueryState>;
+  if (members.isPending || members.isError)
+    return (
+      <QueryState query={members} what="The members">
+        {() => null}
+      </QueryState>
+    );
   const { unlinkedClassifiers } = members.data;
 
   const memberColumns: DataTableColumn<MemberView>[] = [
@@ -38,7 +43,15 @@ export function MembersPage() {
       key: 'userId',
       header: 'Change',
       sortable: false,
-      cell: (m) => <MemberRowEditor federation={federation.slug} federationName={federation.name} member={m} unlinked={unlinkedClassifiers} isSelf={m.userId === me} />,
+      cell: (m) => (
+        <MemberRowEditor
+          federation={federation.slug}
+          federationName={federation.name}
+          member={m}
+          unlinked={unlinkedClassifiers}
+          isSelf={m.userId === me}
+        />
+      ),
     },
   ];
   const invitationColumns: DataTableColumn<InvitationView>[] = [
@@ -58,7 +71,11 @@ export function MembersPage() {
           onClick={async () => {
             const ok = await confirm({
               title: `Revoke the invitation of ${i.email}?`,
-              consequence: <p>The link in the e-mail sent {formatDateTime(i.createdAt)} stops working at once. You can invite the address again later.</p>,
+              consequence: (
+                <p>
+                  The link in the e-mail sent {formatDateTime(i.createdAt)} stops working at once. You can invite the address again later.
+                </p>
+              ),
               confirmLabel: 'Revoke the invitation',
             });
             if (ok) revokeInvitation.mutate(i.id);
@@ -75,7 +92,9 @@ export function MembersPage() {
       <div className="flex flex-wrap items-baseline justify-between gap-3">
         <div>
           <h1>Members and access</h1>
-          <p className="mt-1 text-muted">Who may use {federation.name} in Panelwise, in which role, and which systems may send or read data.</p>
+          <p className="mt-1 text-muted">
+            Who may use {federation.name} in Panelwise, in which role, and which systems may send or read data.
+          </p>
         </div>
         {session.data?.localMail ? (
           <Link to="../outbox" relative="path" className="btn btn-quiet">
@@ -87,13 +106,29 @@ export function MembersPage() {
       <InviteForm federation={federation.slug} unlinked={unlinkedClassifiers} pending={members.data.invitations} />
       <section className="space-y-3" aria-labelledby="members-title">
         <h2 id="members-title">Members</h2>
-        <p className="text-sm text-muted">A change applies on the member's next request; a deactivated member loses this federation at once.</p>
-        <DataTable caption="Members" layout="stack" rows={members.data.members} columns={memberColumns} filterable rowKey={(m) => String(m.userId)} />
+        <p className="text-sm text-muted">
+          A change applies on the member's next request; a deactivated member loses this federation at once.
+        </p>
+        <DataTable
+          caption="Members"
+          layout="stack"
+          rows={members.data.members}
+          columns={memberColumns}
+          filterable
+          rowKey={(m) => String(m.userId)}
+        />
       </section>
       <section className="space-y-3" aria-labelledby="invitations-title">
         <h2 id="invitations-title">Pending invitations</h2>
         {revokeInvitation.error ? <ErrorNotice error={revokeInvitation.error} /> : null}
-        <DataTable caption="Pending invitations" layout="stack" rows={members.data.invitations} columns={invitationColumns} emptyText="No pending invitations." rowKey={(i) => String(i.id)} />
+        <DataTable
+          caption="Pending invitations"
+          layout="stack"
+          rows={members.data.invitations}
+          columns={invitationColumns}
+          emptyText="No pending invitations."
+          rowKey={(i) => String(i.id)}
+        />
       </section>
       <ApiTokensSection federation={federation.slug} />
     </div>

@@ -13,8 +13,8 @@ export function OutboxPage() {
     <div className="space-y-4">
       <h1>Outbox</h1>
       <p className="text-muted">
-        Outside production Panelwise delivers no e-mail: a mail server inside the app keeps every message, so invitations and password resets work end to end. These are
-        the messages about {federation.name}.
+        Outside production Panelwise delivers no e-mail: a mail server inside the app keeps every message, so invitations and password
+        resets work end to end. These are the messages about {federation.name}.
       </p>
       <button type="button" className="btn btn-quiet" onClick={() => void outbox.refetch()}>
         Refresh

@@ -7,7 +7,10 @@ export function useCreateFederation() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: (body: FederationCreate) =>
-      api<{ federation: { id: number; slug: string; name: string }; invitation: InvitationView; mailSent: boolean }>('/owner/federations', { method: 'POST', body }),
+      api<{ federation: { id: number; slug: string; name: string }; invitation: InvitationView; mailSent: boolean }>('/owner/federations', {
+        method: 'POST',
+        body,
+      }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: ownerKey }),
   });
 }

@@ -8,7 +8,10 @@ export function useInviteLead() {
   const queryClient = useQueryClient();
   return useMutation({
     mutationFn: ({ slug, body }: { slug: string; body: LeadInvite }) =>
-      api<{ invitation: InvitationView; mailSent: boolean }>(`/owner/federations/${encodeURIComponent(slug)}/leads`, { method: 'POST', body }),
+      api<{ invitation: InvitationView; mailSent: boolean }>(`/owner/federations/${encodeURIComponent(slug)}/leads`, {
+        method: 'POST',
+        body,
+      }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: ownerKey }),
   });
 }

@@ -25,7 +25,12 @@ function CreateFederationForm() {
     defaultValues: { slug: '', name: '', leadEmail: '' },
   });
   const { errors } = form.formState;
-  const onSubmit = form.handleSubmit((values) => create.mutateAsync(values).then(() => form.reset(), () => undefined));
+  const onSubmit = form.handleSubmit((values) =>
+    create.mutateAsync(values).then(
+      () => form.reset(),
+      () => undefined,
+    ),
+  );
   return (
     <form onSubmit={onSubmit} className="card space-y-4" noValidate aria-labelledby="create-title">
       <h2 id="create-title">Add a federation</h2>
@@ -33,7 +38,8 @@ function CreateFederationForm() {
       {create.error ? <ErrorNotice error={create.error} /> : null}
       {create.isSuccess ? (
         <p role="status" className="rounded-lg bg-ok-soft px-3 py-2 text-sm text-ok">
-          {create.data.federation.name} is created; {create.data.mailSent ? 'the invitation is sent to' : 'the e-mail could not be sent to'} {create.data.invitation.email}.
+          {create.data.federation.name} is created; {create.data.mailSent ? 'the invitation is sent to' : 'the e-mail could not be sent to'}{' '}
+          {create.data.invitation.email}.
         </p>
       ) : null}
       <div className="grid gap-4 sm:grid-cols-3">
@@ -44,7 +50,13 @@ function CreateFederationForm() {
         </div>
         <div className="field">
           <label htmlFor="federation-slug">Short address</label>
-          <input id="federation-slug" className="input" aria-describedby="slug-hint" aria-invalid={errors.slug ? true : undefined} {...form.register('slug')} />
+          <input
+            id="federation-slug"
+            className="input"
+            aria-describedby="slug-hint"
+            aria-invalid={errors.slug ? true : undefined}
+            {...form.register('slug')}
+          />
           <p id="slug-hint" className="text-xs text-muted">
             Used in links, e.g. gannet-bay
           </p>
@@ -52,7 +64,13 @@ function CreateFederationForm() {
         </div>
         <div className="field">
           <label htmlFor="lead-email">First lead's e-mail</label>
-          <input id="lead-email" type="email" className="input" aria-invalid={errors.leadEmail ? true : undefined} {...form.register('leadEmail')} />
+          <input
+            id="lead-email"
+            type="email"
+            className="input"
+            aria-invalid={errors.leadEmail ? true : undefined}
+            {...form.register('leadEmail')}
+          />
           {errors.leadEmail ? <p className="field-error">{errors.leadEmail.message}</p> : null}
         </div>
       </div>
@@ -82,15 +100,18 @@ function InviteLeadForm({ federations }: { federations: OwnerFederation[] }) {
         title: `Invite ${email} to lead ${federation.name}?`,
         consequence: (
           <p>
-            {federation.name} has {formatCount(federation.pendingInvitations, 'pending invitation')}. If one of them is for {email}, the new invitation replaces it:
-            the link in the earlier e-mail will stop working.
+            {federation.name} has {formatCount(federation.pendingInvitations, 'pending invitation')}. If one of them is for {email}, the new
+            invitation replaces it: the link in the earlier e-mail will stop working.
           </p>
         ),
         confirmLabel: 'Send the invitation',
       }))
     )
       return;
-    await invite.mutateAsync({ slug, body: { email } }).then(() => form.reset({ slug, email: '' }), () => undefined);
+    await invite.mutateAsync({ slug, body: { email } }).then(
+      () => form.reset({ slug, email: '' }),
+      () => undefined,
+    );
   });
   return (
     <form onSubmit={onSubmit} className="card space-y-4" noValidate aria-labelledby="invite-lead-title">
@@ -103,7 +124,9 @@ function InviteLeadForm({ federations }: { federations: OwnerFederation[] }) {
       {invite.error ? <ErrorNotice error={invite.error} /> : null}
       {invite.isSuccess ? (
         <p role="status" className="rounded-lg bg-ok-soft px-3 py-2 text-sm text-ok">
-          {invite.data.mailSent ? `Invitation sent to ${invite.data.invitation.email}.` : `Invitation stored for ${invite.data.invitation.email}, but the e-mail could not be sent.`}
+          {invite.data.mailSent
+            ? `Invitation sent to ${invite.data.invitation.email}.`
+            : `Invitation stored for ${invite.data.invitation.email}, but the e-mail could not be sent.`}
         </p>
       ) : null}
       <div className="grid gap-4 sm:grid-cols-2">
@@ -121,7 +144,14 @@ function InviteLeadForm({ federations }: { federations: OwnerFederation[] }) {
         </div>
         <div className="field">
           <label htmlFor="invite-lead-email">Lead's e-mail</label>
-          <input id="invite-lead-email" type="email" className="input" autoComplete="off" aria-invalid={errors.email ? true : undefined} {...form.register('email')} />
+          <input
+            id="invite-lead-email"
+            type="email"
+            className="input"
+            autoComplete="off"
+            aria-invalid={errors.email ? true : undefined}
+            {...form.register('email')}
+          />
           {errors.email ? <p className="field-error">{errors.email.message}</p> : null}
         </div>
       </div>
@@ -145,9 +175,25 @@ export function OwnerPage() {
   const memberOf = new Set(session.data?.memberships.map((m) => m.federation.slug));
 
   const columns: DataTableColumn<OwnerFederation>[] = [
-    { key: 'name', header: 'Federation', cell: (f) => (memberOf.has(f.slug) ? <Link to={`/f/${f.slug}`} className="text-harbour underline">{f.name}</Link> : f.name) },
+    {
+      key: 'name',
+      header: 'Federation',
+      cell: (f) =>
+        memberOf.has(f.slug) ? (
+          <Link to={`/f/${f.slug}`} className="text-harbour underline">
+            {f.name}
+          </Link>
+        ) : (
+          f.name
+        ),
+    },
     { key: 'slug', header: 'Address' },
-    { key: 'leads', header: 'Leads', align: 'right', cell: (f) => (f.leads === 0 ? <span className="font-semibold text-alert">none</span> : formatInteger(f.leads)) },
+    {
+      key: 'leads',
+      header: 'Leads',
+      align: 'right',
+      cell: (f) => (f.leads === 0 ? <span className="font-semibold text-alert">none</span> : formatInteger(f.leads)),
+    },
     { key: 'activeMembers', header: 'Active members', align: 'right' },
     { key: 'pendingInvitations', header: 'Pending invitations', align: 'right' },
   ];

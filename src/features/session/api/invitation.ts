@@ -21,7 +21,8 @@ export function useInvitation(token: string) {
 export function useAcceptInvitation(token: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: (body: AcceptNewUser | Record<string, never>) => api<AcceptResult>(`/invitations/${encodeURIComponent(token)}/accept`, { method: 'POST', body }),
+    mutationFn: (body: AcceptNewUser | Record<string, never>) =>
+      api<AcceptResult>(`/invitations/${encodeURIComponent(token)}/accept`, { method: 'POST', body }),
     onSuccess: async (result) => {
       // The accepted link now answers 410: keep its cached preview while the page is still shown,
       // so nothing asks for it again; every other query starts afresh for the new session.

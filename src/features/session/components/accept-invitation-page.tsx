@@ -21,14 +21,27 @@ export function AcceptInvitationPage() {
   const accept = useAcceptInvitation(token);
   const session = useSession();
   const navigate = useNavigate();
-  const form = useForm<AcceptNewUser>({ resolver: zodResolver(acceptNewUserSchema), defaultValues: { displayName: '', password: '', confirmPassword: '' } });
+  const form = useForm<AcceptNewUser>({
+    resolver: zodResolver(acceptNewUserSchema),
+    defaultValues: { displayName: '', password: '', confirmPassword: '' },
+  });
   const { errors } = form.formState;
   usePageTitle(invitation.data ? `Join ${invitation.data.federation.name}` : 'Invitation');
 
   if (invitation.isPending) return <Loading />;
   if (invitation.error instanceof ApiError && invitation.error.status === 410) return <ExpiredLinkPage />;
   if (accept.error instanceof ApiError && accept.error.status === 410) return <ExpiredLinkPage />;
-  if (invitation.error) return <PublicFrame><ErrorState error={invitation.error} what="The invitation" retrying={invitation.isFetching} onRetry={() => void invitation.refetch()} /></PublicFrame>;
+  if (invitation.error)
+    return (
+      <PublicFrame>
+        <ErrorState
+          error={invitation.error}
+          what="The invitation"
+          retrying={invitation.isFetching}
+          onRetry={() => void invitation.refetch()}
+        />
+      </PublicFrame>
+    );
 
   const offer = invitation.data;
   const done = (result: AcceptResult) => {
@@ -53,13 +66,21 @@ export function AcceptInvitationPage() {
           with the address <strong>{offer.email}</strong>.
         </p>
         {signedInAsOther ? (
-          <p className="caution">You are signed in as {session.data?.user.email}. The invitation is for {offer.email}: accepting it does not change who is signed in.</p>
+          <p className="caution">
+            You are signed in as {session.data?.user.email}. The invitation is for {offer.email}: accepting it does not change who is signed
+            in.
+          </p>
         ) : null}
         <FormAlert error={accept.error} />
         {offer.existingUser ? (
           <>
             <p className="text-sm text-muted">This address already has a Panelwise account: accepting adds the federation to it.</p>
-            <button type="button" className="btn btn-primary w-full justify-center" disabled={accept.isPending} onClick={() => accept.mutateAsync({}).then(done, () => undefined)}>
+            <button
+              type="button"
+              className="btn btn-primary w-full justify-center"
+              disabled={accept.isPending}
+              onClick={() => accept.mutateAsync({}).then(done, () => undefined)}
+            >
               {accept.isPending ? 'Accepting…' : 'Accept the invitation'}
             </button>
           </>
@@ -68,7 +89,13 @@ export function AcceptInvitationPage() {
             <input type="email" autoComplete="username" value={offer.email} readOnly hidden />
             <div className="field">
               <label htmlFor="display-name">Your name</label>
-              <input id="display-name" autoComplete="name" className="input" aria-invalid={errors.displayName ? true : undefined} {...form.register('displayName')} />
+              <input
+                id="display-name"
+                autoComplete="name"
+                className="input"
+                aria-invalid={errors.displayName ? true : undefined}
+                {...form.register('displayName')}
+              />
               {errors.displayName ? <p className="field-error">{errors.displayName.message}</p> : null}
             </div>
             <div className="field">
@@ -89,7 +116,14 @@ export function AcceptInvitationPage() {
             </div>
             <div className="field">
               <label htmlFor="confirm-password">Repeat the password</label>
-              <input id="confirm-password" type="password" autoComplete="new-password" className="input" aria-invalid={errors.confirmPassword ? true : undefined} {...form.register('confirmPassword')} />
+              <input
+                id="confirm-password"
+                type="password"
+                autoComplete="new-password"
+                className="input"
+                aria-invalid={errors.confirmPassword ? true : undefined}
+                {...form.register('confirmPassword')}
+              />
               {errors.confirmPassword ? <p className="field-error">{errors.confirmPassword.message}</p> : null}
             </div>
             <button type="submit" className="btn btn-primary w-full justify-center" disabled={accept.isPending}>
@@ -98,7 +132,10 @@ export function AcceptInvitationPage() {
           </form>
         )}
         <p className="text-xs text-muted">
-          Not for you? Close this page; the link stops working in time. <Link to="/sign-in" className="text-harbour underline">Sign in</Link>
+          Not for you? Close this page; the link stops working in time.{' '}
+          <Link to="/sign-in" className="text-harbour underline">
+            Sign in
+          </Link>
         </p>
       </section>
     </PublicFrame>

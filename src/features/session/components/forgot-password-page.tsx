@@ -11,7 +11,12 @@ export function ForgotPasswordPage() {
   const request = useRequestPasswordReset();
   const form = useForm<ResetRequest>({ resolver: zodResolver(resetRequestSchema), defaultValues: { email: '' } });
   const { errors } = form.formState;
-  const onSubmit = form.handleSubmit((values) => request.mutateAsync(values).then(() => undefined, () => undefined));
+  const onSubmit = form.handleSubmit((values) =>
+    request.mutateAsync(values).then(
+      () => undefined,
+      () => undefined,
+    ),
+  );
 
   return (
     <PublicFrame>
@@ -30,7 +35,14 @@ export function ForgotPasswordPage() {
           <FormAlert error={request.error} />
           <div className="field">
             <label htmlFor="email">E-mail</label>
-            <input id="email" type="email" autoComplete="username" className="input" aria-invalid={errors.email ? true : undefined} {...form.register('email')} />
+            <input
+              id="email"
+              type="email"
+              autoComplete="username"
+              className="input"
+              aria-invalid={errors.email ? true : undefined}
+              {...form.register('email')}
+            />
             {errors.email ? <p className="field-error">{errors.email.message}</p> : null}
           </div>
           <button type="submit" className="btn btn-primary w-full justify-center" disabled={request.isPending}>

@@ -21,7 +21,12 @@ export function ResetPasswordPage() {
   if (reset.isPending) return <Loading />;
   if (reset.error instanceof ApiError && reset.error.status === 410) return <ExpiredLinkPage />;
   if (save.error instanceof ApiError && save.error.status === 410) return <ExpiredLinkPage />;
-  if (reset.error) return <PublicFrame><ErrorState error={reset.error} what="The link" retrying={reset.isFetching} onRetry={() => void reset.refetch()} /></PublicFrame>;
+  if (reset.error)
+    return (
+      <PublicFrame>
+        <ErrorState error={reset.error} what="The link" retrying={reset.isFetching} onRetry={() => void reset.refetch()} />
+      </PublicFrame>
+    );
 
   const onSubmit = form.handleSubmit((values) =>
     save.mutateAsync(values).then(
@@ -57,7 +62,14 @@ export function ResetPasswordPage() {
         </div>
         <div className="field">
           <label htmlFor="confirm-password">Repeat the new password</label>
-          <input id="confirm-password" type="password" autoComplete="new-password" className="input" aria-invalid={errors.confirmPassword ? true : undefined} {...form.register('confirmPassword')} />
+          <input
+            id="confirm-password"
+            type="password"
+            autoComplete="new-password"
+            className="input"
+            aria-invalid={errors.confirmPassword ? true : undefined}
+            {...form.register('confirmPassword')}
+          />
           {errors.confirmPassword ? <p className="field-error">{errors.confirmPassword.message}</p> : null}
         </div>
         <button type="submit" className="btn btn-primary w-full justify-center" disabled={save.isPending}>
