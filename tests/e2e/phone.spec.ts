@@ -24,6 +24,10 @@ const PAGES: Record<Role, string[]> = {
     '/f/kestrel-coast/outbox',
     '/f/kestrel-coast/exports',
     '/f/kestrel-coast/imports',
+    '/f/kestrel-coast/exercises',
+    '/f/kestrel-coast/exercises/new',
+    '/f/kestrel-coast/exercises/1',
+    '/f/kestrel-coast/exercises/2',
     '/f/kestrel-coast/help',
   ],
   classifier: [
@@ -32,6 +36,8 @@ const PAGES: Record<Role, string[]> = {
     '/f/kestrel-coast/classifiers/C12',
     '/f/kestrel-coast/boundaries',
     '/f/kestrel-coast/drift',
+    '/f/kestrel-coast/exercises',
+    '/f/kestrel-coast/exercises/2',
     '/f/kestrel-coast/help',
   ],
   researcher: [

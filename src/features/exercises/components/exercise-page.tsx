@@ -9,6 +9,7 @@ import {
   type Skill,
 } from '../../../../shared/schemas/exercises';
 import { formatClass, scaleClasses } from '../../../../shared/scale';
+import { usePageTitle } from '../../../lib/page-title';
 import { useCurrentFederation } from '../../../lib/use-federation';
 import { Caution } from '../../../components/caution';
 import { DataTable } from '../../../components/data-table';
@@ -24,6 +25,7 @@ export function ExercisePage() {
   const { federation, role } = useCurrentFederation();
   const id = Number(useParams().id);
   const exercise = useExercise(federation.slug, id);
+  usePageTitle(exercise.data ? `Exercise: ${exercise.data.title}` : `Exercise ${id}`);
   if (exercise.isPending) return <Loading />;
   if (exercise.isError) return <ErrorNotice error={exercise.error} />;
   const e = exercise.data;

@@ -2,6 +2,7 @@ import { useEffect, useId, useState } from 'react';
 import { Link, useNavigate, useSearchParams } from 'react-router';
 import { SKILL_LABELS, SKILLS, type ExerciseInput, type Skill } from '../../../../shared/schemas/exercises';
 import { DEFAULT_SCALE, formatClass, scaleClasses } from '../../../../shared/scale';
+import { usePageTitle } from '../../../lib/page-title';
 import { useCurrentFederation } from '../../../lib/use-federation';
 import { ErrorNotice, Loading } from '../../../components/status';
 import { ApiError } from '../../../lib/api-client';
@@ -32,6 +33,7 @@ function fieldErrors(error: unknown): Map<string, string> {
 
 /** A lead creates a draft exercise, blank or started from a flag or a class boundary. */
 export function NewExercisePage() {
+  usePageTitle('New exercise');
   const { federation } = useCurrentFederation();
   const navigate = useNavigate();
   const [params] = useSearchParams();
