@@ -3,6 +3,7 @@ import type { Role } from '../db/database';
 import type { AppContext } from '../context';
 import { forbidden, HttpError, notFound, unauthenticated } from '../http/errors';
 import { signSessionToken, verifySessionToken } from './session-token';
+import { resolveApiToken } from '../services/api-tokens';
 
 export const SESSION_COOKIE = 'pw_session';
 /** A token older than this is re-issued on the next request (sliding renewal). */
@@ -61,13 +62,6 @@ export function sessionEndsAt(ctx: AppContext, createdAt: string): number {
   return (Number.isFinite(started) ? started : 0) + ctx.config.sessionMaxDays * 24 * 3600 * 1000;
 }
 
-/** Resolves a bearer API token to its auth; set by the tokens module. */
-export type BearerResolver = (ctx: AppContext, token: string) => Promise<TokenAuth | null>;
-let bearerResolver: BearerResolver | null = null;
-export function setBearerResolver(resolver: BearerResolver): void {
-  bearerResolver = resolver;
-}
-
 /**
  * Reads the session cookie (or a bearer API token) and sets `req.auth`. A session whose row is
  * revoked, whose user's session version moved on, that is older than the absolute lifetime
@@ -78,7 +72,7 @@ export function authenticate(ctx: AppContext): RequestHandler {
     const header = req.get('authorization');
     if (header?.startsWith('Bearer ')) {
       const token = header.slice('Bearer '.length).trim();
-      const auth = bearerResolver ? await bearerResolver(ctx, token) : null;
+      const auth = await resolveApiToken(ctx, token);
       if (!auth) throw unauthenticated('The API token is not valid');
       req.auth = auth;
       return next();

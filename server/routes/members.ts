@@ -1,11 +1,11 @@
 import { Router } from 'express';
 import { z } from 'zod';
 import { inviteSchema, memberUpdateSchema, tokenCreateSchema, type OutboxMessage } from '../../shared/schemas/access';
-import { accessOf, requireAccess, setBearerResolver } from '../auth/access';
+import { accessOf, requireAccess } from '../auth/access';
 import type { AppContext } from '../context';
 import { HttpError } from '../http/errors';
 import { parseWith } from '../http/validate';
-import { createApiToken, listApiTokens, resolveApiToken, revokeApiToken } from '../services/api-tokens';
+import { createApiToken, listApiTokens, revokeApiToken } from '../services/api-tokens';
 import { createInvitation, revokeInvitation } from '../services/invitations';
 import { listMembers, updateMember } from '../services/members';
 
@@ -38,7 +38,6 @@ export function outboxView(row: { id: number; mail_to: string; subject: string; 
  * federation. API tokens never reach these routes.
  */
 export function membersRouter(ctx: AppContext): Router {
-  setBearerResolver(resolveApiToken);
   const router = Router();
   const leads = requireAccess(ctx, { roles: ['lead'] });
   const base = '/federations/:federation';
