@@ -5,7 +5,7 @@ import { accessOf, requireAccess, type FederationAccess } from '../auth/access';
 import type { AppContext } from '../context';
 import { forbidden, HttpError } from '../http/errors';
 import { parseWith } from '../http/validate';
-import { filterKey, MIN_ATHLETES_FOR_AGGREGATES, type ViewFilters } from '../services/analytics-data';
+import { classifierCodeOf, filterKey, MIN_ATHLETES_FOR_AGGREGATES, type ViewFilters } from '../services/analytics-data';
 import { classifierDetail, classifierRows, myAgreement } from '../services/analytics';
 import {
   ensureEvaluated,
@@ -134,9 +134,9 @@ async function myAgreementOf(ctx: AppContext, access: FederationAccess, filters:
 async function ownCode(ctx: AppContext, access: FederationAccess): Promise<string> {
   if (access.role !== 'classifier' || access.classifierId === null)
     throw forbidden('Your account is not linked to a classifier of this federation');
-  const row = await ctx.db.selectFrom('classifiers').select('code').where('id', '=', access.classifierId).executeTakeFirst();
-  if (!row) throw forbidden('Your account is not linked to a classifier of this federation');
-  return row.code;
+  const found = await classifierCodeOf(ctx, access.classifierId);
+  if (found === null) throw forbidden('Your account is not linked to a classifier of this federation');
+  return found;
 }
 
 export function analyticsRouter(ctx: AppContext): Router {

@@ -1,73 +1,17 @@
 import { Router } from 'express';
-import type { FederationSummary } from '../../shared/schemas/federation';
 import { accessOf, requireAccess } from '../auth/access';
 import type { AppContext } from '../context';
-import { dayToIsoDate } from '../analysis';
-import { federationData, researchBaseSet } from '../services/analytics-data';
-import { federationK, isResearchView } from '../services/research-cells';
+import { federationSummary } from '../services/federation-summary';
 
 export function federationsRouter(ctx: AppContext): Router {
   const router = Router();
 
-  /**
-   * Counts for the federation's overview; open to every role (no identities in it). Researchers
-   * and read tokens get the counts and the first and last month of the data they may see (the
-   * federation without its cells of fewer than k athletes), never a date.
-   */
+  /** Counts for the federation's overview; open to every role (no identities in it). */
   router.get(
     '/federations/:federation/summary',
     requireAccess(ctx, { roles: ['lead', 'classifier', 'researcher'], tokenScopes: ['read'] }),
     async (req, res) => {
-      const access = accessOf(req);
-      const { federation } = access;
-      const count = async (table: 'athletes' | 'classifiers' | 'events' | 'assessments') =>
-        Number(
-          (
-            await ctx.db
-              .selectFrom(table)
-              .select((eb) => eb.fn.countAll<number>().as('n'))
-              .where('federation_id', '=', federation.id)
-              .executeTakeFirstOrThrow()
-          ).n,
-        );
-      const ratings = await ctx.db
-        .selectFrom('ratings')
-        .innerJoin('assessments', 'assessments.id', 'ratings.assessment_id')
-        .select((eb) => eb.fn.countAll<number>().as('n'))
-        .where('assessments.federation_id', '=', federation.id)
-        .executeTakeFirstOrThrow();
-      const span = await ctx.db
-        .selectFrom('assessments')
-        .select((eb) => [eb.fn.min('assessed_on').as('first'), eb.fn.max('assessed_on').as('last')])
-        .where('federation_id', '=', federation.id)
-        .executeTakeFirstOrThrow();
-      const body: FederationSummary = {
-        federation: { slug: federation.slug, name: federation.name, scale: { min: federation.scaleMin, max: federation.scaleMax } },
-        counts: {
-          athletes: await count('athletes'),
-          classifiers: await count('classifiers'),
-          events: await count('events'),
-          assessments: await count('assessments'),
-          ratings: Number(ratings.n),
-        },
-        firstAssessment: span.first ?? null,
-        lastAssessment: span.last ?? null,
-      };
-      if (isResearchView(access)) {
-        const data = federationData(ctx, { id: federation.id, scaleMin: federation.scaleMin, scaleMax: federation.scaleMax });
-        const set = researchBaseSet(ctx, data, federation.id, federationK(ctx.sqlite, federation.id));
-        let first = Infinity;
-        let last = -Infinity;
-        for (let a = 0; a < set.assessmentCount; a++) {
-          first = Math.min(first, set.day[a]);
-          last = Math.max(last, set.day[a]);
-        }
-        body.counts.assessments = set.assessmentCount;
-        body.counts.ratings = set.ratingCount;
-        body.firstAssessment = set.assessmentCount > 0 ? dayToIsoDate(first).slice(0, 7) : null;
-        body.lastAssessment = set.assessmentCount > 0 ? dayToIsoDate(last).slice(0, 7) : null;
-      }
-      res.json(body);
+      res.json(await federationSummary(ctx, accessOf(req)));
     },
   );
 

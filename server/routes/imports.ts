@@ -18,7 +18,7 @@ import { parseWith } from '../http/validate';
 import { toBatchIssue } from '../imports/api-batch';
 import { progressReporter, streamProgress, JOB_ID } from '../imports/progress';
 import { BatchRefused, discardImport, importBatch, importView, listImports, MAX_UPLOAD_BYTES, takeUpload } from '../imports/service';
-import { audit } from '../services/audit';
+import { deleteMapping, listMappings, saveMapping, type MappingRow } from '../services/import-mappings';
 
 const uploadFolder = path.join(os.tmpdir(), 'panelwise-uploads');
 
@@ -95,14 +95,7 @@ function uploadOptions(body: unknown) {
   );
 }
 
-function mappingView(row: {
-  id: number;
-  name: string;
-  layout: 'long' | 'wide';
-  mapping: string;
-  date_format: string;
-  updated_at: string;
-}): SavedMapping {
+function mappingView(row: MappingRow): SavedMapping {
   return {
     id: row.id,
     name: row.name,
@@ -213,60 +206,21 @@ export function importsRouter(ctx: AppContext): Router {
     streamProgress(res, federation.id, userId, job);
   });
 
-  router.get(`${base}/import-mappings`, leads, (req, res) => {
-    const { federation } = accessOf(req);
-    const rows = ctx.sqlite
-      .prepare('select id, name, layout, mapping, date_format, updated_at from import_mappings where federation_id = ? order by name')
-      .all(federation.id) as Parameters<typeof mappingView>[0][];
-    res.json({ mappings: rows.map(mappingView) });
+  router.get(`${base}/import-mappings`, leads, async (req, res) => {
+    res.json({ mappings: (await listMappings(ctx, accessOf(req).federation.id)).map(mappingView) });
   });
 
   router.post(`${base}/import-mappings`, leads, async (req, res) => {
     const { federation, userId } = accessOf(req);
     const input = parseWith(saveMappingSchema, req.body);
-    const layout = Object.values(input.mapping).some((t) => t.startsWith('classifier:') || t.startsWith('seat')) ? 'wide' : 'long';
-    const existing = ctx.sqlite
-      .prepare('select id from import_mappings where federation_id = ? and name = ?')
-      .pluck()
-      .get(federation.id, input.name) as number | undefined;
-    if (existing !== undefined) {
-      ctx.sqlite
-        .prepare(
-          "update import_mappings set layout = ?, mapping = ?, date_format = ?, user_id = ?, updated_at = strftime('%Y-%m-%dT%H:%M:%fZ','now') where id = ?",
-        )
-        .run(layout, JSON.stringify(input.mapping), input.dateFormat, userId, existing);
-    } else {
-      ctx.sqlite
-        .prepare('insert into import_mappings (federation_id, name, layout, mapping, date_format, user_id) values (?, ?, ?, ?, ?, ?)')
-        .run(federation.id, input.name, layout, JSON.stringify(input.mapping), input.dateFormat, userId);
-    }
-    const row = ctx.sqlite
-      .prepare('select id, name, layout, mapping, date_format, updated_at from import_mappings where federation_id = ? and name = ?')
-      .get(federation.id, input.name) as Parameters<typeof mappingView>[0];
-    await audit(ctx.db, {
-      federationId: federation.id,
-      userId,
-      action: existing === undefined ? 'import_mapping.create' : 'import_mapping.update',
-      entity: 'import_mapping',
-      entityId: row.id,
-      detail: { name: input.name },
-    });
-    res.status(existing === undefined ? 201 : 200).json(mappingView(row));
+    const { row, created } = await saveMapping(ctx, federation.id, userId, input);
+    res.status(created ? 201 : 200).json(mappingView(row));
   });
 
   router.delete(`${base}/import-mappings/:mappingId`, leads, async (req, res) => {
     const { federation, userId } = accessOf(req);
     const id = mappingIdParam.safeParse(req.params.mappingId);
-    if (!id.success) throw notFound('The saved mapping');
-    const result = ctx.sqlite.prepare('delete from import_mappings where id = ? and federation_id = ?').run(id.data, federation.id);
-    if (result.changes === 0) throw notFound('The saved mapping');
-    await audit(ctx.db, {
-      federationId: federation.id,
-      userId,
-      action: 'import_mapping.delete',
-      entity: 'import_mapping',
-      entityId: id.data,
-    });
+    if (!id.success || !(await deleteMapping(ctx, federation.id, userId, id.data))) throw notFound('The saved mapping');
     res.status(204).end();
   });
 

@@ -1,36 +1,16 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import { inviteSchema, memberUpdateSchema, tokenCreateSchema, type OutboxMessage } from '../../shared/schemas/access';
+import { inviteSchema, memberUpdateSchema, tokenCreateSchema } from '../../shared/schemas/access';
 import { accessOf, requireAccess } from '../auth/access';
 import type { AppContext } from '../context';
 import { HttpError } from '../http/errors';
 import { parseWith } from '../http/validate';
 import { createApiToken, listApiTokens, revokeApiToken } from '../services/api-tokens';
 import { createInvitation, revokeInvitation } from '../services/invitations';
+import { outboxEnabled, outboxMessages } from '../services/outbox';
 import { listMembers, updateMember } from '../services/members';
 
 const idParam = z.coerce.number().int().positive();
-
-/** Links in a message's text, for the Outbox. */
-export function linksIn(text: string): string[] {
-  return [...new Set(text.match(/https?:\/\/[^\s<>"')]+/g) ?? [])];
-}
-
-/** Whether the local Outbox may be read: never in production. */
-export function outboxEnabled(ctx: AppContext): boolean {
-  return ctx.config.env !== 'production';
-}
-
-export function outboxView(row: { id: number; mail_to: string; subject: string; text_body: string; received_at: string }): OutboxMessage {
-  return {
-    id: row.id,
-    to: row.mail_to,
-    subject: row.subject,
-    text: row.text_body,
-    links: linksIn(row.text_body),
-    receivedAt: row.received_at,
-  };
-}
 
 /**
  * A federation's people and systems, for its leads: members (role, roster link, deactivation),
@@ -89,14 +69,7 @@ export function membersRouter(ctx: AppContext): Router {
 
   router.get(`${base}/outbox`, leads, async (req, res) => {
     if (!outboxEnabled(ctx)) throw new HttpError(404, 'not_found', 'The Outbox is only available outside production');
-    const rows = await ctx.db
-      .selectFrom('outbox_messages')
-      .select(['id', 'mail_to', 'subject', 'text_body', 'received_at'])
-      .where('federation_slug', '=', accessOf(req).federation.slug)
-      .orderBy('id', 'desc')
-      .limit(200)
-      .execute();
-    res.json({ messages: rows.map(outboxView) });
+    res.json({ messages: await outboxMessages(ctx, accessOf(req).federation.slug) });
   });
 
   return router;

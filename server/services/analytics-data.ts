@@ -280,3 +280,9 @@ export function athletesInFilter(ctx: AppContext, data: FederationData, federati
     return new Set(set.athlete).size;
   });
 }
+
+/** The roster code of a classifier (by id), or null when there is none. */
+export async function classifierCodeOf(ctx: AppContext, classifierId: number): Promise<string | null> {
+  const row = await ctx.db.selectFrom('classifiers').select('code').where('id', '=', classifierId).executeTakeFirst();
+  return row?.code ?? null;
+}
