@@ -22,9 +22,6 @@ export interface ClassScale {
 
 export const DEFAULT_SCALE: ClassScale = Object.freeze({ min: 2, max: 9 });
 
-/** The scale with one extra class above 4.5 (5.0), for leagues that use it. */
-export const EXTENDED_SCALE: ClassScale = Object.freeze({ min: 2, max: 10 });
-
 /** Number of classes on the scale (8 for the default). */
 export function classCount(scale: ClassScale = DEFAULT_SCALE): number {
   return scale.max - scale.min + 1;
@@ -45,11 +42,6 @@ export function classIndex(halfPoints: HalfPoints, scale: ClassScale = DEFAULT_S
 /** The class written as people write it: 3 → "1.5", 8 → "4.0". */
 export function formatClass(halfPoints: HalfPoints): string {
   return (halfPoints / 2).toFixed(1);
-}
-
-/** Half points to the class as a number of points (for display and charts only). */
-export function toPoints(halfPoints: HalfPoints): number {
-  return halfPoints / 2;
 }
 
 export function isOnScale(halfPoints: number, scale: ClassScale = DEFAULT_SCALE): boolean {

@@ -132,11 +132,6 @@ export function requireSession(req: Request): SessionAuth {
   return req.auth;
 }
 
-export const signedIn: RequestHandler = (req, _res, next) => {
-  requireSession(req);
-  next();
-};
-
 export interface AccessRule {
   /** Roles that may use the route. */
   roles: readonly Role[];

@@ -17,9 +17,6 @@ import { KIND_CODES, type BatchCore } from '../imports/batch';
 import { readCsvCore, readCsvText } from '../imports/csv-reader';
 import { problemOf } from '../imports/issues';
 
-export const REQUIRED_COLUMNS = ['assessment_id', 'athlete_code', 'event_code', 'assessed_on', 'classifier_code', 'sport_class'] as const;
-export const OPTIONAL_COLUMNS = ['panel_class', 'kind'] as const;
-
 export class TidyCsvError extends Error {
   readonly file: string;
   /** 1-based data row (the header is not counted), or null for a file-level problem. */

@@ -1,4 +1,5 @@
 import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
+import type { Role } from '../../shared/schemas/common';
 
 /**
  * The database's tables, in one place. Classes are integers of half points (see shared/scale.ts);
@@ -27,7 +28,8 @@ export interface UserTable {
   created_at: CreatedAt;
 }
 
-export type Role = 'lead' | 'classifier' | 'researcher';
+/** The roles, defined once in shared/ (the zod schema of the API). */
+export type { Role };
 
 export interface MembershipTable {
   id: Generated<number>;

@@ -79,14 +79,6 @@ export function cached<T>(ctx: AppContext, federationId: number, key: string, co
   return value;
 }
 
-/**
- * Forgets every cached result of a context in this thread. Results shared by the pool are keyed on
- * the data version: after changing data without an import, bump `ctx.dataVersions` instead.
- */
-export function clearAnalyticsCache(ctx: AppContext): void {
-  caches.delete(ctx);
-}
-
 interface JoinedRow {
   external_id: string;
   athlete_code: string;
