@@ -15,31 +15,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { apiRouter } from '../../server/routes/index';
 import { createApiToken } from '../../server/services/api-tokens';
 import { JSON_LIMITS } from '../../server/http/json-body';
+import { routesOf } from '../helpers/router-routes';
 import { createTestApp, signedInAgent, type TestApp } from '../helpers/test-app';
 import type { AccessEntry } from './access/types';
-
-interface Layer {
-  route?: { path: unknown; methods: Record<string, boolean> };
-  handle?: { stack?: Layer[] };
-  rawPath?: unknown;
-  slash?: boolean;
-}
-
-/** Every (method, path) registered on a router, nested routers included (as the matrix walks it). */
-function registeredRoutes(router: { stack: Layer[] }, prefix = ''): { method: string; path: string }[] {
-  const out: { method: string; path: string }[] = [];
-  for (const layer of router.stack) {
-    if (layer.route) {
-      const paths = Array.isArray(layer.route.path) ? layer.route.path : [layer.route.path];
-      for (const p of paths)
-        for (const [method, on] of Object.entries(layer.route.methods)) if (on) out.push({ method, path: prefix + String(p) });
-    } else if (layer.handle?.stack) {
-      const mount = layer.slash || layer.rawPath === undefined || layer.rawPath === '/' ? '' : String(layer.rawPath);
-      out.push(...registeredRoutes(layer.handle as { stack: Layer[] }, prefix + mount));
-    }
-  }
-  return out;
-}
 
 async function matrixEntries(): Promise<AccessEntry[]> {
   const folder = path.resolve(import.meta.dirname, 'access');
@@ -132,7 +110,7 @@ function concretePath(entry: AccessEntry): string {
 
 describe('fuzzed JSON on every write route', () => {
   it('finds the write routes on the router, each with a matrix entry', () => {
-    const routes = registeredRoutes(apiRouter(t.ctx) as unknown as { stack: Layer[] }).filter((r) => WRITE.has(r.method));
+    const routes = routesOf(apiRouter(t.ctx)).filter((r) => WRITE.has(r.method));
     expect(routes.length).toBeGreaterThan(15);
     const known = new Set(entries.map((e) => `${e.method} /api${e.path.slice(4)}`));
     for (const r of routes) expect(known, `${r.method} /api${r.path}`).toContain(`${r.method} /api${r.path}`);

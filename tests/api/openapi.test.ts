@@ -9,35 +9,13 @@ import { Router } from 'express';
 import { z } from 'zod';
 import { apiRouteDocs, apiRouter } from '../../server/routes/index';
 import { ApiDescription, missingSchemas, openApiPath, type RouteDoc } from '../../server/openapi/registry';
+import { routesOf } from '../helpers/router-routes';
 import { createTestApp, type TestApp } from '../helpers/test-app';
-
-interface Layer {
-  route?: { path: unknown; methods: Record<string, boolean> };
-  handle?: { stack?: Layer[] };
-  rawPath?: unknown;
-  slash?: boolean;
-}
-
-/** Every (method, path) on a router, nested routers included (as the access matrix walks it). */
-function routesOf(router: { stack: Layer[] }, prefix = ''): { method: string; path: string }[] {
-  const out: { method: string; path: string }[] = [];
-  for (const layer of router.stack) {
-    if (layer.route) {
-      const paths = Array.isArray(layer.route.path) ? layer.route.path : [layer.route.path];
-      for (const p of paths)
-        for (const [method, on] of Object.entries(layer.route.methods)) if (on) out.push({ method, path: prefix + String(p) });
-    } else if (layer.handle?.stack) {
-      const mount = layer.slash || layer.rawPath === undefined || layer.rawPath === '/' ? '' : String(layer.rawPath);
-      out.push(...routesOf(layer.handle as { stack: Layer[] }, prefix + mount));
-    }
-  }
-  return out;
-}
 
 /** The routes of `router` (mounted under /api) whose description is missing or incomplete. */
 function incompleteRoutes(router: Router, description: ApiDescription): string[] {
   const out: string[] = [];
-  for (const r of routesOf(router as unknown as { stack: Layer[] })) {
+  for (const r of routesOf(router)) {
     const path = `/api${r.path}`;
     const doc = description.get(r.method, path);
     if (!doc) out.push(`${r.method.toUpperCase()} ${path} is not described`);
@@ -64,7 +42,7 @@ describe('OpenAPI document', () => {
   });
 
   it('describes every route of the Express router', () => {
-    const routes = routesOf(apiRouter(t.ctx) as unknown as { stack: Layer[] }).map((r) => ({
+    const routes = routesOf(apiRouter(t.ctx)).map((r) => ({
       method: r.method,
       path: openApiPath(`/api${r.path}`),
     }));
