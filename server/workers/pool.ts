@@ -68,9 +68,11 @@ export interface PoolOptions {
   queueTimeoutMs: number;
   /** How long a task that only reads may run before it is stopped (its worker restarted) and answered with a 503. */
   runTimeoutMs: number;
+  /** How much lower than the main thread's the workers' scheduling priority is (nice steps; Linux only; 0 keeps it). */
+  nice: number;
 }
 
-/** Defaults from the environment: POOL_THREADS (default: the cores, at least 2), POOL_QUEUE_TIMEOUT_MS, … */
+/** Defaults from the environment: POOL_THREADS (default: the cores, at least 2), POOL_NICE (default 10), POOL_QUEUE_TIMEOUT_MS, … */
 export function poolOptionsFromEnv(env: NodeJS.ProcessEnv = process.env): PoolOptions {
   const num = (name: string, fallback: number) => {
     const v = Number(env[name]);
@@ -84,6 +86,7 @@ export function poolOptionsFromEnv(env: NodeJS.ProcessEnv = process.env): PoolOp
     maxQueuePerFederation: Math.floor(num('POOL_MAX_QUEUE_PER_FEDERATION', 100)),
     queueTimeoutMs: num('POOL_QUEUE_TIMEOUT_MS', 20_000),
     runTimeoutMs: num('POOL_RUN_TIMEOUT_MS', 120_000),
+    nice: env.POOL_NICE === '0' ? 0 : Math.min(19, Math.floor(num('POOL_NICE', 10))),
   };
 }
 
@@ -226,7 +229,7 @@ function inlineExecutor(getCtx: () => AppContext): Executor {
 }
 
 /** Worker threads through piscina; TypeScript is loaded in each worker with tsx. */
-function workerExecutor(setup: WorkerSetup, threads: number): Executor {
+function workerExecutor(setup: WorkerSetup, threads: number, nice: number): Executor {
   const piscina = new Piscina({
     filename: new URL('./worker.ts', import.meta.url).href,
     minThreads: threads,
@@ -235,7 +238,7 @@ function workerExecutor(setup: WorkerSetup, threads: number): Executor {
     idleTimeout: Number.POSITIVE_INFINITY,
     concurrentTasksPerWorker: 1,
     execArgv: ['--import', import.meta.resolve('tsx')],
-    workerData: setup,
+    workerData: { ...setup, nice } satisfies WorkerSetup,
   });
   return {
     kind: 'workers',
@@ -404,5 +407,5 @@ export function createInlinePool(getCtx: () => AppContext, options: Partial<Pool
 export function createPool(getCtx: () => AppContext, setup: WorkerSetup, options: Partial<PoolOptions> = {}): TaskPool {
   const resolved = { ...poolOptionsFromEnv(), ...options };
   if (setup.databasePath === ':memory:' || process.env.POOL_THREADS === '0') return createInlinePool(getCtx, options);
-  return makePool(getCtx, workerExecutor(setup, resolved.threads), resolved);
+  return makePool(getCtx, workerExecutor(setup, resolved.threads, resolved.nice), resolved);
 }

@@ -46,4 +46,6 @@ export interface WorkerSetup {
   env: 'development' | 'production' | 'test';
   /** Whether the app has a mailer (messages are relayed to it), and whether it is the local outbox. */
   mailer: { local: boolean } | null;
+  /** Nice steps the worker lowers its own thread's priority by (set by the pool). */
+  nice?: number;
 }

@@ -5,6 +5,7 @@
  * context on that connection. Data versions follow the main thread's (each task carries its
  * federation's version); data changes and e-mail made by a task go back with its result.
  */
+import os from 'node:os';
 import { threadId } from 'node:worker_threads';
 import { workerData } from 'piscina';
 import { loadConfig } from '../config';
@@ -20,6 +21,22 @@ import type { ProgressMessage, SerializedError, TaskMessage, TaskOutcome, Worker
 import { taskSpec } from './tasks';
 
 const setup = workerData as WorkerSetup;
+
+/**
+ * Heavy work yields the CPU to the requests: on Linux, setpriority(0) applies to the calling
+ * thread only, so this worker runs at a lower priority (nice) than the main thread, which then
+ * answers at once even when every core is busy with tasks (decision record 0011). Elsewhere it
+ * would lower the whole process, so it is left alone.
+ */
+function lowerPriority(nice: number): void {
+  if (process.platform !== 'linux' || nice <= 0) return;
+  try {
+    os.setPriority(0, Math.min(19, os.getPriority(0) + nice));
+  } catch {
+    // Not permitted here: the worker keeps the process's priority.
+  }
+}
+lowerPriority(setup.nice ?? 0);
 
 interface Current {
   bumped: number[];
