@@ -48,7 +48,9 @@ async function build() {
     target: 'node20',
     outfile: out,
     metafile: true,
-    external: ['better-sqlite3'],
+    // The operator's commands never run from the bundle (below): leaving them out keeps the
+    // database layer and the password-strength dictionaries out of every `analyze` start.
+    external: ['better-sqlite3', './ops-commands'],
     logLevel: 'silent',
     absWorkingDir: root,
   });
@@ -89,7 +91,7 @@ if (!ready && !operator) {
 }
 if (ready) {
   const cli = await import(pathToFileURL(bundle).href);
-  process.exitCode = cli.main(process.argv.slice(2));
+  process.exitCode = await cli.main(process.argv.slice(2));
 } else {
   viaTsx();
 }
