@@ -49,6 +49,9 @@ afterAll(async () => {
 
 const get = (url: string) => fetch(origin + url, { headers: { cookie } });
 
+/** The nice value of a thread from its /proc stat line (field 19; the name in parentheses may hold spaces). */
+const niceOf = (statPath: string) => Number(fs.readFileSync(statPath, 'utf8').split(') ')[1].split(' ')[16]);
+
 describe('the worker pool on a database file', () => {
   it('computes a cold overview in a worker thread while the event loop keeps answering /api/health', async () => {
     expect(t.ctx.pool.stats().kind).toBe('workers');
@@ -73,6 +76,16 @@ describe('the worker pool on a database file', () => {
     const threads = Object.keys(t.ctx.pool.stats().byThread).map(Number);
     expect(threads.length).toBeGreaterThan(0);
     expect(threads).not.toContain(0);
+  });
+
+  it.runIf(process.platform === 'linux')('runs its workers at a lower priority than the thread that answers requests', async () => {
+    expect((await get(`${base}/overview`)).status).toBe(200);
+    // The thread running this test is the app's event loop; the pool's workers lowered their own priority (POOL_NICE, default 10).
+    const own = niceOf('/proc/thread-self/stat');
+    const tasks = fs.readdirSync('/proc/self/task').map((tid) => niceOf(`/proc/self/task/${tid}/stat`));
+    const lowered = tasks.filter((nice) => nice === Math.min(19, own + 10)).length;
+    expect(lowered).toBeGreaterThanOrEqual(Object.keys(t.ctx.pool.stats().byThread).length);
+    expect(lowered).toBeGreaterThan(0);
   });
 
   it('shares one computation between callers of the same cold view', async () => {
