@@ -18,7 +18,7 @@ import {
 import type { FederationAccess } from '../auth/access';
 import type { AppContext } from '../context';
 import { HttpError, notFound } from '../http/errors';
-import { audit } from '../services/audit';
+import { auditSync } from '../services/audit';
 import { bumpDataVersion } from '../services/data-version';
 import type { ValidatedBatch } from './batch';
 import { readBatchItems, toBatchIssue } from './api-batch';
@@ -192,9 +192,16 @@ export async function expireStagedImports(ctx: AppContext, options: { now?: Date
     const changed = ctx.sqlite.transaction(() => {
       const result = ctx.sqlite.prepare("update imports set status = 'expired' where id = ? and status = 'staged'").run(row.id);
       if (result.changes === 1)
-        auditSync(ctx, row.federation_id, null, 'import.expire', row.id, {
-          expiredAt: now.toISOString(),
-          days: options.days ?? STAGED_IMPORT_DAYS,
+        auditSync(ctx.sqlite, {
+          federationId: row.federation_id,
+          userId: null,
+          action: 'import.expire',
+          entity: 'import',
+          entityId: row.id,
+          detail: {
+            expiredAt: now.toISOString(),
+            days: options.days ?? STAGED_IMPORT_DAYS,
+          },
         });
       return result.changes === 1;
     })();
@@ -253,7 +260,14 @@ export async function commitImport(
       ctx.sqlite
         .prepare("update imports set status = 'committed', counts = ?, committed_at = strftime('%Y-%m-%dT%H:%M:%fZ','now') where id = ?")
         .run(JSON.stringify(written.plan.counts), importId);
-      auditSync(ctx, federation.id, userId, 'import.commit', importId, { counts: written.plan.counts });
+      auditSync(ctx.sqlite, {
+        federationId: federation.id,
+        userId,
+        action: 'import.commit',
+        entity: 'import',
+        entityId: importId,
+        detail: { counts: written.plan.counts },
+      });
       return { counts: written.plan.counts };
     })
     .immediate();
@@ -280,20 +294,6 @@ export async function commitImport(
   // that should not hold up the answer to the lead.
   bumpDataVersion(ctx, federation.id);
   return view;
-}
-
-/** The audit entry, written with the raw connection inside its synchronous transaction. */
-function auditSync(
-  ctx: AppContext,
-  federationId: number,
-  userId: number | null,
-  action: string,
-  importId: number,
-  detail: Record<string, unknown>,
-): void {
-  ctx.sqlite
-    .prepare("insert into audit_log (federation_id, user_id, action, entity, entity_id, detail) values (?, ?, ?, 'import', ?, ?)")
-    .run(federationId, userId, action, String(importId), JSON.stringify(detail));
 }
 
 /** Why an import cannot be reverted now, or null. */
@@ -328,7 +328,14 @@ export async function revertImport(
         ctx.sqlite
           .prepare("update imports set status = 'reverted', reverted_at = strftime('%Y-%m-%dT%H:%M:%fZ','now') where id = ?")
           .run(importId);
-        auditSync(ctx, federation.id, userId, 'import.revert', importId, { counts: JSON.parse(again.counts) as unknown });
+        auditSync(ctx.sqlite, {
+          federationId: federation.id,
+          userId,
+          action: 'import.revert',
+          entity: 'import',
+          entityId: importId,
+          detail: { counts: JSON.parse(again.counts) as unknown },
+        });
       })
       .immediate();
   } catch (error) {
@@ -348,8 +355,11 @@ export async function discardImport(ctx: AppContext, federation: Federation, use
   const row = importRow(ctx, federation.id, importId);
   if (row.status !== 'staged')
     throw new HttpError(409, 'conflict', `The import is ${row.status}: only a checked file waiting to be committed can be discarded`);
-  ctx.sqlite.prepare("update imports set status = 'discarded' where id = ? and status = 'staged'").run(importId);
-  await audit(ctx.db, { federationId: federation.id, userId, action: 'import.discard', entity: 'import', entityId: importId });
+  ctx.sqlite.transaction(() => {
+    const result = ctx.sqlite.prepare("update imports set status = 'discarded' where id = ? and status = 'staged'").run(importId);
+    if (result.changes === 1)
+      auditSync(ctx.sqlite, { federationId: federation.id, userId, action: 'import.discard', entity: 'import', entityId: importId });
+  })();
   await removeStaged(ctx, importId);
 }
 
@@ -459,7 +469,14 @@ export function importBatch(
       const written = writeBatch(ctx, federation.id, importId, batch, options.addClassifiers);
       if (written.issues.errorCount > 0) throw new BatchRefused(written.issues);
       ctx.sqlite.prepare('update imports set counts = ? where id = ?').run(JSON.stringify(written.plan.counts), importId);
-      auditSync(ctx, federation.id, userId, 'import.commit', importId, { source: 'api', counts: written.plan.counts });
+      auditSync(ctx.sqlite, {
+        federationId: federation.id,
+        userId,
+        action: 'import.commit',
+        entity: 'import',
+        entityId: importId,
+        detail: { source: 'api', counts: written.plan.counts },
+      });
       return { importId, counts: written.plan.counts };
     })
     .immediate();

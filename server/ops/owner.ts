@@ -34,12 +34,15 @@ export async function createOwner(
     );
   }
   const passwordHash = await hashPassword(input.password);
-  const row = await db
-    .insertInto('users')
-    .values({ email: email.data, display_name: name.data, password_hash: passwordHash, is_owner: 1 })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  await audit(db, { userId: null, action: 'owner.create', entity: 'user', entityId: row.id, detail: { via: 'command line' } });
+  const row = await db.transaction().execute(async (trx) => {
+    const created = await trx
+      .insertInto('users')
+      .values({ email: email.data, display_name: name.data, password_hash: passwordHash, is_owner: 1 })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    await audit(trx, { userId: null, action: 'owner.create', entity: 'user', entityId: created.id, detail: { via: 'command line' } });
+    return created;
+  });
   return { id: row.id, email: email.data };
 }
 

@@ -7,7 +7,6 @@ import { signSessionToken } from '../auth/session-token';
 import type { AppContext } from '../context';
 import { HttpError } from '../http/errors';
 import { parseWith } from '../http/validate';
-import { audit } from '../services/audit';
 import { createSessionRow, revokeSession, sessionView, setPasswordHash, userByEmail } from '../services/sessions';
 
 /** Creates a session row and sets its signed cookie. */
@@ -30,7 +29,6 @@ export function sessionRouter(ctx: AppContext): Router {
       await setPasswordHash(ctx, user.id, await hashPassword(password));
     }
     await startSession(ctx, res, user.id, user.session_version);
-    await audit(ctx.db, { userId: user.id, action: 'session.start', entity: 'user', entityId: user.id });
     res.status(201).json(await sessionView(ctx, user.id));
   });
 

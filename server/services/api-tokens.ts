@@ -48,25 +48,28 @@ export async function createApiToken(
   userId: number | null,
 ): Promise<CreatedToken> {
   const { token, hash } = newSecret(TOKEN_PREFIX);
-  const row = await ctx.db
-    .insertInto('api_tokens')
-    .values({
-      federation_id: federationId,
-      name: input.name,
-      scope: input.scope,
-      token_hash: hash,
-      token_prefix: token.slice(0, TOKEN_PREFIX.length + 6),
-      created_by: userId,
-    })
-    .returning('id')
-    .executeTakeFirstOrThrow();
-  await audit(ctx.db, {
-    federationId,
-    userId,
-    action: 'api_token.create',
-    entity: 'api_token',
-    entityId: row.id,
-    detail: { scope: input.scope, name: input.name },
+  const row = await ctx.db.transaction().execute(async (trx) => {
+    const created = await trx
+      .insertInto('api_tokens')
+      .values({
+        federation_id: federationId,
+        name: input.name,
+        scope: input.scope,
+        token_hash: hash,
+        token_prefix: token.slice(0, TOKEN_PREFIX.length + 6),
+        created_by: userId,
+      })
+      .returning('id')
+      .executeTakeFirstOrThrow();
+    await audit(trx, {
+      federationId,
+      userId,
+      action: 'api_token.create',
+      entity: 'api_token',
+      entityId: created.id,
+      detail: { scope: input.scope, name: input.name },
+    });
+    return created;
   });
   const view = (await listApiTokens(ctx, federationId)).find((t) => t.id === row.id);
   if (!view) throw new HttpError(500, 'internal', 'The token was not stored');
@@ -74,15 +77,17 @@ export async function createApiToken(
 }
 
 export async function revokeApiToken(ctx: AppContext, federationId: number, tokenId: number, userId: number): Promise<void> {
-  const result = await ctx.db
-    .updateTable('api_tokens')
-    .set({ revoked_at: nowIso() })
-    .where('id', '=', tokenId)
-    .where('federation_id', '=', federationId)
-    .where('revoked_at', 'is', null)
-    .executeTakeFirst();
-  if (Number(result.numUpdatedRows) === 0) throw new HttpError(404, 'not_found', 'No active API token with this id');
-  await audit(ctx.db, { federationId, userId, action: 'api_token.revoke', entity: 'api_token', entityId: tokenId });
+  await ctx.db.transaction().execute(async (trx) => {
+    const result = await trx
+      .updateTable('api_tokens')
+      .set({ revoked_at: nowIso() })
+      .where('id', '=', tokenId)
+      .where('federation_id', '=', federationId)
+      .where('revoked_at', 'is', null)
+      .executeTakeFirst();
+    if (Number(result.numUpdatedRows) === 0) throw new HttpError(404, 'not_found', 'No active API token with this id');
+    await audit(trx, { federationId, userId, action: 'api_token.revoke', entity: 'api_token', entityId: tokenId });
+  });
 }
 
 /** The bearer resolver: a live token of a federation, with its scope; null for anything else. */

@@ -35,7 +35,7 @@ import {
   type FlagUpdate,
 } from '../../shared/schemas/analytics';
 import { federationData } from './analytics-data';
-import { audit } from './audit';
+import { audit, auditSync } from './audit';
 import { dataVersion, onDataChange } from './data-version';
 
 // ---------------------------------------------------------------------------------------------
@@ -457,17 +457,20 @@ export async function evaluateFlags(ctx: AppContext, federationId: number, optio
           }
         }
       }
+      if (opened.length > 0)
+        auditSync(ctx.sqlite, { federationId, action: 'flags.opened', entity: 'calibration_flag', detail: { count: opened.length } });
+      if (lapsed.length > 0)
+        auditSync(ctx.sqlite, {
+          federationId,
+          action: 'flags.lapsed',
+          entity: 'calibration_flag',
+          detail: { count: lapsed.length, cause },
+        });
     })
     .immediate();
   markEvaluated(ctx, federationId, version);
 
-  if (opened.length > 0 || lapsed.length > 0) {
-    if (opened.length > 0)
-      await audit(ctx.db, { federationId, action: 'flags.opened', entity: 'calibration_flag', detail: { count: opened.length } });
-    if (lapsed.length > 0)
-      await audit(ctx.db, { federationId, action: 'flags.lapsed', entity: 'calibration_flag', detail: { count: lapsed.length, cause } });
-    if (th.notifyLead) await notifyLeads(ctx, federation, opened, lapsed);
-  }
+  if ((opened.length > 0 || lapsed.length > 0) && th.notifyLead) await notifyLeads(ctx, federation, opened, lapsed);
   return { opened: opened.length, updated, lapsed: lapsed.length, evaluatedAt: now };
 }
 

@@ -651,18 +651,22 @@ export async function openExercise(ctx: AppContext, federation: Federation, id: 
 
 /** Closes an open exercise and e-mails each assigned classifier that the results are out. */
 export async function closeExercise(ctx: AppContext, federationId: number, id: number, userId: number | null, now: Date): Promise<void> {
-  const changed = await ctx.db
-    .updateTable('exercises')
-    .set({ status: 'closed', closed_at: now.toISOString() })
-    .where('id', '=', id)
-    .where('federation_id', '=', federationId)
-    .where('status', '=', 'open')
-    .executeTakeFirst();
-  if (Number(changed.numUpdatedRows) === 0) {
+  const closed = await ctx.db.transaction().execute(async (trx) => {
+    const changed = await trx
+      .updateTable('exercises')
+      .set({ status: 'closed', closed_at: now.toISOString() })
+      .where('id', '=', id)
+      .where('federation_id', '=', federationId)
+      .where('status', '=', 'open')
+      .executeTakeFirst();
+    if (Number(changed.numUpdatedRows) === 0) return false;
+    await audit(trx, { federationId, userId, action: 'close', entity: 'exercise', entityId: id });
+    return true;
+  });
+  if (!closed) {
     const row = await exerciseRow(ctx, federationId, id);
     throw new HttpError(409, 'conflict', `This exercise is ${row.status}: only an open exercise can be closed`);
   }
-  await audit(ctx.db, { federationId, userId, action: 'close', entity: 'exercise', entityId: id });
   await sendResults(ctx, federationId, id, now);
 }
 
@@ -875,12 +879,14 @@ export async function closeFlagWithExercise(
     status: 'closed',
     note: `${note} (calibration exercise #${id}: ${row.title})`,
   });
-  await ctx.db
-    .insertInto('exercise_flag_links')
-    .values({ flag_id: flagId, exercise_id: id, linked_by: userId })
-    .onConflict((oc) => oc.column('flag_id').doUpdateSet({ exercise_id: id, linked_by: userId, linked_at: new Date().toISOString() }))
-    .execute();
-  await audit(ctx.db, { federationId: federation.id, userId, action: 'flag.linked', entity: 'exercise', entityId: id, detail: { flagId } });
+  await ctx.db.transaction().execute(async (trx) => {
+    await trx
+      .insertInto('exercise_flag_links')
+      .values({ flag_id: flagId, exercise_id: id, linked_by: userId })
+      .onConflict((oc) => oc.column('flag_id').doUpdateSet({ exercise_id: id, linked_by: userId, linked_at: new Date().toISOString() }))
+      .execute();
+    await audit(trx, { federationId: federation.id, userId, action: 'flag.linked', entity: 'exercise', entityId: id, detail: { flagId } });
+  });
   return flag;
 }
 

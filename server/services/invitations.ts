@@ -166,16 +166,18 @@ export async function createInvitation(
 }
 
 export async function revokeInvitation(ctx: AppContext, federationId: number, invitationId: number, actorId: number): Promise<void> {
-  const result = await ctx.db
-    .updateTable('invitations')
-    .set({ revoked_at: nowIso() })
-    .where('id', '=', invitationId)
-    .where('federation_id', '=', federationId)
-    .where('accepted_at', 'is', null)
-    .where('revoked_at', 'is', null)
-    .executeTakeFirst();
-  if (Number(result.numUpdatedRows) === 0) throw new HttpError(404, 'not_found', 'No pending invitation with this id');
-  await audit(ctx.db, { federationId, userId: actorId, action: 'invitation.revoke', entity: 'invitation', entityId: invitationId });
+  await ctx.db.transaction().execute(async (trx) => {
+    const result = await trx
+      .updateTable('invitations')
+      .set({ revoked_at: nowIso() })
+      .where('id', '=', invitationId)
+      .where('federation_id', '=', federationId)
+      .where('accepted_at', 'is', null)
+      .where('revoked_at', 'is', null)
+      .executeTakeFirst();
+    if (Number(result.numUpdatedRows) === 0) throw new HttpError(404, 'not_found', 'No pending invitation with this id');
+    await audit(trx, { federationId, userId: actorId, action: 'invitation.revoke', entity: 'invitation', entityId: invitationId });
+  });
 }
 
 async function pendingInvitation(ctx: AppContext, token: string) {

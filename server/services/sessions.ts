@@ -2,6 +2,7 @@
 import crypto from 'node:crypto';
 import type { SessionView } from '../../shared/schemas/session';
 import type { AppContext } from '../context';
+import { audit } from './audit';
 
 /** The signed-in user and their active memberships, the federation where they do the most first. */
 export async function sessionView(ctx: AppContext, userId: number): Promise<SessionView> {
@@ -36,10 +37,14 @@ export async function sessionView(ctx: AppContext, userId: number): Promise<Sess
 }
 
 /** Records a new session for the user; returns its id (the cookie carries it, signed). */
+/** A new session of a user and its audit entry, in one transaction. */
 export async function createSessionRow(ctx: AppContext, userId: number): Promise<string> {
   const id = crypto.randomBytes(18).toString('base64url');
   const now = new Date().toISOString();
-  await ctx.db.insertInto('sessions').values({ id, user_id: userId, created_at: now, last_seen_at: now, revoked_at: null }).execute();
+  await ctx.db.transaction().execute(async (trx) => {
+    await trx.insertInto('sessions').values({ id, user_id: userId, created_at: now, last_seen_at: now, revoked_at: null }).execute();
+    await audit(trx, { userId, action: 'session.start', entity: 'user', entityId: userId });
+  });
   return id;
 }
 
