@@ -20,6 +20,7 @@
  * Writes bench/out/load.json. Loopback only; every loop is bounded.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
+import { ASSESSMENT_KINDS } from '../shared/schemas/common';
 import fs from 'node:fs';
 import net from 'node:net';
 import os from 'node:os';
@@ -202,7 +203,7 @@ try {
           seasons: options.seasons,
           eventLevels: options.eventLevels,
           categories: options.categories,
-          kinds: ['first', 'review', 'protest'],
+          kinds: [...ASSESSMENT_KINDS],
         },
         fields: ['athlete', 'panel_class', 'kind', 'season', 'event', 'event_level', 'category', 'date'],
         dateMode: 'month',

@@ -11,6 +11,7 @@
  * A mapping says, for each header of the file, which target it feeds (or "ignore"). Client and
  * server share this file: the client guesses and shows the mapping, the server applies it.
  */
+import { ASSESSMENT_KINDS_LIST } from './schemas/common';
 
 export const IMPORT_LAYOUTS = ['long', 'wide'] as const;
 export type ImportLayout = (typeof IMPORT_LAYOUTS)[number];
@@ -71,7 +72,7 @@ export const FIXED_LABELS: Record<FixedTarget, string> = {
   event_code: 'Event code',
   assessed_on: 'Date of assessment',
   panel_class: "Panel's sport class",
-  kind: 'Kind (first, review, protest)',
+  kind: `Kind (${ASSESSMENT_KINDS_LIST})`,
   note: 'Note',
   classifier_code: 'Classifier code',
   sport_class: 'Sport class',

@@ -8,6 +8,7 @@
  */
 import { classLabel, dayToIsoDate, type RatingSet } from './rating-set';
 import { proportionStat, type StatResult } from './result';
+import { ASSESSMENT_KINDS } from '../../shared/schemas/common';
 
 /** Outcome class index per assessment, −1 when undetermined. */
 export function assessmentOutcomes(set: RatingSet): Int32Array {
@@ -74,7 +75,7 @@ export function classTransitions(set: RatingSet): ClassTransitions {
         from: classLabel(set, from),
         to: classLabel(set, to),
         on: dayToIsoDate(set.day[cur]),
-        kind: ['first', 'review', 'protest'][set.kind[cur]],
+        kind: ASSESSMENT_KINDS[set.kind[cur]],
         assessmentId: set.assessmentIds[cur],
       });
     }

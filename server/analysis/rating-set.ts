@@ -8,9 +8,9 @@
  * every subset, so a classifier keeps the same index in every filtered view.
  */
 import { classCount, classIndex, formatClass, isOnScale, type ClassScale, type HalfPoints } from '../../shared/scale';
+import { ASSESSMENT_KINDS, ASSESSMENT_KINDS_LIST, type AssessmentKind } from '../../shared/schemas/common';
 
-export type AssessmentKind = 'first' | 'review' | 'protest';
-export const ASSESSMENT_KINDS: readonly AssessmentKind[] = ['first', 'review', 'protest'];
+export { ASSESSMENT_KINDS, type AssessmentKind };
 
 /** One classifier's rating of one assessment, as read from a tidy file or the database. */
 export interface RatingRow {
@@ -165,8 +165,8 @@ export function buildRatingSet(rows: readonly RatingRow[], scale: ClassScale): R
       );
     }
     const k = row.kind ?? 'first';
-    const kindIndex = ASSESSMENT_KINDS.indexOf(k);
-    if (kindIndex < 0) throw new RatingInputError(r, 'kind', row.kind, 'is not one of first, review, protest');
+    const kindIndex = (ASSESSMENT_KINDS as readonly string[]).indexOf(k);
+    if (kindIndex < 0) throw new RatingInputError(r, 'kind', row.kind, `is not one of ${ASSESSMENT_KINDS_LIST}`);
 
     const before = assessmentIds.length;
     const a = intern(assessmentMap, assessmentIds, id);

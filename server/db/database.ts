@@ -1,5 +1,6 @@
-import type { ColumnType, Generated, Insertable, Selectable, Updateable } from 'kysely';
+import type { ColumnType, Generated } from 'kysely';
 import type { Role } from '../../shared/schemas/common';
+import type { AssessmentKind } from '../../shared/schemas/common';
 
 /**
  * The database's tables, in one place. Classes are integers of half points (see shared/scale.ts);
@@ -100,7 +101,7 @@ export interface EventTable {
   created_at: CreatedAt;
 }
 
-export type AssessmentKind = 'first' | 'review' | 'protest';
+export type { AssessmentKind };
 
 export interface AssessmentTable {
   id: Generated<number>;
@@ -392,18 +393,3 @@ export interface Database {
   exercise_flag_links: ExerciseFlagLinkTable;
   background_jobs: BackgroundJobTable;
 }
-
-export type Federation = Selectable<FederationTable>;
-export type User = Selectable<UserTable>;
-export type Membership = Selectable<MembershipTable>;
-export type Classifier = Selectable<ClassifierTable>;
-export type NewClassifier = Insertable<ClassifierTable>;
-export type Athlete = Selectable<AthleteTable>;
-export type Event = Selectable<EventTable>;
-export type Assessment = Selectable<AssessmentTable>;
-export type NewAssessment = Insertable<AssessmentTable>;
-export type AssessmentUpdate = Updateable<AssessmentTable>;
-export type Rating = Selectable<RatingTable>;
-export type NewRating = Insertable<RatingTable>;
-export type ImportRecord = Selectable<ImportTable>;
-export type AuditEntry = Selectable<AuditLogTable>;

@@ -1,5 +1,6 @@
 import { DEFAULT_SCALE, type ClassScale, type HalfPoints } from '../../shared/scale';
 import { createRandom, type Random } from './random';
+import type { AssessmentKind } from '../../shared/schemas/common';
 
 /**
  * Generates an invented classification programme: a fictional federation with fictional
@@ -65,7 +66,7 @@ export interface ScenarioAssessment {
   athleteCode: string;
   eventCode: string;
   assessedOn: string;
-  kind: 'first' | 'review' | 'protest';
+  kind: AssessmentKind;
   panelClass: HalfPoints;
   ratings: ScenarioRating[];
 }

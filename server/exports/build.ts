@@ -6,6 +6,7 @@ import type { ExportCounts, ExportField, ExportFile, ExportRequest } from '../..
 import { DATE_MODE_LABELS } from '../../shared/schemas/exports';
 import { PSEUDONYM_ALPHABET, PSEUDONYM_BITS, PSEUDONYM_PREFIXES, pseudonymiser } from './pseudonyms';
 import { suppressSmallCells, type SuppressibleAssessment } from './suppression';
+import { ASSESSMENT_KINDS, type AssessmentKind } from '../../shared/schemas/common';
 
 export const EXPORT_FORMAT = 'panelwise.research-export/1';
 export const DICTIONARY_FORMAT = 'panelwise.research-export-dictionary/1';
@@ -18,7 +19,7 @@ export interface SourceRating {
   classifierKey: string;
   /** ISO date YYYY-MM-DD. */
   assessedOn: string;
-  kind: 'first' | 'review' | 'protest';
+  kind: AssessmentKind;
   category: string;
   eventLevel: string | null;
   sportClass: HalfPoints;
@@ -208,7 +209,7 @@ export function renderExport(input: BuildInput): BuiltExport {
       name: 'kind',
       type: 'string',
       nullable: true,
-      values: ['first', 'review', 'protest'],
+      values: [...ASSESSMENT_KINDS],
       description: 'first classification, review or protest; empty when suppressed.',
     });
   if (fields.has('season'))

@@ -20,6 +20,7 @@ import { buildExport, EXPORT_KEEP_DAYS } from './create';
 import { randomSecret } from './pseudonyms';
 import { exportSettings, NO_EVENT_LEVEL } from './scope';
 import { exportFilePath, exportsDirectory, removeExportFiles, type ExportStorageContext } from './storage';
+import { ASSESSMENT_KINDS } from '../../shared/schemas/common';
 
 export { EXPORT_KEEP_DAYS } from './create';
 export { DEFAULT_MIN_ATHLETES } from '../services/research-cells';
@@ -88,7 +89,7 @@ export async function exportOptions(db: Db, access: FederationAccess): Promise<E
     seasons,
     eventLevels: [...levels.map((l) => l.level), ...(withoutEvent ? [NO_EVENT_LEVEL] : [])],
     categories: categories.map((c) => c.category),
-    kinds: ['first', 'review', 'protest'],
+    kinds: [...ASSESSMENT_KINDS],
     events,
     minAthletes: settings.minAthletes,
     studies: await listStudies(db, federationId, true),

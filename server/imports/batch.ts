@@ -6,11 +6,11 @@
  * No database: the planner compares the batch with the federation's data afterwards.
  */
 import type { ImportLayout } from '../../shared/import-columns';
-import type { AssessmentKind } from '../analysis';
+import { ASSESSMENT_KINDS, type AssessmentKind } from '../../shared/schemas/common';
 import { formatClass } from '../../shared/scale';
 import { rowIssue, type IssueList } from './issues';
 
-export const KIND_CODES: readonly AssessmentKind[] = ['first', 'review', 'protest'];
+export const KIND_CODES: readonly AssessmentKind[] = ASSESSMENT_KINDS;
 
 /** The batch in columns (compact to keep and to stage as JSON). */
 export interface ValidatedBatch {

@@ -6,7 +6,8 @@
 import { z, type ZodType } from 'zod';
 import type { DateFormat } from '../../shared/import-columns';
 import { parseSportClass, type ClassScale } from '../../shared/scale';
-import { isoDateToDay, type AssessmentKind } from '../analysis';
+import { isoDateToDay } from '../analysis';
+import { ASSESSMENT_KINDS, ASSESSMENT_KINDS_LIST, type AssessmentKind } from '../../shared/schemas/common';
 
 export type FieldResult<T> = { ok: true; value: T } | { ok: false; message: string };
 export type FieldValidator<T> = (raw: string | undefined) => FieldResult<T>;
@@ -122,8 +123,8 @@ export function dateSchema(format: DateFormat): ZodType<string, string> {
 export const kindSchema: ZodType<AssessmentKind | null, string> = z.string().transform((raw, ctx) => {
   const text = raw.trim().toLowerCase();
   if (text === '') return null;
-  if (text === 'first' || text === 'review' || text === 'protest') return text;
-  ctx.addIssue({ code: 'custom', message: 'is not one of first, review, protest' });
+  if ((ASSESSMENT_KINDS as readonly string[]).includes(text)) return text as AssessmentKind;
+  ctx.addIssue({ code: 'custom', message: `is not one of ${ASSESSMENT_KINDS_LIST}` });
   return z.NEVER;
 });
 

@@ -3,7 +3,11 @@ import { z } from 'zod';
 export const roleSchema = z.enum(['lead', 'classifier', 'researcher']);
 export type Role = z.infer<typeof roleSchema>;
 
-export const assessmentKindSchema = z.enum(['first', 'review', 'protest']);
+/** The kinds of assessment, in this order everywhere (an index into it is a kind's code in typed arrays). */
+export const ASSESSMENT_KINDS = ['first', 'review', 'protest'] as const;
+export const assessmentKindSchema = z.enum(ASSESSMENT_KINDS);
+/** "first, review, protest", for messages. */
+export const ASSESSMENT_KINDS_LIST = ASSESSMENT_KINDS.join(', ');
 export type AssessmentKind = z.infer<typeof assessmentKindSchema>;
 
 /** Words people read for each assessment kind. */

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { DATE_FORMATS, IMPORT_LAYOUTS, isColumnTarget } from '../import-columns';
+import { assessmentKindSchema } from './common';
 
 export const importLayoutSchema = z.enum(IMPORT_LAYOUTS);
 export const dateFormatSchema = z.enum(DATE_FORMATS);
@@ -166,7 +167,7 @@ export const batchAssessmentSchema = z.object({
   athlete_code: z.string().max(64),
   event_code: z.string().max(64),
   assessed_on: z.string().max(40).meta({ description: 'ISO 8601 date (YYYY-MM-DD)' }),
-  kind: z.enum(['first', 'review', 'protest']).optional(),
+  kind: assessmentKindSchema.optional(),
   panel_class: sportClassInput.nullable().optional(),
   note: z.string().max(2000).nullable().optional(),
   ratings: z.array(batchRatingSchema).min(1).max(10),
