@@ -99,6 +99,23 @@ const boundaries = [
   })),
 ];
 
+/**
+ * Raw prepared statements (better-sqlite3's `prepare`) only in these files, each for its reason
+ * (docs/decisions/0012-raw-prepared-statements.md); everywhere else in server/, Kysely.
+ */
+const RAW_SQL_FILES = [
+  'server/imports/plan.ts', // hot loop: the import's plan reads the federation's codes and keys in bulk
+  'server/imports/write.ts', // hot loop inside the commit's synchronous transaction
+  'server/imports/service.ts', // commit, revert, expiry: synchronous transactions with their audit entries
+  'server/services/analytics-data.ts', // hot: every rating of a federation into the rating set, in a synchronous builder
+  'server/services/calibration-flags.ts', // the evaluation's flag rows and audit entries in one synchronous transaction
+  'server/services/research-cells.ts', // the federation's k, read by the synchronous code that cuts research views
+  'server/services/audit.ts', // auditSync, the audit writer of the synchronous transactions
+  'server/workers/jobs.ts', // the durable job's record is written before enqueue returns
+  'server/demo/seed.ts', // bulk insert of the demo in one synchronous transaction
+  'server/ops/backup.ts', // a backup file checked on a connection of its own, outside the app
+];
+
 export default tseslint.config(
   {
     ignores: [
@@ -179,4 +196,17 @@ export default tseslint.config(
     },
   },
   ...boundaries.map(({ files, patterns }) => ({ files, rules: { 'no-restricted-imports': ['error', { patterns }] } })),
+  {
+    files: ['server/**/*.ts'],
+    ignores: RAW_SQL_FILES,
+    rules: {
+      'no-restricted-syntax': [
+        'error',
+        {
+          selector: "CallExpression[callee.property.name='prepare']",
+          message: 'Query through Kysely (ctx.db); raw prepared statements are for the files listed in decision record 0012 only.',
+        },
+      ],
+    },
+  },
 );

@@ -9,13 +9,18 @@ import { describe, expect, it } from 'vitest';
 const eslint = new ESLint({
   cwd: process.cwd(),
   // Only the boundary rule: the type-aware rules need files that are part of a tsconfig project.
-  ruleFilter: ({ ruleId }) => ruleId === 'no-restricted-imports',
+  ruleFilter: ({ ruleId }) => ruleId === 'no-restricted-imports' || ruleId === 'no-restricted-syntax',
   overrideConfig: { languageOptions: { parserOptions: { projectService: false, project: null } } },
 });
 
 async function boundaryMessages(filePath: string, code: string): Promise<string[]> {
   const [result] = await eslint.lintText(code, { filePath });
   return (result?.messages ?? []).filter((m) => m.ruleId === 'no-restricted-imports').map((m) => m.message);
+}
+
+async function rawSqlMessages(filePath: string, code: string): Promise<string[]> {
+  const [result] = await eslint.lintText(code, { filePath });
+  return (result?.messages ?? []).filter((m) => m.ruleId === 'no-restricted-syntax').map((m) => m.message);
 }
 
 describe('import boundaries', () => {
@@ -59,5 +64,23 @@ describe('import boundaries', () => {
   it('shared/ imports nothing from the client or the server', async () => {
     expect(await boundaryMessages('shared/lint-case.ts', "import { x } from '../server/analysis';\n")).toHaveLength(1);
     expect(await boundaryMessages('shared/lint-case.ts', "import { z } from 'zod';\n")).toEqual([]);
+  });
+});
+
+describe('raw prepared statements (decision record 0012)', () => {
+  const code = "export const n = (ctx: any) => ctx.sqlite.prepare('select count(*) from ratings').pluck().get();\n";
+
+  it('are reported in a server file off the list', async () => {
+    const messages = await rawSqlMessages('server/services/lint-case.ts', code);
+    expect(messages).toHaveLength(1);
+    expect(messages[0]).toMatch(/Kysely/);
+    expect(await rawSqlMessages('server/routes/lint-case.ts', code)).toHaveLength(1);
+  });
+
+  it('are allowed in the listed files, and a Kysely query anywhere', async () => {
+    expect(await rawSqlMessages('server/imports/write.ts', code)).toEqual([]);
+    expect(await rawSqlMessages('server/services/lint-case.ts', "export const q = (ctx: any) => ctx.db.selectFrom('ratings');\n")).toEqual(
+      [],
+    );
   });
 });
