@@ -7,6 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { hashPassword } from '../../server/auth/password';
 import { apiRouter } from '../../server/routes/index';
 import { createApiToken } from '../../server/services/api-tokens';
+import { routesOf } from '../helpers/router-routes';
 import { createTestApp, signedInAgent, type TestApp } from '../helpers/test-app';
 import { CALLERS, type AccessEntry, type Caller } from './access/types';
 
@@ -25,34 +26,6 @@ const EMAILS: Partial<Record<Caller, string>> = {
   outsider: 'outsider@matrix.panelwise.test',
 };
 const OUTSIDER_PASSWORD = 'outsider-password';
-
-interface Layer {
-  route?: { path: unknown; methods: Record<string, boolean> };
-  handle?: { stack?: Layer[] };
-  rawPath?: unknown;
-  slash?: boolean;
-}
-
-/** Every (method, path) registered on a router, descending into nested routers. */
-export function registeredRoutes(router: { stack: Layer[] }, prefix = ''): { method: string; path: string }[] {
-  const out: { method: string; path: string }[] = [];
-  for (const layer of router.stack) {
-    if (layer.route) {
-      const paths = Array.isArray(layer.route.path) ? layer.route.path : [layer.route.path];
-      for (const p of paths) {
-        if (typeof p !== 'string')
-          throw new Error(`A route is registered with a non-string path (${String(p)}): the matrix cannot name it`);
-        for (const [method, on] of Object.entries(layer.route.methods))
-          if (on) out.push({ method: method === '_all' ? 'all' : method, path: prefix + p });
-      }
-    } else if (layer.handle?.stack) {
-      const mount = layer.slash || layer.rawPath === undefined || layer.rawPath === '/' ? '' : layer.rawPath;
-      if (typeof mount !== 'string') throw new Error(`A router is mounted on a non-string path (${String(mount)})`);
-      out.push(...registeredRoutes(layer.handle as { stack: Layer[] }, prefix + mount));
-    }
-  }
-  return out;
-}
 
 async function loadEntries(): Promise<(AccessEntry & { file: string })[]> {
   const folder = path.resolve(import.meta.dirname, 'access');
@@ -89,7 +62,7 @@ describe('role × route matrix', () => {
 
   beforeAll(async () => {
     t = await createTestApp({ seed: 'demo' });
-    routes = registeredRoutes(apiRouter(t.ctx) as unknown as { stack: Layer[] }).map((r) => ({ method: r.method, path: `/api${r.path}` }));
+    routes = routesOf(apiRouter(t.ctx)).map((r) => ({ method: r.method, path: `/api${r.path}` }));
 
     // The outsider: a lead of another federation only.
     const federation = await t.ctx.db
@@ -146,7 +119,7 @@ describe('role × route matrix', () => {
     const outer = express.Router();
     outer.use('/mounted', inner);
     outer.use(express.Router().get('/flat', (_req, res) => void res.end()));
-    expect(registeredRoutes(outer as unknown as { stack: Layer[] })).toEqual([
+    expect(routesOf(outer)).toEqual([
       { method: 'get', path: '/mounted/things/:id' },
       { method: 'post', path: '/mounted/things' },
       { method: 'delete', path: '/mounted/things' },
